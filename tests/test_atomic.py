@@ -1,0 +1,86 @@
+# SPDX-License-Identifier: MIT
+"""Atomic writes and the overwrite guard for workbooks swaytune did not make."""
+from __future__ import annotations
+
+import openpyxl
+import pytest
+
+from workbook_builder.atomic import (MARKER_NAME, OverwriteRefused, atomic_path, guard_overwrite,
+                                     is_swaytune_workbook, mark_workbook, save_workbook)
+
+
+def test_atomic_path_failure_leaves_destination(tmp_path):
+    dest = tmp_path / "book.xlsx"
+    dest.write_bytes(b"old")
+    with pytest.raises(RuntimeError, match="boom"):
+        with atomic_path(dest) as tmp:
+            tmp.write_bytes(b"half")
+            raise RuntimeError("boom")
+    assert dest.read_bytes() == b"old"
+    assert [p.name for p in tmp_path.iterdir()] == ["book.xlsx"]
+
+
+def test_marker_round_trip(tmp_path):
+    wb = openpyxl.Workbook()
+    mark_workbook(wb, "0.1.0")
+    mark_workbook(wb, "0.1.1")            # re-marking replaces, never duplicates
+    path = save_workbook(wb, tmp_path / "ours.xlsx")
+    assert is_swaytune_workbook(path)
+    back = openpyxl.load_workbook(path)
+    assert [p.value for p in back.custom_doc_props.props] == ["swaytune 0.1.1"]
+    assert back.defined_names[MARKER_NAME].hidden
+    save_workbook(openpyxl.Workbook(), path)   # ours: overwritten without force
+    assert not is_swaytune_workbook(path)
+
+
+def test_defined_name_marker_alone_counts(tmp_path):
+    wb = openpyxl.Workbook()
+    mark_workbook(wb, "0.1.0")
+    wb.custom_doc_props.props.clear()
+    wb.save(tmp_path / "n.xlsx")
+    assert is_swaytune_workbook(tmp_path / "n.xlsx")
+
+
+def test_foreign_workbook_refused_unless_forced(tmp_path):
+    theirs = tmp_path / "hand_made.xlsx"
+    openpyxl.Workbook().save(theirs)
+    before = theirs.read_bytes()
+    with pytest.raises(OverwriteRefused, match="was not produced by swaytune; refusing"):
+        save_workbook(openpyxl.Workbook(), theirs)
+    assert theirs.read_bytes() == before
+    ours = openpyxl.Workbook()
+    mark_workbook(ours, "0.1.0")
+    save_workbook(ours, theirs, force=True)
+    assert is_swaytune_workbook(theirs)
+
+
+@pytest.mark.parametrize("content", [b"", b"plain text", b"PK\x03\x04broken"])
+def test_non_workbook_files_are_not_ours(tmp_path, content):
+    p = tmp_path / "x.xlsx"
+    p.write_bytes(content)
+    assert not is_swaytune_workbook(p)
+    with pytest.raises(OverwriteRefused):
+        guard_overwrite(p)
+
+
+def test_directory_refused(tmp_path):
+    with pytest.raises(OverwriteRefused, match="is a directory"):
+        guard_overwrite(tmp_path)
+    guard_overwrite(tmp_path / "new.xlsx")   # a new file is always fine
+
+
+def test_new_files_get_usual_mode_and_replacements_keep_theirs(tmp_path):
+    import os
+    import stat
+
+    mask = os.umask(0o022)
+    try:
+        new = save_workbook(openpyxl.Workbook(), tmp_path / "new.xlsx")
+        assert stat.S_IMODE(new.stat().st_mode) == 0o644   # not mkstemp's private 0o600
+        os.chmod(new, 0o640)
+        ours = openpyxl.Workbook()
+        mark_workbook(ours, "0.1.0")
+        save_workbook(ours, new, force=True)
+        assert stat.S_IMODE(new.stat().st_mode) == 0o640
+    finally:
+        os.umask(mask)

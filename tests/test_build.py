@@ -1,0 +1,560 @@
+# SPDX-License-Identifier: MIT
+"""Workbook builder: formulas, cached values, names, protection, overwrite guard, CLI.
+
+Reference values come from the engine (functions/), which has its own tests against published
+sources; here the builder's native formulas and cached values must agree with it.
+"""
+from __future__ import annotations
+
+import math
+import shutil
+import zipfile
+from pathlib import Path
+
+import openpyxl
+import pytest
+from openpyxl.utils import get_column_letter
+
+from workbook_builder import cli
+from workbook_builder.atomic import OverwriteRefused
+from workbook_builder.build import CAUTIONS, BuildError, _Sheet, build_workbook, write_workbook
+from workbook_builder.calcsheet import CROSS_CHECK_TOLERANCE, INPUT_NAMES, all_steps
+from workbook_builder.formulas import (ALLOWED_FUNCTIONS, Evaluator, FormulaError, check_formula,
+                                       functions_used, is_error)
+from workbook_builder.project import load_project
+
+EXAMPLES = Path(__file__).resolve().parent.parent / "example_workbooks"
+EXAMPLE_NAMES = ["residential_tower", "observation_mast", "office_tower_us"]
+RESULTS = ["required_damping", "mass_ratio", "damper_mass", "tuning_ratio", "damper_damping",
+           "damper_frequency", "small_angle_length", "effective_damping",
+           "acceleration_with_damper", "structure_displacement", "stroke_ratio", "stroke",
+           "pendulum_length", "swing_angle_deg", "small_angle_error", "detuning", "stiffness",
+           "dashpot"]
+
+MINIMAL = """\
+[project]
+number = "T-1"
+title = "=1+1"
+notes = "=SUM(A1:A3) stays text"
+
+[mode]
+frequency = 0.2
+modal_mass = { value = 10000, unit = "t" }
+structural_damping = 0.01
+
+[wind]
+acceleration = 0.25
+acceleration_limit = 0.15
+
+[damper]
+mass_ratio = 0.02
+clearance = 1.5
+"""
+
+
+def _eval(formula: str, cells: dict | None = None):
+    wb = openpyxl.Workbook()
+    ws = wb.active
+    ws.title = "S"
+    for coord, value in (cells or {}).items():
+        ws[coord] = value
+    ws["Z99"] = formula
+    return Evaluator(wb).cell("S", 99, 26)
+
+
+# ----------------------------------------------------------------------------- formulas
+@pytest.mark.parametrize("formula, expected", [
+    # Excel operator precedence: negation before ^ (-2^2 = 4), ^ before * and / (Microsoft,
+    # "Calculation operators and precedence in Excel"); functions checked against Python's math.
+    ("=-2^2", 4.0),
+    ("=2^-1", 0.5),
+    ("=1+2*3^2", 19.0),
+    ("=(1+2)*3", 9.0),
+    ("=50%", 0.5),
+    ("=SQRT(2)", math.sqrt(2)),
+    ("=PI()", math.pi),
+    ("=DEGREES(ASIN(0.5))", 30.0),
+    ("=COS(RADIANS(60))", math.cos(math.radians(60))),
+    ("=ATAN2(1,2)", math.atan2(2, 1)),          # Excel's ATAN2 takes x first
+    ("=LN(EXP(2))", 2.0),
+    ("=POWER(2,10)", 1024.0),
+    ("=ABS(-3)", 3.0),
+    ("=MAX(1,5,3)", 5.0),
+    ("=MIN(A1:A3)", 1.0),
+    ("=SUMPRODUCT(A1:A3,POWER(A1:A3,2))", 1 + 8 + 27),
+    ("=INDEX(A1:A3,MATCH(2,A1:A3,0))", 2.0),
+    ('=IF(AND(A1<2,OR(A2>5,TRUE)),"OK","NOT OK")', "OK"),
+    ("=IFERROR(1/0,-1)", -1.0),
+    ("=ROUND(2.5,0)", 3.0),
+    ("=ROUND(-2.345,2)", -2.35),
+    ('="a"&"b"', "ab"),
+    ('=IF("ok"="OK",1,0)', 1.0),               # text comparison ignores case
+])
+def test_evaluator(formula, expected):
+    value = _eval(formula, {"A1": 1, "A2": 2, "A3": 3})
+    assert value == pytest.approx(expected, rel=1e-15) if isinstance(expected, float) \
+        else value == expected
+
+
+@pytest.mark.parametrize("formula", ["=1/0", "=SQRT(-1)", "=ASIN(2)", "=LN(0)", "=NOSUCH(1)",
+                                     "=missing_name+1", "=ATAN2(0,0)"])
+def test_evaluator_errors(formula):
+    assert is_error(_eval(formula))
+
+
+@pytest.mark.parametrize("formula, message", [
+    ("=LET(x,1,x)", r"uses LET, not in the allowed set"),
+    ("=XLOOKUP(1,A1:A3,B1:B3)", r"uses XLOOKUP"),
+    ("=IFS(A1>1,1)", r"uses IFS"),
+    ("=A1:A3*2", r"uses a range outside SUMPRODUCT"),
+    ("=MAX(A1:A3*2)", r"uses a range outside SUMPRODUCT"),
+    ("=SUMPRODUCT(IF(A1:A3>1,1,0))", r"uses a range outside SUMPRODUCT"),
+    ("=1+", r"ends too early"),
+    ("=SQRT(2", r"ends too early"),
+])
+def test_check_formula_refuses(formula, message):
+    with pytest.raises(FormulaError, match=message):
+        check_formula(formula)
+
+
+def test_functions_used():
+    assert functions_used("=SQRT(ABS(x))+IF(a>1,PI(),0)") == {"SQRT", "ABS", "IF", "PI"}
+
+
+@pytest.mark.parametrize("method", ["h2", "hinf", "den_hartog", "white_noise_force",
+                                    "nishihara_asami", "harmonic_base", "white_noise_base"])
+@pytest.mark.parametrize("mode", ["chosen_mass_ratio", "chosen_damper_mass", "required"])
+def test_every_declared_formula_is_allowed(method, mode):
+    for step in all_steps(method, mode):
+        formula = getattr(step, "formula", None)
+        if formula:
+            check_formula(formula)
+            assert functions_used(formula) <= ALLOWED_FUNCTIONS
+
+
+def test_closed_form_tuning_formulas_match_the_engine():
+    """The closed-form optima written for the sheet equal functions.damper.optimal_tuning."""
+    from functions.damper import CLOSED_FORM_METHODS, optimal_tuning
+    for method in CLOSED_FORM_METHODS:
+        steps = {s.name: s for s in all_steps(method, "chosen_mass_ratio")}
+        for mu in (0.005, 0.02, 0.08):
+            wb = openpyxl.Workbook()
+            ws = wb.active
+            ws["A1"] = mu
+            from openpyxl.workbook.defined_name import DefinedName
+            wb.defined_names.add(DefinedName("mass_ratio", attr_text="Sheet!$A$1"))
+            ws["B1"] = steps["tuning_ratio"].formula
+            ws["B2"] = steps["damper_damping"].formula
+            ev = Evaluator(wb)
+            f, zd = optimal_tuning(mu, method)
+            assert ev.cell("Sheet", 1, 2) == pytest.approx(f, rel=1e-13), method
+            assert ev.cell("Sheet", 2, 2) == pytest.approx(zd, rel=1e-13), method
+
+
+# ----------------------------------------------------------------------------- built workbooks
+@pytest.fixture(scope="module")
+def built(tmp_path_factory):
+    out = {}
+    folder = tmp_path_factory.mktemp("built")
+    for name in EXAMPLE_NAMES:
+        project = load_project(EXAMPLES / f"{name}.toml")
+        path = folder / f"{name}.xlsx"
+        out[name] = (write_workbook(project, path), path)
+    return out
+
+
+def _named_cell(wb, name):
+    sheet, coord = list(wb.defined_names[name].destinations)[0]
+    return wb[sheet][coord.replace("$", "")]
+
+
+@pytest.mark.parametrize("name", EXAMPLE_NAMES)
+def test_cached_values_equal_the_engine(built, name):
+    b, path = built[name]
+    wb = openpyxl.load_workbook(path, data_only=True)
+    for field in RESULTS:
+        cached = _named_cell(wb, field).value
+        engine = getattr(b.result, field)
+        assert isinstance(cached, (int, float)), field
+        assert cached == pytest.approx(engine, rel=CROSS_CHECK_TOLERANCE, abs=1e-15), field
+
+
+@pytest.mark.parametrize("name", EXAMPLE_NAMES)
+def test_every_formula_cell_has_a_cached_value_and_is_allowed(built, name):
+    _, path = built[name]
+    wf = openpyxl.load_workbook(path)
+    wv = openpyxl.load_workbook(path, data_only=True)
+    count = 0
+    for ws in wf.worksheets:
+        for row in ws.iter_rows():
+            for cell in row:
+                if cell.data_type == "f":
+                    count += 1
+                    check_formula(cell.value)
+                    cached = wv[ws.title][cell.coordinate].value
+                    assert cached is not None, f"{ws.title}!{cell.coordinate}"
+                    assert not (isinstance(cached, str) and cached.startswith("#"))
+    assert count > 300
+
+
+@pytest.mark.parametrize("name", EXAMPLE_NAMES)
+def test_checks_sheet_verdicts(built, name):
+    b, _ = built[name]
+    assert all(rel <= CROSS_CHECK_TOLERANCE for *_, rel in b.cross_checks)
+    assert {n for n, *_ in b.cross_checks} == set(RESULTS)
+    assert b.value("all_cross_checks") == "OK"
+    assert b.value("fixed_point_converged") == "OK"
+    # the workbook's verdicts agree with the engine's checks, in the same order
+    assert [v == "OK" for _, v in b.design_verdicts] == [ok for _, ok in b.engine_checks]
+
+
+@pytest.mark.parametrize("name", EXAMPLE_NAMES)
+def test_names_protection_and_validation(built, name):
+    b, path = built[name]
+    wb = openpyxl.load_workbook(path)
+    names = set(wb.defined_names.keys())
+    for spec_name, defined in INPUT_NAMES.items():
+        if spec_name in b.project.inputs:
+            assert defined in names
+    assert set(RESULTS) <= names
+    for n in names:
+        assert not n[:3].isalpha() or not n[3:].isdigit()       # not a cell address
+    listed = {c.value for c in wb["Names"]["A"][4:] if c.value}
+    assert listed == {n for n in names if n != "SWAYTUNE_GENERATOR"}
+    for ws in wb.worksheets:
+        assert ws.protection.sheet and not ws.protection.password, ws.title
+    inputs = wb["Inputs"]
+    validated = set()
+    for dv in inputs.data_validations.dataValidation:
+        for rng in dv.sqref.ranges:
+            validated |= {f"{get_column_letter(c)}{r}" for r, c in rng.cells}
+        check_formula("=" + dv.formula1)
+    n_inputs = 0
+    for row in inputs.iter_rows(min_row=5):
+        for c in row:
+            if c.fill.fgColor.rgb.endswith("FFF2CC") and c.value is not None:
+                n_inputs += 1
+                assert isinstance(c.value, (int, float))
+                assert c.protection.locked is False, c.coordinate
+                assert c.coordinate in validated, c.coordinate
+            elif c.value is not None:
+                assert c.protection.locked is not False, c.coordinate
+    assert n_inputs >= 10
+    for ws in wb.worksheets:
+        for row in ws.iter_rows():
+            for cell in row:
+                if cell.data_type == "f":
+                    assert cell.protection.locked, f"{ws.title}!{cell.coordinate}"
+
+
+def test_paper_and_layout(built):
+    wb = openpyxl.load_workbook(built["office_tower_us"][1])
+    for title in ("Inputs", "Calculation", "Checks"):
+        ws = wb[title]
+        assert str(ws.page_setup.paperSize) == ws.PAPERSIZE_LETTER
+        assert ws.sheet_properties.pageSetUpPr.fitToPage and ws.page_setup.fitToWidth == 1
+        assert ws.print_title_rows
+    wb = openpyxl.load_workbook(built["residential_tower"][1])
+    assert str(wb["Calculation"].page_setup.paperSize) == wb["Calculation"].PAPERSIZE_A4
+
+
+def test_cautions_and_record(built):
+    b, path = built["residential_tower"]
+    wb = openpyxl.load_workbook(path)
+    text = " ".join(str(c.value) for row in wb["Cautions"].iter_rows() for c in row if c.value)
+    for word in ("preliminary design aid", "licensed", "local codes", "wind-tunnel",
+                 "manufacturer"):
+        assert word in text
+    record = {r[0].value: r[1].value for r in wb["Record"].iter_rows(min_row=3) if r[0].value}
+    assert record["Source file"] == "residential_tower.toml"
+    assert record["Program"].startswith("swaytune ")
+    assert len(record["Source SHA-256"]) == 64
+    assert len(CAUTIONS) >= 5
+
+
+def test_text_starting_with_equals_stays_text(tmp_path):
+    src = tmp_path / "p.toml"
+    src.write_text(MINIMAL, encoding="utf-8")
+    path = tmp_path / "p.xlsx"
+    write_workbook(load_project(src), path)
+    wb = openpyxl.load_workbook(path)
+    texts = [c for ws in wb.worksheets for row in ws.iter_rows() for c in row
+             if isinstance(c.value, str) and c.value in ("=1+1", "=SUM(A1:A3) stays text")]
+    assert len(texts) == 2
+    assert all(c.data_type == "s" for c in texts)
+
+
+def test_nan_and_inf_are_refused_by_the_writer():
+    sh = _Sheet(None, openpyxl.Workbook().active)
+    for bad in (math.nan, math.inf, -math.inf):
+        with pytest.raises(BuildError, match=r"cannot be written \(NaN and inf are refused\)"):
+            sh.put(1, 1, bad)
+
+
+def test_formulas_follow_changed_inputs_and_flag_engine_values(built, tmp_path):
+    """Change inputs in the file and re-evaluate its formulas: the closed-form chain follows
+    the engine, and the engine-value flag reports the change."""
+    from functions.design import design_damper
+    b, path = built["residential_tower"]
+    wb = openpyxl.load_workbook(path)
+    acc = _named_cell(wb, "acceleration")          # SI cell = entered value * factor
+    entered = wb["Inputs"][f"C{acc.row}"]
+    entered.value = entered.value * 1.1
+    ev = Evaluator(wb)
+    kw = b.project.design_kwargs()
+    kw["acceleration"] *= 1.1
+    new = design_damper(**kw)
+    assert ev.evaluate("=required_damping", "Calculation") == pytest.approx(
+        new.required_damping, rel=1e-12)
+    flag = ev.evaluate("=engine_flag_1", "Calculation")
+    assert flag == "INPUTS CHANGED: rebuild"
+    wb2 = openpyxl.load_workbook(path)
+    assert Evaluator(wb2).evaluate("=engine_flag_1", "Calculation") == "current"
+
+
+def test_chosen_mass_ratio_chain_recomputes_exactly(tmp_path):
+    """With a chosen mass ratio and unchanged optimum inputs, every downstream formula equals
+    the engine after an input that the engine values do not depend on changes."""
+    from functions.design import design_damper
+    src = tmp_path / "p.toml"
+    src.write_text(MINIMAL, encoding="utf-8")
+    b = build_workbook(load_project(src))
+    wb = b.workbook
+    sheet, coord = b.names["clearance"]
+    clearance_entered = wb["Inputs"][f"C{wb[sheet][coord].row}"]
+    clearance_entered.value = 0.1
+    acc_row = wb[b.names["acceleration"][0]][b.names["acceleration"][1]].row
+    wb["Inputs"][f"C{acc_row}"].value = 0.3
+    ev = Evaluator(wb)
+    kw = b.project.design_kwargs()
+    kw["clearance"] = 0.1
+    kw["acceleration"] = 0.3
+    new = design_damper(**kw)
+    for field in RESULTS:
+        assert ev.evaluate(f"={field}", "Calculation") == pytest.approx(
+            getattr(new, field), rel=1e-9), field
+    assert ev.evaluate("=Checks!G5", "Checks") == ("OK" if new.stroke <= 0.1 else "NOT OK")
+
+
+# ----------------------------------------------------------------------------- overwrite guard
+def test_never_overwrites_a_foreign_file(tmp_path):
+    src = tmp_path / "p.toml"
+    src.write_text(MINIMAL, encoding="utf-8")
+    project = load_project(src)
+    foreign = tmp_path / "mine.xlsx"
+    wb = openpyxl.Workbook()
+    wb.active["A1"] = "hand-made"
+    wb.save(foreign)
+    before = foreign.read_bytes()
+    with pytest.raises(OverwriteRefused, match=r"was not produced by swaytune"):
+        write_workbook(project, foreign)
+    assert foreign.read_bytes() == before
+    write_workbook(project, foreign, force=True)
+    assert openpyxl.load_workbook(foreign)["Summary"] is not None
+    write_workbook(project, foreign)          # ours now: rebuilding over it is fine
+    assert not list(tmp_path.glob("*.tmp"))   # atomic write left nothing behind
+
+
+def test_written_file_is_a_valid_package(built):
+    _, path = built["observation_mast"]
+    with zipfile.ZipFile(path) as zf:
+        assert zf.testzip() is None
+        assert "docProps/custom.xml" in zf.namelist()
+
+
+# ----------------------------------------------------------------------------- command line
+def test_cli_build(tmp_path, capsys):
+    src = tmp_path / "p.toml"
+    src.write_text(MINIMAL, encoding="utf-8")
+    out = tmp_path / "out.xlsx"
+    assert cli.main(["build", str(src), "-o", str(out)]) == 0
+    text = capsys.readouterr().out
+    assert out.is_file()
+    assert "pendulum" not in text.lower() or "L [m]" in text
+    assert "CAUTION" in text and "licensed" in text
+    assert "OK (" in text       # cross-check verdict column
+
+
+def test_cli_error_names_key_and_line(tmp_path, capsys):
+    src = tmp_path / "bad.toml"
+    src.write_text(MINIMAL.replace("frequency = 0.2", "frequency = -1"), encoding="utf-8")
+    assert cli.main(["build", str(src), "-o", str(tmp_path / "x.xlsx")]) == 1
+    err = capsys.readouterr().err
+    assert "bad.toml:7: mode.frequency: -1 Hz must be in (0, 20] [Hz]" in err
+    assert "CAUTION" in err
+    assert not (tmp_path / "x.xlsx").exists()
+
+
+def test_cli_refuses_foreign_output(tmp_path, capsys):
+    src = tmp_path / "p.toml"
+    src.write_text(MINIMAL, encoding="utf-8")
+    out = tmp_path / "notes.xlsx"
+    out.write_bytes(b"not a workbook")
+    assert cli.main(["build", str(src), "-o", str(out)]) == 1
+    assert "refusing to overwrite" in capsys.readouterr().err
+    assert out.read_bytes() == b"not a workbook"
+    assert cli.main(["build", str(src), "-o", str(out), "--force"]) == 0
+
+
+def test_cli_csv_builds_one_workbook_per_row(tmp_path, capsys):
+    csv_text = ("case,mode.frequency,mode.modal_mass [t],mode.structural_damping [%],"
+                "wind.acceleration [milli-g],wind.acceleration_limit [milli-g],"
+                "damper.mass_ratio,damper.clearance\n"
+                "tower A,0.2,10000,1.0,25,15,0.02,1.5\n"
+                "tower B,0.25,12000,1.2,22,15,0.015,1.2\n")
+    src = tmp_path / "cases.csv"
+    src.write_text(csv_text, encoding="utf-8")
+    assert cli.main(["build", str(src), "-o", str(tmp_path / "out")]) == 0
+    assert sorted(p.name for p in (tmp_path / "out").iterdir()) == ["tower_A.xlsx",
+                                                                     "tower_B.xlsx"]
+    assert "tower_B.xlsx" in capsys.readouterr().out
+
+
+def test_cli_examples_into_a_copy(tmp_path, capsys):
+    for name in EXAMPLE_NAMES[:1]:
+        shutil.copy(EXAMPLES / f"{name}.toml", tmp_path)
+    assert cli.main(["examples", "--dir", str(tmp_path)]) == 0
+    out = capsys.readouterr().out
+    assert (tmp_path / "residential_tower.xlsx").is_file()
+    assert "residential_tower.xlsx" in out and "cross-check" in out and "CAUTION" in out
+
+
+def test_cli_examples_empty_dir(tmp_path, capsys):
+    assert cli.main(["examples", "--dir", str(tmp_path)]) == 1
+    assert "no example projects" in capsys.readouterr().err
+
+
+def test_template(tmp_path):
+    """A firm's template keeps its sheet and gets its title block filled."""
+    from workbook_builder.template import add_default_title_block
+    firm = openpyxl.Workbook()
+    ws = firm.active
+    ws.title = "Firm cover"
+    add_default_title_block(ws, {}, define_names=True)
+    ws["A10"] = "Firm's own text"
+    template = tmp_path / "firm.xlsx"
+    firm.save(template)
+    src = tmp_path / "p.toml"
+    src.write_text(MINIMAL, encoding="utf-8")
+    out = tmp_path / "t.xlsx"
+    assert cli.main(["build", str(src), "-o", str(out), "--template", str(template)]) == 0
+    wb = openpyxl.load_workbook(out)
+    assert wb.sheetnames[0] == "Firm cover"
+    assert wb["Firm cover"]["A10"].value == "Firm's own text"
+    assert _named_cell(wb, "TB_PROJECT_NUMBER").value == "T-1"
+    assert _named_cell(wb, "TB_TITLE").value == "=1+1"
+    assert {"Summary", "Inputs", "Calculation", "Checks", "Cautions"} <= set(wb.sheetnames)
+
+
+def test_symbols_and_units_come_from_the_engine_declaration():
+    """One declaration: symbols and units of inputs, steps and checks match functions.design."""
+    from functions.design import CHECK_NAMES, QUANTITIES
+    from workbook_builder.calcsheet import design_checks
+    from workbook_builder.project import INPUT_SPECS
+    for spec in INPUT_SPECS:
+        if spec.name in QUANTITIES and spec.name not in ("mass_ratio", "damper_mass"):
+            assert spec.symbol == QUANTITIES[spec.name].symbol, spec.name
+    for method in ("h2", "den_hartog"):
+        for step in all_steps(method, "required"):
+            if step.engine:
+                q = QUANTITIES[step.engine]
+                assert (step.symbol, step.unit) == (q.symbol, q.unit), step.name
+    assert tuple(c.engine_keyword for c in design_checks()) == CHECK_NAMES
+
+
+def test_closed_form_method_builds_with_formulas(tmp_path):
+    """A closed-form method puts the optimum in formulas (no engine value, no flag)."""
+    src = tmp_path / "p.toml"
+    src.write_text(MINIMAL.replace("mass_ratio = 0.02",
+                                   'mass_ratio = 0.02\ntuning_method = "white_noise_force"'),
+                   encoding="utf-8")
+    b = build_workbook(load_project(src))
+    sheet, coord = b.names["tuning_ratio"]
+    assert b.workbook[sheet][coord].data_type == "f"
+    assert "engine_flag_1" not in b.names
+    assert all(rel <= CROSS_CHECK_TOLERANCE for *_, rel in b.cross_checks)
+    assert b.value("all_cross_checks") == "OK"
+
+
+def test_required_mass_ratio_meets_the_limit_exactly(built):
+    """The required mass ratio brings the acceleration to the limit; the check allows 1e-9
+    for rounding, as functions.design does."""
+    b, _ = built["residential_tower"]
+    assert b.value("acceleration_with_damper") == pytest.approx(b.value("acceleration_limit"),
+                                                                rel=1e-12)
+    assert b.design_verdicts[0][1] == "OK"
+
+
+# ----------------------------------------------------------------------------- property
+from hypothesis import HealthCheck, given, settings  # noqa: E402
+from hypothesis import strategies as st  # noqa: E402
+
+from functions.damper import OPTIMAL_TUNING_METHODS  # noqa: E402
+from workbook_builder.project import parse_project  # noqa: E402
+
+
+@settings(max_examples=12, deadline=None, suppress_health_check=[HealthCheck.too_slow])
+@given(frequency=st.floats(0.08, 1.5), zeta=st.floats(0.005, 0.03),
+       ratio=st.floats(1.2, 2.5), mode=st.sampled_from(["mu", "md", "required"]),
+       mu=st.floats(0.005, 0.05), method=st.sampled_from(OPTIMAL_TUNING_METHODS))
+def test_formulas_agree_with_the_engine_across_inputs(frequency, zeta, ratio, mode, mu, method):
+    """Random projects in the practical range: every formula result equals the engine."""
+    damper = {"clearance": 2.0, "tuning_method": method}
+    if mode == "mu":
+        damper["mass_ratio"] = mu
+    elif mode == "md":
+        damper["damper_mass"] = mu * 2e7
+    data = {"mode": {"frequency": frequency, "modal_mass": 2e7, "structural_damping": zeta},
+            "wind": {"acceleration": 0.1 * ratio, "acceleration_limit": 0.1},
+            "damper": damper}
+    b = build_workbook(parse_project(data, source="random"))
+    worst = max(rel for *_, rel in b.cross_checks)
+    assert worst <= CROSS_CHECK_TOLERANCE
+    assert b.value("all_cross_checks") == "OK"
+    assert [v == "OK" for _, v in b.design_verdicts] == [ok for _, ok in b.engine_checks]
+
+
+def test_python_m_workbook_builder(tmp_path):
+    import subprocess
+    import sys
+    src = tmp_path / "p.toml"
+    src.write_text(MINIMAL, encoding="utf-8")
+    run = subprocess.run([sys.executable, "-m", "workbook_builder", "build", str(src), "-o",
+                          str(tmp_path / "p.xlsx")], capture_output=True, text=True,
+                         timeout=300)
+    assert run.returncode == 0, run.stderr
+    assert (tmp_path / "p.xlsx").is_file() and "CAUTION" in run.stdout
+
+
+def test_engine_refusal_is_reported_with_the_source(tmp_path, capsys):
+    """Neither mass given and the structure already meets the limit: the engine refuses."""
+    src = tmp_path / "calm.toml"
+    src.write_text(MINIMAL.replace("mass_ratio = 0.02\n", "").replace(
+        "acceleration = 0.25", "acceleration = 0.1"), encoding="utf-8")
+    with pytest.raises(ValueError, match=r"calm\.toml: the design cannot be computed: "
+                                         r"acceleration=0\.1 is already within"):
+        build_workbook(load_project(src))
+    assert cli.main(["build", str(src)]) == 1
+    assert "no damper is required" in capsys.readouterr().err
+    assert not (tmp_path / "calm.xlsx").exists()
+
+
+def test_refuses_to_overwrite_a_workbook_changed_after_the_build(tmp_path):
+    from workbook_builder.build import DIGEST_PROPERTY, content_digest
+    src = tmp_path / "p.toml"
+    src.write_text(MINIMAL, encoding="utf-8")
+    project = load_project(src)
+    out = tmp_path / "p.xlsx"
+    b = write_workbook(project, out)
+    wb = openpyxl.load_workbook(out)
+    stored = [p.value for p in wb.custom_doc_props.props if p.name == DIGEST_PROPERTY]
+    assert stored == [content_digest(wb)]            # digest of the cells as read back
+    write_workbook(project, out)                     # unchanged: rebuilding is fine
+    sheet, coord = b.names["clearance"]
+    wb[sheet]["I5"] = "checked by hand, see my note"  # an engineer's edit
+    wb.save(out)
+    before = out.read_bytes()
+    with pytest.raises(OverwriteRefused, match=r"was changed after swaytune built it"):
+        write_workbook(project, out)
+    assert out.read_bytes() == before
+    write_workbook(project, out, force=True)

@@ -1,0 +1,266 @@
+# SPDX-License-Identifier: MIT
+"""Charts sheet: table values against independent references, chart data caches, rendering."""
+from __future__ import annotations
+
+import math
+import re
+import shutil
+import subprocess
+import types
+import zipfile
+from xml.etree import ElementTree
+
+import numpy as np
+import openpyxl
+import pytest
+from scipy.special import ellipk
+
+from functions import damper
+from workbook_builder import charts, office
+
+NS = {"c": "http://schemas.openxmlformats.org/drawingml/2006/chart",
+      "a": "http://schemas.openxmlformats.org/drawingml/2006/main"}
+needs_soffice = pytest.mark.skipif(office.find_soffice() is None,
+                                   reason="LibreOffice (soffice) not installed")
+
+
+def standin(mu=0.02, zs=0.01, method="h2", swing=9.0, required=0.035):
+    """An object with DesignResult's attribute names, filled from engine calls."""
+    f, zd = damper.optimal_tuning(mu, method, 0.0 if method in damper.CLOSED_FORM_METHODS else zs)
+    inputs = types.SimpleNamespace(frequency=0.2, structural_damping=zs, tuning_method=method,
+                                   mass_ratio_min=0.005, mass_ratio_max=0.05, max_swing_deg=15.0)
+    return types.SimpleNamespace(inputs=inputs, mass_ratio=mu, tuning_ratio=f, damper_damping=zd,
+                                 swing_angle_deg=swing, required_damping=required,
+                                 effective_damping=damper.effective_damping(mu, f, zd, zs))
+
+
+def _design_result(method="h2"):
+    design = pytest.importorskip("functions.design")
+    return design.design_damper(frequency=0.2, modal_mass=2.0e7, structural_damping=0.01,
+                                acceleration=0.25, acceleration_limit=0.15, clearance=1.5,
+                                tuning_method=method)
+
+
+@pytest.fixture(scope="module")
+def tables():
+    return charts.chart_tables(standin())
+
+
+def test_period_table_against_elliptic_integral(tables):
+    # T/T0 = (2/pi) K(m), m = sin^2(theta0/2): Abramowitz & Stegun (1964) 17.2 (parameter m);
+    # reference values from scipy.special.ellipk.
+    rows = tables["period"].rows
+    assert rows[0][0] == 0.0 and rows[-1][0] == 60.0 and len(rows) == 31
+    for amp, exact, small in rows:
+        ref = 2 / math.pi * ellipk(math.sin(math.radians(amp) / 2) ** 2)
+        assert exact == pytest.approx(ref, rel=1e-12)
+        assert small == 1.0
+    # 60 deg: T/T0 = 1.0732 (computed, REFERENCES.md series/AGM).
+    assert rows[-1][1] == pytest.approx(1.0731820071493643, rel=1e-12)
+
+
+def test_period_marks(tables):
+    marks = tables["period_marks"].rows
+    # 15 deg rule of thumb: common practice, no source; error there about 0.43 % (REFERENCES.md).
+    assert marks[0][1] == marks[1][1] == charts.RULE_OF_THUMB_DEG == 15.0
+    assert marks[2][1] == 9.0
+    assert marks[2][2] == pytest.approx(2 / math.pi * ellipk(math.sin(math.radians(4.5)) ** 2),
+                                        rel=1e-12)
+
+
+def test_amplitude_range_extends_to_design_swing():
+    t = charts.chart_tables(standin(swing=71.0))
+    assert t["period"].rows[-1][0] >= 76.0
+
+
+def _two_dof_amplification(r, mu, f, zd, zs):
+    """|x_s| / (F/k_s) from the 2-DOF equations solved directly (independent of the engine).
+
+    Structure mass 1, stiffness 1, damping 2 zs; damper mass mu, stiffness mu f^2, damping
+    2 mu zd f (time in 1/omega_s). Den Hartog, Mechanical Vibrations (1956), §3.3 set-up.
+    """
+    w = r
+    k = np.array([[1 + mu * f * f, -mu * f * f], [-mu * f * f, mu * f * f]])
+    cd = 2 * mu * zd * f
+    c = np.array([[2 * zs + cd, -cd], [-cd, cd]])
+    m = np.diag([1.0, mu])
+    x = np.linalg.solve(k + 1j * w * c - w * w * m, np.array([1.0, 0.0]))
+    return abs(x[0])
+
+
+def test_response_table_against_direct_solution(tables):
+    res = standin()
+    for r, bare, with_damper in tables["response"].rows:
+        # SDOF: 1 / sqrt((1 - r^2)^2 + (2 zeta r)^2) (Den Hartog 1956, §2.4; textbook).
+        assert bare == pytest.approx(1 / math.hypot(1 - r * r, 2 * 0.01 * r), rel=1e-12)
+        assert with_damper == pytest.approx(
+            _two_dof_amplification(r, res.mass_ratio, res.tuning_ratio, res.damper_damping, 0.01),
+            rel=1e-9)
+    at_one = [row for row in tables["response"].rows if abs(row[0] - 1.0) < 1e-12][0]
+    assert at_one[1] == pytest.approx(50.0, rel=1e-12)          # 1 / (2 zeta_s), zeta_s = 1 %
+    assert max(row[2] for row in tables["response"].rows) < 12  # damper removes the peak
+
+
+def test_damping_table(tables):
+    rows = tables["damping"].rows
+    assert rows[0][0] == pytest.approx(0.005) and rows[-1][0] == pytest.approx(0.05)
+    res = standin()
+    for mu, f, zd, zeff in rows:
+        f_ref, zd_ref = damper.optimal_tuning(mu, "h2", 0.01)
+        assert (f, zd) == pytest.approx((f_ref, zd_ref), rel=1e-12)
+        assert zeff == pytest.approx(damper.effective_damping(mu, f_ref, zd_ref, 0.01), rel=1e-12)
+    design_row = [row for row in rows if abs(row[0] - 0.02) < 1e-12][0]
+    assert design_row[3] == pytest.approx(res.effective_damping, rel=1e-9)
+    marks = tables["damping_marks"].rows
+    assert marks[0][2] == marks[1][2] == 0.035 and marks[2][1:] == (0.02, res.effective_damping)
+
+
+def test_effective_damping_undamped_structure_sqrt_mu_over_4():
+    # zeta_eff ~ sqrt(mu)/4 for an optimal damper on an undamped structure (McNamara, J. Struct.
+    # Div. ASCE 103, 1977; Luft, J. Struct. Div. ASCE 105, 1979; from memory): within 1 % here.
+    t = charts.chart_tables(standin(zs=0.0, method="white_noise_force"), frequency_ratio_range=(
+        0.6, 0.95))
+    for mu, _, _, zeff in t["damping"].rows:
+        assert zeff == pytest.approx(math.sqrt(mu) / 4, rel=0.01)
+
+
+def test_mass_ratio_range_extends_to_design():
+    t = charts.chart_tables(standin(mu=0.08))
+    assert t["damping"].rows[-1][0] == pytest.approx(0.08)
+
+
+@pytest.mark.parametrize("kwargs, match", [
+    ({"amplitude_max_deg": 180.0}, r"amplitude_max_deg=180.0 .* < 180 \[deg\]"),
+    ({"amplitude_step_deg": 0.0}, r"amplitude_step_deg=0.0 must satisfy"),
+    ({"frequency_ratio_range": (1.2, 0.8)}, r"frequency_ratio_range=\(1.2, 0.8\) must be"),
+    ({"frequency_points": 2}, r"frequency_points=2 >= 3"),
+    ({"mass_ratio_points": 1}, r"mass_ratio_points=1 must be >= 3"),
+    ({"mass_ratio_range": (-0.1, 0.05)}, r"mass_ratio_range=\(-0.1, 0.05\) must be 0 < low"),
+])
+def test_bad_options(kwargs, match):
+    with pytest.raises(ValueError, match=match):
+        charts.chart_tables(standin(), **kwargs)
+
+
+def test_undamped_structure_at_resonance_is_refused():
+    # zeta_s = 0 makes the bare response infinite at r = 1: never written as an empty cell.
+    with pytest.raises(ValueError, match="non-finite value inf"):
+        charts.chart_tables(standin(zs=0.0, method="white_noise_force"),
+                            frequency_ratio_range=(0.5, 1.5), frequency_points=3)
+
+
+@pytest.fixture(scope="module")
+def saved(tmp_path_factory):
+    path = tmp_path_factory.mktemp("charts") / "charts.xlsx"
+    wb = openpyxl.Workbook()
+    wb.active.title = "Inputs"
+    charts.add_charts_sheet(wb, standin())
+    wb.save(path)
+    return path
+
+
+def _chart_xml(path):
+    with zipfile.ZipFile(path) as zf:
+        names = sorted(n for n in zf.namelist() if re.fullmatch(r"xl/charts/chart\d+\.xml", n))
+        return [ElementTree.fromstring(zf.read(n)) for n in names]
+
+
+def _text(el):
+    return "".join(t.text or "" for t in el.iter(f"{{{NS['a']}}}t"))
+
+
+def test_three_charts_with_titles_and_axis_units(saved):
+    roots = _chart_xml(saved)
+    assert len(roots) == 3
+    titles = [_text(r.find("c:chart/c:title", NS)) for r in roots]
+    assert titles[0].startswith("Period ratio") and "harmonic force" in titles[1]
+    for root in roots:
+        axes = root.findall("c:chart/c:plotArea/c:valAx", NS)
+        assert len(axes) == 2
+        for ax in axes:
+            assert re.search(r"\[[^\]]+\]$", _text(ax.find("c:title", NS)))   # unit in brackets
+            assert ax.find("c:delete", NS).get("val") in ("0", "false")
+
+
+def test_chart_caches_equal_cells(saved):
+    ws = openpyxl.load_workbook(saved, data_only=True)["Charts"]
+    n_refs = 0
+    for root in _chart_xml(saved):
+        for num_ref in root.iter(f"{{{NS['c']}}}numRef"):
+            ref = num_ref.find("c:f", NS).text
+            cache = num_ref.find("c:numCache", NS)
+            assert cache is not None, f"no cache for {ref}"
+            rng = ref.split("!")[1].replace("$", "")
+            cells = [row[0].value for row in ws[rng]] if ":" in rng else [ws[rng].value]
+            assert int(cache.find("c:ptCount", NS).get("val")) == len(cells)
+            pts = {int(p.get("idx")): float(p.find("c:v", NS).text)
+                   for p in cache.findall("c:pt", NS)}
+            assert sorted(pts) == list(range(len(cells)))
+            for i, v in enumerate(cells):
+                assert pts[i] == pytest.approx(v, rel=1e-14)
+            n_refs += 1
+    assert n_refs == 2 * (4 + 2 + 3)   # x and y of every series
+
+
+def test_fill_chart_caches_str_ref_and_formula_refusal():
+    from openpyxl.chart import LineChart, Reference
+
+    wb = openpyxl.Workbook()
+    ws = wb.active
+    ws.append(["x", "Series A"])
+    for i in range(3):
+        ws.append([i, i * i])
+    ch = LineChart()
+    ch.add_data(Reference(ws, min_col=2, min_row=1, max_row=4), titles_from_data=True)
+    ch.set_categories(Reference(ws, min_col=1, min_row=2, max_row=4))
+    ws.add_chart(ch, "D2")
+    assert charts.fill_chart_caches(ws) == 3
+    s = ch.series[0]
+    assert [p.v for p in s.tx.strRef.strCache.pt] == ["Series A"]
+    assert [p.v for p in s.val.numRef.numCache.pt] == [0.0, 1.0, 4.0]
+    ws["B3"] = "=B2+1"
+    with pytest.raises(ValueError, match=r"holds formula cell\(s\) \['B3'\]"):
+        charts.fill_chart_caches(ws)
+
+
+def test_duplicate_sheet_refused():
+    wb = openpyxl.Workbook()
+    wb.create_sheet("Charts")
+    with pytest.raises(ValueError, match="title='Charts': the workbook already has a sheet"):
+        charts.add_charts_sheet(wb, standin())
+
+
+def test_sheet_layout_and_text_cells(saved):
+    wb = openpyxl.load_workbook(saved)
+    ws = wb["Charts"]
+    assert wb.sheetnames == ["Inputs", "Charts"]
+    assert "licensed engineer" in ws["A2"].value
+    assert ws.print_title_rows == "$1:$2"
+    assert ws.page_setup.fitToWidth == 1
+    assert not any(c.data_type == "f" for row in ws.iter_rows() for c in row)
+
+
+@pytest.mark.parametrize("method", ["h2", "hinf", "den_hartog", "white_noise_force"])
+def test_with_engine_design_result(method):
+    result = _design_result(method)
+    t = charts.chart_tables(result)
+    design_mark = t["damping_marks"].rows[2]
+    assert design_mark[1:] == (pytest.approx(result.mass_ratio), pytest.approx(
+        result.effective_damping))
+    # The curve of optimal dampers passes through the design point (same tuning method).
+    curve = charts._tuning_curve(np.array([result.mass_ratio]), result.inputs.tuning_method,
+                                 result.inputs.structural_damping)[2][0]
+    assert curve == pytest.approx(result.effective_damping, rel=1e-6)
+    wb = openpyxl.Workbook()
+    charts.add_charts_sheet(wb, result)
+
+
+@needs_soffice
+@pytest.mark.skipif(shutil.which("pdftoppm") is None, reason="pdftoppm not installed")
+def test_renders_to_pdf_and_png(saved, tmp_path):
+    pdf = office.export_pdf(saved, tmp_path)
+    assert pdf.read_bytes().startswith(b"%PDF")
+    subprocess.run(["pdftoppm", "-png", "-r", "60", "-f", "1", "-l", "1", str(pdf),
+                    str(tmp_path / "page")], check=True, timeout=120)
+    png = next(tmp_path.glob("page*.png"))
+    assert png.stat().st_size > 20_000   # three charts drawn, not a blank page

@@ -1,0 +1,128 @@
+# SPDX-License-Identifier: MIT
+"""Built workbooks recalculated by a real spreadsheet application (LibreOffice headless).
+
+Each example workbook is recalculated with a forced full recalculation (private profile,
+OOXMLRecalcMode=0, see workbook_builder.office). Then: no cell holds an error; every result cell
+equals the engine's value (relative difference <= 1e-9; the builder converts units with exact
+factors, not CONVERT, so the tighter tolerance holds everywhere); the cached values the builder
+wrote equal LibreOffice's; and with recalculation off LibreOffice shows the cached values.
+Skipped, with the reason, when soffice is not installed (CI installs libreoffice-calc-nogui).
+"""
+from __future__ import annotations
+
+import math
+from pathlib import Path
+
+import pytest
+
+from workbook_builder import office
+from workbook_builder.build import write_workbook
+from workbook_builder.calcsheet import CROSS_CHECK_TOLERANCE
+from workbook_builder.project import load_project
+
+pytestmark = pytest.mark.skipif(office.find_soffice() is None,
+                                reason="LibreOffice (soffice) is not installed")
+
+EXAMPLES = Path(__file__).resolve().parent.parent / "example_workbooks"
+NAMES = ["residential_tower", "observation_mast", "office_tower_us"]
+RESULTS = ["required_damping", "mass_ratio", "damper_mass", "tuning_ratio", "damper_damping",
+           "damper_frequency", "small_angle_length", "effective_damping",
+           "acceleration_with_damper", "structure_displacement", "stroke_ratio", "stroke",
+           "pendulum_length", "swing_angle_deg", "small_angle_error", "detuning", "stiffness",
+           "dashpot"]
+
+
+@pytest.fixture(scope="module")
+def recalculated(tmp_path_factory):
+    out = {}
+    for name in NAMES:
+        folder = tmp_path_factory.mktemp(name)
+        path = folder / f"{name}.xlsx"
+        built = write_workbook(load_project(EXAMPLES / f"{name}.toml"), path)
+        lo = office.recalculate(path, folder / "lo")
+        out[name] = (built, path, lo)
+    return out
+
+
+def _same(a, b) -> bool:
+    if isinstance(a, bool) or isinstance(b, bool):
+        return a == b
+    if isinstance(a, (int, float)) and isinstance(b, (int, float)):
+        # last-bit differences between the applications' maths libraries (and LibreOffice's
+        # snapping of near-zero differences to 0)
+        return math.isclose(a, b, rel_tol=1e-12, abs_tol=1e-14)
+    return a == b
+
+
+@pytest.mark.parametrize("name", NAMES)
+def test_no_error_cells(recalculated, name):
+    _, _, lo = recalculated[name]
+    assert office.find_error_cells(lo) == []
+
+
+@pytest.mark.parametrize("name", NAMES)
+def test_results_equal_the_engine(recalculated, name):
+    built, _, lo = recalculated[name]
+    values = office.read_values(lo)
+    for field in RESULTS:
+        sheet, coord = built.names[field]
+        got = values[(sheet, coord)]
+        want = getattr(built.result, field)
+        assert isinstance(got, (int, float)), field
+        assert got == pytest.approx(want, rel=CROSS_CHECK_TOLERANCE, abs=1e-15), field
+
+
+@pytest.mark.parametrize("name", NAMES)
+def test_verdicts_after_recalculation(recalculated, name):
+    built, _, lo = recalculated[name]
+    values = office.read_values(lo)
+
+    def named(n):
+        return values[built.names[n]]
+    assert named("all_cross_checks") == "OK"
+    assert named("fixed_point_converged") == "OK"
+    assert named("engine_flag_1") == "current"
+    verdicts = [values[("Checks", f"G{r}")] for r in range(4, 9)]
+    assert [v == "OK" for v in verdicts] == [ok for _, ok in built.engine_checks]
+
+
+@pytest.mark.parametrize("name", NAMES)
+def test_cached_values_equal_libreoffice(recalculated, name):
+    built, path, lo = recalculated[name]
+    mine = office.read_values(path)
+    theirs = office.read_values(lo)
+    formulas = set(built.values)
+    assert len(formulas) > 300
+    bad = [(k, mine.get(k), theirs.get(k)) for k in sorted(formulas)
+           if not _same(mine.get(k), theirs.get(k))]
+    assert not bad, f"{len(bad)} cached value(s) differ from LibreOffice, first: {bad[:5]}"
+
+
+def test_viewer_without_recalculation_sees_the_cached_values(recalculated, tmp_path):
+    built, path, _ = recalculated["office_tower_us"]
+    kept = office.recalculate(path, tmp_path / "never", recalc="never")
+    values = office.read_values(kept)
+    for field in RESULTS:
+        assert values[built.names[field]] == pytest.approx(getattr(built.result, field),
+                                                           rel=1e-12, abs=1e-15)
+
+
+@pytest.mark.parametrize("name", NAMES)
+def test_pdf_export_is_legible(recalculated, tmp_path, name):
+    """The filed PDF: every sheet printed, no '###' (column too narrow), no error codes."""
+    import shutil
+    import subprocess
+    _, path, _ = recalculated[name]
+    pdf = office.export_pdf(path, tmp_path / "pdf")
+    assert pdf.read_bytes().startswith(b"%PDF")
+    if shutil.which("pdftotext") is None:
+        pytest.skip("pdftotext (poppler-utils) is not installed")
+    text = subprocess.run(["pdftotext", "-layout", str(pdf), "-"], capture_output=True,
+                          text=True, timeout=120, check=True).stdout
+    assert "###" not in text
+    for code in ("Err:", "#NAME?", "#VALUE!", "#DIV/0!", "#NUM!", "#REF!", "#N/A"):
+        assert code not in text, code
+    for sheet in ("Summary", "Inputs", "Calculation", "Pendulum", "Checks", "Names",
+                  "Cautions", "Record"):
+        assert sheet in text
+    assert "licensed" in text and "preliminary design aid" in text

@@ -1,0 +1,200 @@
+# SPDX-License-Identifier: MIT
+"""LibreOffice headless helpers: recalculation, recalc modes, PDF export, errors, print layout.
+
+The LibreOffice tests are skipped (with the reason shown by ``-ra``) when soffice is not installed;
+CI installs it (libreoffice-calc-nogui).
+"""
+from __future__ import annotations
+
+import math
+import re
+import zipfile
+
+import openpyxl
+import pytest
+
+from workbook_builder import office
+from workbook_builder.cached import CellError, write_with_cached_values
+
+SOFFICE = office.find_soffice()
+needs_soffice = pytest.mark.skipif(SOFFICE is None, reason="LibreOffice (soffice) not installed")
+
+
+def _sample(path):
+    """A small workbook with number, text, boolean and error formulas and a stale cached value."""
+    wb = openpyxl.Workbook()
+    ws = wb.active
+    ws.title = "Calc sheet"
+    ws["A1"] = 2.0
+    ws["B1"] = "=A1*2"
+    ws["C1"] = '=IF(A1>1,"big","small")'
+    ws["D1"] = "=A1>1"
+    ws["E1"] = "=SQRT(-1)"
+    ws["F1"] = "=2*PI()*SQRT(10/9.80665)"   # small-angle period of a 10 m pendulum [s]
+    ws["G1"] = "=NOSUCHFUNCTION(1)"
+    ws["A2"] = "label"
+    # Stale cached values: LibreOffice must recompute them when told to always recalculate.
+    values = {("Calc sheet", "B1"): 999.0, ("Calc sheet", "C1"): "stale",
+              ("Calc sheet", "D1"): False, ("Calc sheet", "E1"): CellError("#NUM!"),
+              ("Calc sheet", "F1"): 0.0, ("Calc sheet", "G1"): CellError("#NAME?")}
+    return write_with_cached_values(wb, path, values)
+
+
+def test_find_soffice_env_override(tmp_path, monkeypatch):
+    fake = tmp_path / "soffice"
+    fake.write_text("#!/bin/sh\nexit 0\n")
+    fake.chmod(0o755)
+    monkeypatch.setenv("SWAYTUNE_SOFFICE", str(fake))
+    assert office.find_soffice() == str(fake)
+
+
+def test_missing_input_raises(tmp_path):
+    with pytest.raises(FileNotFoundError, match="not found"):
+        office.recalculate(tmp_path / "nope.xlsx", tmp_path / "out")
+
+
+def test_unknown_recalc_mode_raises(tmp_path):
+    src = _sample(tmp_path / "s.xlsx")
+    with pytest.raises(ValueError, match="recalc='sometimes' must be one of"):
+        office.recalculate(src, tmp_path / "out", recalc="sometimes")
+
+
+def test_outdir_equal_to_input_dir_refused(tmp_path):
+    src = _sample(tmp_path / "s.xlsx")
+    with pytest.raises(ValueError, match="would overwrite the input"):
+        office.recalculate(src, tmp_path)
+
+
+def test_soffice_that_writes_nothing_is_an_error(tmp_path):
+    # soffice exits with status 0 even when it fails; the missing output must raise.
+    fake = tmp_path / "fake_soffice"
+    fake.write_text("#!/bin/sh\necho 'pretend failure' >&2\nexit 0\n")
+    fake.chmod(0o755)
+    src = _sample(tmp_path / "s.xlsx")
+    with pytest.raises(office.OfficeError, match=r"produced no xlsx file .*exit status 0.*pretend"):
+        office.recalculate(src, tmp_path / "out", soffice=str(fake))
+
+
+def test_timeout_kills_and_raises(tmp_path):
+    fake = tmp_path / "slow_soffice"
+    fake.write_text("#!/bin/sh\nsleep 30\n")
+    fake.chmod(0o755)
+    src = _sample(tmp_path / "s.xlsx")
+    with pytest.raises(office.OfficeError, match="did not finish within 0.5 s"):
+        office.recalculate(src, tmp_path / "out", timeout=0.5, soffice=str(fake))
+
+
+def test_no_soffice_raises(tmp_path, monkeypatch):
+    monkeypatch.setattr(office, "find_soffice", lambda: None)
+    src = _sample(tmp_path / "s.xlsx")
+    with pytest.raises(office.OfficeError, match="not found"):
+        office.recalculate(src, tmp_path / "out")
+
+
+@needs_soffice
+def test_recalculate_always_recomputes_stale_values(tmp_path):
+    src = _sample(tmp_path / "s.xlsx")
+    out = office.recalculate(src, tmp_path / "out")
+    assert out == (tmp_path / "out" / "s.xlsx").resolve()
+    v = office.read_values(out)
+    assert v[("Calc sheet", "B1")] == 4
+    assert v[("Calc sheet", "C1")] == "big"
+    assert v[("Calc sheet", "D1")] is True
+    # T0 = 2 pi sqrt(L/g), L = 10 m, g = 9.80665 m/s^2 (3rd CGPM 1901); reference: Python math.
+    assert math.isclose(v[("Calc sheet", "F1")], 2 * math.pi * math.sqrt(10 / 9.80665),
+                        rel_tol=1e-12)
+    # The input itself is untouched.
+    assert office.read_values(src)[("Calc sheet", "B1")] == 999.0
+
+
+@needs_soffice
+def test_recalculate_never_keeps_cached_values(tmp_path):
+    # What a viewer that does not recalculate sees: the cached values, stale or not.
+    src = _sample(tmp_path / "s.xlsx")
+    out = office.recalculate(src, tmp_path / "out", recalc="never")
+    v = office.read_values(out)
+    assert v[("Calc sheet", "B1")] == 999.0
+    assert v[("Calc sheet", "C1")] == "stale"
+
+
+@needs_soffice
+def test_find_error_cells_after_recalculation(tmp_path):
+    src = _sample(tmp_path / "s.xlsx")
+    out = office.recalculate(src, tmp_path / "out")
+    errors = office.find_error_cells(out)
+    # Error codes differ between applications: test "is an error", not which one.
+    assert [(s, c) for s, c, _ in errors] == [("Calc sheet", "E1"), ("Calc sheet", "G1")]
+    assert all(office.is_error_value(text) for _, _, text in errors)
+
+
+@needs_soffice
+def test_rerun_replaces_output(tmp_path):
+    src = _sample(tmp_path / "s.xlsx")
+    first = office.recalculate(src, tmp_path / "out")
+    first.write_bytes(b"old junk")
+    second = office.recalculate(src, tmp_path / "out")
+    assert zipfile.is_zipfile(second)
+
+
+@needs_soffice
+def test_export_pdf_with_print_layout(tmp_path):
+    wb = openpyxl.Workbook()
+    ws = wb.active
+    ws.title = "Calculation"
+    ws["A1"] = "Title row"
+    for r in range(2, 150):
+        ws.cell(r, 1, f"step {r}")
+        ws.cell(r, 2, f"=A{r}&\" ok\"")
+        ws.cell(r, 8, r * 1.5)
+    office.set_print_layout(ws, paper="Letter", landscape=True, title_rows="1:1")
+    assert ws.print_title_rows == "$1:$1"
+    src = tmp_path / "p.xlsx"
+    wb.save(src)
+    pdf = office.export_pdf(src, tmp_path / "pdf")
+    data = pdf.read_bytes()
+    assert data.startswith(b"%PDF")
+    assert len(re.findall(rb"/Type\s*/Page\b", data)) >= 2      # 149 rows: several pages
+    # US Letter landscape: 11 in x 8.5 in = 792 pt x 612 pt (ANSI/ASME Y14.1).
+    assert re.search(rb"/MediaBox\s*\[\s*0 0 792 612\s*\]", data)
+
+
+def test_set_print_layout_fields():
+    wb = openpyxl.Workbook()
+    ws = wb.active
+    ws["A1"] = 1
+    ws["D20"] = 2
+    office.set_print_layout(ws, paper="A4", title_rows=(1, 3))
+    assert int(ws.page_setup.paperSize) == 9   # ECMA-376 Part 1, 18.3.1.63: 9 = A4
+    assert ws.page_setup.orientation == "portrait"
+    assert ws.sheet_properties.pageSetUpPr.fitToPage is True
+    assert ws.page_setup.fitToWidth == 1 and ws.page_setup.fitToHeight == 0
+    assert ws.print_title_rows == "$1:$3"
+    assert "$A$1:$D$20" in str(ws.print_area)
+    assert ws.oddFooter.right.text == "Page &P of &N"
+
+
+@pytest.mark.parametrize("paper", ["A3", "legal", ""])
+def test_set_print_layout_bad_paper(paper):
+    ws = openpyxl.Workbook().active
+    with pytest.raises(ValueError, match=r"paper=.* must be one of \['A4', 'Letter'\]"):
+        office.set_print_layout(ws, paper=paper)
+
+
+@pytest.mark.parametrize("rows", ["1-3", "a:b", (3, 1), (0, 2)])
+def test_set_print_layout_bad_title_rows(rows):
+    ws = openpyxl.Workbook().active
+    with pytest.raises(ValueError, match="title_rows="):
+        office.set_print_layout(ws, title_rows=rows)
+
+
+@pytest.mark.parametrize("text, expected", [
+    ("#VALUE!", True), ("#NAME?", True), ("#N/A", True), ("#DIV/0!", True), ("Err:502", True),
+    ("#NUM!", True), ("OK", False), ("#1 step", False), ("Err:5", False), ("", False),
+])
+def test_is_error_value(text, expected):
+    assert office.is_error_value(text) is expected
+
+
+def test_is_error_value_by_type():
+    assert office.is_error_value("anything", "e") is True
+    assert office.is_error_value(3.0) is False

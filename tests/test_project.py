@@ -1,0 +1,294 @@
+# SPDX-License-Identifier: MIT
+"""Project files: TOML format, CSV table form, units, validation messages."""
+from __future__ import annotations
+
+import math
+from pathlib import Path
+
+import pytest
+
+from workbook_builder.project import (INPUT_SPECS, ProjectError, load_cases, load_project,
+                                      parse_project)
+from workbook_builder.units import UNITS, unit_for
+
+EXAMPLES = Path(__file__).resolve().parent.parent / "example_workbooks"
+
+MINIMAL = """\
+[project]
+number = "T-1"
+title = "Test"
+
+[mode]
+frequency = 0.2
+modal_mass = { value = 10000, unit = "t" }
+structural_damping = 0.01
+
+[wind]
+acceleration = 0.25
+acceleration_limit = 0.15
+
+[damper]
+mass_ratio = 0.02
+clearance = 1.5
+"""
+
+
+def write(tmp_path: Path, text: str, name: str = "p.toml") -> Path:
+    path = tmp_path / name
+    path.write_text(text, encoding="utf-8")
+    return path
+
+
+# ----------------------------------------------------------------------------- units
+@pytest.mark.parametrize("kind, symbol, factor", [
+    # Exact by definition: international yard and pound agreement (1959); NIST SP 811 (2008)
+    # Appendix B: 1 ft = 0.3048 m, 1 in = 0.0254 m, 1 lb = 0.45359237 kg.
+    ("length", "ft", 0.3048),
+    ("length", "in", 0.0254),
+    ("mass", "lb", 0.45359237),
+    ("mass", "kip", 453.59237),
+    # Standard gravity 9.80665 m/s^2 exactly (3rd CGPM, 1901).
+    ("acceleration", "milli-g", 0.00980665),
+    ("acceleration", "ft/s^2", 0.3048),
+    ("mass", "t", 1000.0),
+    ("fraction", "%", 0.01),
+])
+def test_unit_factors_are_the_exact_definitions(kind, symbol, factor):
+    assert unit_for(kind, symbol).factor == pytest.approx(factor, rel=1e-15)
+
+
+def test_unknown_unit_lists_the_valid_ones():
+    with pytest.raises(ValueError, match=r"unit 'furlong' is not a length unit; use one of 'm'"):
+        unit_for("length", "furlong")
+
+
+def test_every_kind_has_an_si_unit_first():
+    assert [next(iter(u)) for u in UNITS.values()] == ["Hz", "kg", "-", "m/s^2", "m", "deg"]
+
+
+# ----------------------------------------------------------------------------- loading
+def test_minimal_project_reads_units_and_defaults(tmp_path):
+    p = load_project(write(tmp_path, MINIMAL))
+    assert p.si("modal_mass") == 10000 * 1000.0
+    assert p.inputs["modal_mass"].value == 10000 and p.inputs["modal_mass"].unit.symbol == "t"
+    assert p.inputs["modal_mass"].line == 7
+    assert p.si("max_swing_deg") == 15.0 and not p.inputs["max_swing_deg"].given
+    assert p.si("g") == 9.80665
+    assert p.si("damper_mass") is None
+    assert p.tuning_method == "h2" and p.units == "SI" and p.paper == "A4"
+    assert p.info["number"] == "T-1"
+    assert len(p.source_sha256) == 64
+
+
+def test_us_project_reads_bare_numbers_in_us_units(tmp_path):
+    text = MINIMAL.replace('[project]\n', '[project]\nunits = "US"\n').replace(
+        "clearance = 1.5", "clearance = 5")
+    p = load_project(write(tmp_path, text))
+    assert p.inputs["clearance"].unit.symbol == "ft"
+    assert p.si("clearance") == pytest.approx(5 * 0.3048, rel=1e-15)
+    assert p.si("acceleration") == pytest.approx(0.25 * 0.3048, rel=1e-15)   # ft/s^2
+    assert p.paper == "Letter"
+
+
+def test_design_kwargs_are_si_and_complete(tmp_path):
+    p = load_project(write(tmp_path, MINIMAL))
+    kw = p.design_kwargs()
+    assert kw["modal_mass"] == 1e7 and kw["mass_ratio"] == 0.02 and kw["damper_mass"] is None
+    assert kw["tuning_method"] == "h2"
+    assert set(kw) == {s.name for s in INPUT_SPECS} | {"tuning_method"}
+
+
+@pytest.mark.parametrize("name", ["residential_tower", "observation_mast", "office_tower_us"])
+def test_examples_load(name):
+    p = load_project(EXAMPLES / f"{name}.toml")
+    assert p.info["number"].startswith("EX-")
+
+
+def test_text_starting_with_equals_is_kept_as_text(tmp_path):
+    text = MINIMAL.replace('title = "Test"', 'title = "=HYPERLINK(\\"x\\")"')
+    p = load_project(write(tmp_path, text))
+    assert p.info["title"] == '=HYPERLINK("x")'
+
+
+# ----------------------------------------------------------------------------- errors
+def test_missing_file(tmp_path):
+    with pytest.raises(ProjectError, match=r"nothere\.toml: project file not found"):
+        load_project(tmp_path / "nothere.toml")
+
+
+def test_malformed_toml_names_the_line(tmp_path):
+    text = MINIMAL.replace("frequency = 0.2", "frequency = = 0.2")
+    with pytest.raises(ProjectError, match=r"p\.toml: not a valid TOML file: .*line 6"):
+        load_project(write(tmp_path, text))
+
+
+def test_unknown_key_names_line_and_suggests(tmp_path):
+    text = MINIMAL.replace("frequency = 0.2", "frequncy = 0.2")
+    with pytest.raises(ProjectError, match=r"p\.toml:6: mode\.frequncy: unknown key "
+                                           r"\(did you mean 'mode\.frequency'\?\)"):
+        load_project(write(tmp_path, text))
+
+
+def test_out_of_range_names_key_line_and_range_in_the_unit(tmp_path):
+    text = MINIMAL.replace('modal_mass = { value = 10000, unit = "t" }',
+                           'modal_mass = { value = -5, unit = "t" }')
+    with pytest.raises(ProjectError, match=r"p\.toml:7: mode\.modal_mass: -5 t must be in "
+                                           r"\(0, 1e\+08\] \[t\]"):
+        load_project(write(tmp_path, text))
+
+
+@pytest.mark.parametrize("literal", ["nan", "inf", "-inf"])
+def test_nan_and_inf_are_refused(tmp_path, literal):
+    text = MINIMAL.replace("acceleration = 0.25", f"acceleration = {literal}")
+    with pytest.raises(ProjectError, match=r"p\.toml:11: wind\.acceleration: value .* must be "
+                                           r"a finite number \(NaN and inf are refused\)"):
+        load_project(write(tmp_path, text))
+
+
+def test_text_instead_of_number(tmp_path):
+    text = MINIMAL.replace("structural_damping = 0.01", 'structural_damping = "1 %"')
+    with pytest.raises(ProjectError, match=r"p\.toml:8: mode\.structural_damping: value '1 %' "
+                                           r"must be a number"):
+        load_project(write(tmp_path, text))
+
+
+def test_bad_unit_names_the_key(tmp_path):
+    text = MINIMAL.replace("clearance = 1.5", 'clearance = { value = 1.5, unit = "yd" }')
+    with pytest.raises(ProjectError, match=r"p\.toml:16: damper\.clearance: unit 'yd' is not a "
+                                           r"length unit"):
+        load_project(write(tmp_path, text))
+
+
+def test_missing_required_input(tmp_path):
+    text = MINIMAL.replace("acceleration_limit = 0.15\n", "")
+    with pytest.raises(ProjectError, match=r"wind\.acceleration_limit: is missing \(required\)"):
+        load_project(write(tmp_path, text))
+
+
+def test_mass_ratio_and_damper_mass_together(tmp_path):
+    text = MINIMAL.replace("mass_ratio = 0.02", "mass_ratio = 0.02\ndamper_mass = 1000")
+    with pytest.raises(ProjectError, match=r"p\.toml:16: damper\.damper_mass: give "
+                                           r"damper\.mass_ratio or damper\.damper_mass"):
+        load_project(write(tmp_path, text))
+
+
+def test_unknown_tuning_method(tmp_path):
+    text = MINIMAL.replace("mass_ratio = 0.02", 'mass_ratio = 0.02\ntuning_method = "best"')
+    with pytest.raises(ProjectError, match=r"p\.toml:16: damper\.tuning_method: 'best' must be "
+                                           r"one of"):
+        load_project(write(tmp_path, text))
+
+
+def test_unknown_unit_system(tmp_path):
+    text = MINIMAL.replace('[project]\n', '[project]\nunits = "imperial"\n')
+    with pytest.raises(ProjectError, match=r"p\.toml:2: project\.units: 'imperial' must be one "
+                                           r"of \['SI', 'US'\]"):
+        load_project(write(tmp_path, text))
+
+
+def test_unknown_field_in_input_table(tmp_path):
+    text = MINIMAL.replace('unit = "t" }', 'unit = "t", units = "t" }')
+    with pytest.raises(ProjectError, match=r"p\.toml:7: mode\.modal_mass: unknown field"):
+        load_project(write(tmp_path, text))
+
+
+def test_practical_range_must_be_ordered(tmp_path):
+    text = MINIMAL + "mass_ratio_min = 0.05\nmass_ratio_max = 0.01\n"
+    with pytest.raises(ProjectError, match=r"damper\.mass_ratio_max: 0\.01 must be above "
+                                           r"mass_ratio_min 0\.05"):
+        load_project(write(tmp_path, text))
+
+
+# ----------------------------------------------------------------------------- floors
+FLOORS = MINIMAL.replace('modal_mass = { value = 10000, unit = "t" }\n', "") + """
+[mode.floors]
+heights = [10, 20, 30]
+masses = [500, 500, 400]
+height_unit = "m"
+mass_unit = "t"
+building_height = 30
+exponent = 1.5
+"""
+
+
+def test_floor_table(tmp_path):
+    p = load_project(write(tmp_path, FLOORS))
+    assert "modal_mass" not in p.inputs
+    assert p.floors.masses_si == [500e3, 500e3, 400e3]
+    assert p.floors.damper_level == 3 and p.floors.exponent == 1.5
+
+
+def test_floor_table_and_modal_mass_together(tmp_path):
+    text = FLOORS.replace("structural_damping = 0.01",
+                          "structural_damping = 0.01\nmodal_mass = 1e6")
+    with pytest.raises(ProjectError, match=r"mode\.modal_mass: give the modal mass or "
+                                           r"\[mode\.floors\], not both"):
+        load_project(write(tmp_path, text))
+
+
+@pytest.mark.parametrize("old, new, message", [
+    ("masses = [500, 500, 400]", "masses = [500, 500]", r"mode\.floors\.masses: has 2 items, "
+                                                        r"heights has 3"),
+    ("building_height = 30", "building_height = 20", r"mode\.floors\.building_height: 20 must "
+                                                     r"be > 0 and not below the highest floor"),
+    ("exponent = 1.5", "exponent = 1.5\nstructure_type = \"x\"",
+     r"mode\.floors: give exactly one of 'exponent' and 'structure_type'"),
+    ("exponent = 1.5", "exponent = 1.5\ndamper_level = 4",
+     r"mode\.floors\.damper_level: 4 must be a floor number in \[1, 3\]"),
+    ("heights = [10, 20, 30]", "heights = [10, nan, 30]",
+     r"mode\.floors\.heights: item 2 nan must be a finite number"),
+])
+def test_floor_table_errors(tmp_path, old, new, message):
+    with pytest.raises(ProjectError, match=message):
+        load_project(write(tmp_path, FLOORS.replace(old, new)))
+
+
+# ----------------------------------------------------------------------------- CSV
+CSV = """\
+case,project.title,mode.frequency [Hz],mode.modal_mass [t],mode.structural_damping [%],\
+wind.acceleration [milli-g],wind.acceleration_limit [milli-g],damper.mass_ratio,damper.clearance [m]
+A,Case A,0.2,10000,1.0,25,15,0.02,1.5
+B,=Case B,0.25,12000,1.2,22,15,,1.2
+"""
+
+
+def test_csv_cases(tmp_path):
+    cases = load_cases(write(tmp_path, CSV, "cases.csv"))
+    assert [c.case for c in cases] == ["A", "B"]
+    a, b = cases
+    assert a.si("modal_mass") == 1e7 and a.si("structural_damping") == pytest.approx(0.01)
+    assert a.si("acceleration") == pytest.approx(25 * 0.00980665, rel=1e-15)
+    assert b.si("mass_ratio") is None           # empty cell: not given
+    assert b.info["title"] == "=Case B"         # text stays text
+    assert a.source_sha256 != b.source_sha256
+
+
+def test_csv_error_names_line_and_column(tmp_path):
+    text = CSV.replace("B,=Case B,0.25", "B,=Case B,-0.25")
+    with pytest.raises(ProjectError, match=r"cases\.csv:3: column mode\.frequency: -0\.25 Hz "
+                                           r"must be in \(0, 20\] \[Hz\]"):
+        load_cases(write(tmp_path, text, "cases.csv"))
+
+
+def test_csv_unknown_column(tmp_path):
+    text = CSV.replace("damper.clearance [m]", "damper.clearence [m]")
+    with pytest.raises(ProjectError, match=r"cases\.csv:2: column damper\.clearence: unknown key"):
+        load_cases(write(tmp_path, text, "cases.csv"))
+
+
+def test_csv_duplicate_case_and_empty(tmp_path):
+    text = CSV.replace("B,=Case B", "A,=Case B")
+    with pytest.raises(ProjectError, match=r"cases\.csv:3: case name 'A' is used twice"):
+        load_cases(write(tmp_path, text, "cases.csv"))
+    with pytest.raises(ProjectError, match=r"e\.csv: the case table has no rows"):
+        load_cases(write(tmp_path, CSV.splitlines()[0] + "\n", "e.csv"))
+    with pytest.raises(ProjectError, match=r"m\.csv: case table not found"):
+        load_cases(tmp_path / "m.csv")
+
+
+def test_parse_project_from_dicts():
+    data = {"mode": {"frequency": 0.2, "modal_mass": 1e6, "structural_damping": 0.01},
+            "wind": {"acceleration": 0.2, "acceleration_limit": 0.1},
+            "damper": {"clearance": 1.0}}
+    p = parse_project(data, source="dict")
+    assert p.si("frequency") == 0.2 and math.isclose(p.si("g"), 9.80665)

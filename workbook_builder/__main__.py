@@ -1,0 +1,8 @@
+# SPDX-License-Identifier: MIT
+"""``python -m workbook_builder`` runs the swaytune command line."""
+import sys
+
+from .cli import main
+
+if __name__ == "__main__":
+    sys.exit(main())

@@ -1,0 +1,980 @@
+# SPDX-License-Identifier: MIT
+"""Workbook assembly: project -> engine -> sheets, names, checks, cached values.
+
+:func:`build_workbook` makes the openpyxl workbook and the cached value of every formula cell
+(by evaluating the formula text with :class:`workbook_builder.formulas.Evaluator`);
+:func:`write_workbook` saves it atomically with those cached values, refusing to overwrite a
+file swaytune did not make. The physics comes from the engine (``functions.design``); the
+workbook's own formulas are checked against it on the Checks sheet.
+
+Sheets, in order: Summary (title block, key results, verdicts), Inputs, Calculation, Pendulum
+(swing-correction helper cells), Checks, Charts (when available), Names, Cautions, Record.
+"""
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass, field
+from pathlib import Path
+from typing import Any
+
+from openpyxl import Workbook
+from openpyxl.formatting.rule import CellIsRule
+from openpyxl.styles import Alignment, Border, Font, PatternFill, Protection, Side
+from openpyxl.utils import absolute_coordinate, get_column_letter, quote_sheetname
+from openpyxl.workbook.defined_name import DefinedName
+from openpyxl.worksheet.datavalidation import DataValidation
+
+from . import __version__
+from .calcsheet import (AGM_STEPS, CROSS_CHECK_TOLERANCE, FIXED_POINT_ITERATIONS, INPUT_NAMES,
+                        EngineValue, Step, design_checks, mass_ratio_mode, sections)
+from .formulas import Evaluator, check_formula, is_error
+from .project import INPUT_SPECS, Project
+from .units import SI_UNIT, US_DISPLAY
+
+__all__ = ["BuildError", "BuiltWorkbook", "build_workbook", "write_workbook", "CAUTIONS",
+           "SHEETS", "run_engine", "content_digest", "guard_hand_edits", "DIGEST_PROPERTY"]
+
+#: Cautions printed in every workbook and by the command line.
+CAUTIONS = (
+    "This workbook is a preliminary design aid. It is not a design of a damper.",
+    "Every result must be checked by a licensed (chartered / professional) engineer.",
+    "Check the design against the local codes and standards that apply to the project.",
+    "Use wind-tunnel data (or a code calculation the authority accepts) for the response "
+    "without the damper and for the comfort criterion.",
+    "The damper itself (hangers, bearings, dampers, buffers, tuning adjustment) must follow the "
+    "manufacturer's design, with its own tests and tolerances.",
+    "The rules used here are simplified: resonant response of one mode, white-noise force, "
+    "linear viscous damping, equal peak factors, rigid support of the damper.",
+    "Measure the built structure's frequency and damping and retune the damper to them.",
+)
+
+SHEETS = ("Summary", "Inputs", "Calculation", "Pendulum", "Checks", "Charts", "Names",
+          "Cautions", "Record")
+
+_UNIT_FORMATS = {
+    "kg": "#,##0", "N/m": "#,##0", "N s/m": "#,##0", "m": "0.0000", "Hz": "0.00000",
+    "-": "0.000000", "deg": "0.000", "m/s^2": "0.00000", "t": "#,##0.0", "lb": "#,##0",
+    "kip": "#,##0.0", "mm": "0.0", "ft": "0.000", "in": "0.00", "ft/s^2": "0.00000",
+    "milli-g": "0.00", "%": "0.000", "kip/ft": "#,##0.00", "kip s/ft": "#,##0.00",
+}
+_SCI = "0.000E+00"
+_FULL = "0.00000000000E+00"
+
+_BOLD = Font(bold=True)
+_TITLE = Font(bold=True, size=14)
+_HEAD = Font(bold=True, color="FFFFFF")
+_HEAD_FILL = PatternFill("solid", fgColor="44546A")
+_SECTION_FILL = PatternFill("solid", fgColor="D9E1F2")
+_INPUT_FILL = PatternFill("solid", fgColor="FFF2CC")
+_ENGINE_FILL = PatternFill("solid", fgColor="E2EFDA")
+_WRAP = Alignment(wrap_text=True, vertical="top")
+_TOP = Alignment(vertical="top")
+_THIN = Side(style="thin", color="A6A6A6")
+_BOX = Border(left=_THIN, right=_THIN, top=_THIN, bottom=_THIN)
+_OK_FILL = PatternFill("solid", fgColor="C6EFCE")
+_BAD_FILL = PatternFill("solid", fgColor="FFC7CE")
+
+
+class BuildError(RuntimeError):
+    """The workbook could not be built consistently (e.g. a formula evaluates to an error)."""
+
+
+@dataclass
+class BuiltWorkbook:
+    """A built workbook with the cached values of its formula cells and the engine result."""
+
+    workbook: Workbook
+    values: dict[tuple[str, str], Any]
+    result: Any
+    project: Project
+    names: dict[str, tuple[str, str]] = field(default_factory=dict)   # name -> (sheet, cell)
+    cross_checks: list[tuple[str, float, float, float]] = field(default_factory=list)
+    design_verdicts: list[tuple[str, str]] = field(default_factory=list)
+    engine_checks: list[tuple[str, bool]] = field(default_factory=list)
+
+    def value(self, name: str) -> Any:
+        """Value (cached value of a formula, or the constant) of the cell named ``name``."""
+        key = self.names[name]
+        if key in self.values:
+            return self.values[key]
+        return self.workbook[key[0]][key[1]].value
+
+
+# --------------------------------------------------------------------------- engine
+def _engine_modal_mass(project: Project) -> float | None:
+    fl = project.floors
+    if fl is None:
+        return None
+    from functions.structure import modal_mass, power_law_mode_shape
+    shape = power_law_mode_shape(fl.heights_si, fl.building_height_si, fl.exponent)
+    return float(modal_mass(fl.masses_si, shape, damper_level=fl.damper_level - 1))
+
+
+def run_engine(project: Project):
+    """Run the engine's design chain for a project; return the DesignResult.
+
+    Raises
+    ------
+    ValueError
+        From the engine, prefixed with the project's source name.
+    """
+    from functions.design import DesignInputs, design_damper
+    try:
+        inputs = DesignInputs(**project.design_kwargs(_engine_modal_mass(project)))
+        return design_damper(inputs)
+    except ValueError as exc:
+        raise ValueError(f"{project.source_name}: {project.case + ': ' if project.case else ''}"
+                         f"the design cannot be computed: {exc}") from exc
+
+
+# --------------------------------------------------------------------------- cell helpers
+class _Sheet:
+    """Thin writer over a worksheet that records defined names and checks formulas."""
+
+    def __init__(self, builder: "_Builder", ws):
+        self.b = builder
+        self.ws = ws
+
+    def put(self, row: int, col: int, value: Any, *, fmt: str | None = None, font=None,
+            fill=None, align=None, border: bool = False, unlocked: bool = False,
+            as_text: bool = False):
+        cell = self.ws.cell(row=row, column=col)
+        if isinstance(value, str) and value.startswith("=") and not as_text:
+            check_formula(value)
+            cell.value = value
+        elif isinstance(value, str):
+            cell.value = value
+            cell.data_type = "s"          # text stays text, even when it starts with '='
+        elif value is None:
+            pass
+        else:
+            if isinstance(value, bool) or not isinstance(value, (int, float)):
+                value = float(value)      # numpy scalars -> Python float
+            if not math.isfinite(value):
+                raise BuildError(f"{self.ws.title}!{cell.coordinate}: {value!r} cannot be "
+                                 "written (NaN and inf are refused)")
+            cell.value = value
+        if fmt:
+            cell.number_format = fmt
+        if font:
+            cell.font = font
+        if fill:
+            cell.fill = fill
+        if align:
+            cell.alignment = align
+        if border:
+            cell.border = _BOX
+        if unlocked:
+            cell.protection = Protection(locked=False)
+        return cell
+
+    def text(self, row: int, col: int, text: str, **kw):
+        """Write user text: always text, never a formula (even when it starts with '=')."""
+        return self.put(row, col, "" if text is None else str(text), as_text=True, **kw)
+
+    def header(self, row: int, labels: list[str]) -> None:
+        for i, label in enumerate(labels, start=1):
+            self.put(row, i, label, font=_HEAD, fill=_HEAD_FILL, align=_WRAP, border=True)
+
+    def name(self, name: str, row: int, col: int) -> None:
+        self.b.define(name, self.ws.title, row, col)
+
+    def widths(self, widths: list[float]) -> None:
+        for i, w in enumerate(widths, start=1):
+            self.ws.column_dimensions[get_column_letter(i)].width = w
+
+
+def _fit_rows(ws, line_height: float = 13.0) -> None:
+    """Set row heights so wrapped text shows in full (applications do not fit them on load).
+
+    Characters per line are estimated from the column width (about 1.1 characters of body text
+    per width unit, a cautious figure for proportional fonts).
+    """
+    widths = {}
+    for letter, dim in ws.column_dimensions.items():
+        widths[letter] = dim.width or 8.43
+    merged = {}
+    for rng in ws.merged_cells.ranges:
+        merged[(rng.min_row, rng.min_col)] = sum(
+            widths.get(get_column_letter(c), 8.43) for c in range(rng.min_col, rng.max_col + 1))
+    for row in ws.iter_rows():
+        lines = 1
+        for cell in row:
+            value = cell.value
+            if not isinstance(value, str) or cell.data_type == "f":
+                continue
+            if not (cell.alignment is not None and cell.alignment.wrap_text):
+                continue
+            width = merged.get((cell.row, cell.column), widths.get(cell.column_letter, 8.43))
+            chars = max(1, int(width * 1.1))
+            n = sum(max(1, math.ceil(len(part) / chars)) for part in value.split("\n"))
+            lines = max(lines, n)
+        if lines > 1:
+            r = row[0].row
+            ws.row_dimensions[r].height = max(line_height * lines + 3,
+                                              ws.row_dimensions[r].height or 0)
+
+
+def _fmt(unit: str) -> str:
+    return _UNIT_FORMATS.get(unit, "General")
+
+
+# --------------------------------------------------------------------------- builder
+class _Builder:
+    def __init__(self, project: Project, result, template: str | Path | None):
+        self.project = project
+        self.result = result
+        self.template = template
+        self.names: dict[str, tuple[str, str]] = {}
+        self.name_info: list[tuple[str, str, str, str]] = []   # name, sheet, label, unit
+        self.our_sheets: list[str] = []
+        self.engine_values: dict[str, float] = {}
+        self.cross: list[tuple[str, str, str, float]] = []      # name, label, symbol, engine
+        self.flag_cells: list[str] = []
+        self.flag_labels: list[str] = []
+        self.helper_labels: dict[str, tuple[str, str]] = {
+            "fixed_point_length": ("Pendulum length after the last fixed-point iteration", "m"),
+            "fixed_point_change": ("Relative change of the length in the last iteration "
+                                   "(rounded to 1e-15)", "-"),
+            "agm_at_swing": ("AGM(1, cos(theta/2)) at the design swing", "-"),
+            "all_design_checks": ("Verdict of all design checks", ""),
+            "all_cross_checks": ("Verdict of all engine cross-checks", ""),
+            "fixed_point_converged": ("Verdict: fixed point converged", ""),
+            "modal_mass_from_floors": ("Modal mass from the floor table", "kg"),
+            "building_height": ("Building height (floor table)", "m"),
+            "mode_exponent": ("Mode shape exponent (floor table)", "-"),
+        }
+        self.method = project.tuning_method
+        self.mode = mass_ratio_mode(project)
+
+    # names --------------------------------------------------------------------------------
+    def define(self, name: str, sheet: str, row: int, col: int, label: str = "",
+               unit: str = "") -> None:
+        if name in self.names:
+            raise BuildError(f"defined name {name!r} declared twice")
+        coord = absolute_coordinate(f"{get_column_letter(col)}{row}")
+        self.wb.defined_names.add(DefinedName(name, attr_text=f"{quote_sheetname(sheet)}!{coord}"))
+        self.names[name] = (sheet, f"{get_column_letter(col)}{row}")
+
+    def sheet(self, title: str) -> _Sheet:
+        ws = self.wb.create_sheet(title)
+        self.our_sheets.append(title)
+        return _Sheet(self, ws)
+
+    def ref(self, name: str) -> str:
+        sheet, coord = self.names[name]
+        return f"{quote_sheetname(sheet)}!{absolute_coordinate(coord)}"
+
+    # engine values ------------------------------------------------------------------------
+    def engine_value(self, name: str) -> float:
+        """Engine value of a result field or an input (SI), for snapshots and cross-checks."""
+        if hasattr(self.result, name):
+            return float(getattr(self.result, name))
+        for spec_name, defined in INPUT_NAMES.items():
+            if defined == name:
+                return float(self.project.si(spec_name)
+                             if spec_name != "modal_mass" else self.result.inputs.modal_mass)
+        raise BuildError(f"no engine value for {name!r}")
+
+    # --------------------------------------------------------------------------------------
+    def build(self) -> Workbook:
+        fields = self.title_fields()
+        if self.template is not None:
+            from .template import open_template
+            self.wb = open_template(self.template, fields)
+            summary = self.sheet("Summary")
+            next_row = self.structure_rows(summary, 1)
+        else:
+            self.wb = Workbook()
+            ws = self.wb.active
+            ws.title = "Summary"
+            self.our_sheets.append("Summary")
+            summary = _Sheet(self, ws)
+            next_row = self.title_block(summary, fields)
+        self.inputs_sheet(self.sheet("Inputs"))
+        self.calculation_sheet(self.sheet("Calculation"))
+        self.pendulum_sheet(self.sheet("Pendulum"))
+        self.checks_sheet(self.sheet("Checks"))
+        self.summary_sheet(summary, next_row)
+        self.charts()
+        self.names_sheet(self.sheet("Names"))
+        self.cautions_sheet(self.sheet("Cautions"))
+        self.record_sheet(self.sheet("Record"))
+        from .atomic import mark_workbook
+        mark_workbook(self.wb, __version__)
+        self.wb.properties.creator = f"swaytune {__version__}"
+        self.wb.properties.title = self.project.info.get("title") or "Pendulum damper design"
+        self.wb.calculation.fullCalcOnLoad = True
+        return self.wb
+
+    def title_fields(self) -> dict[str, str]:
+        info = self.project.info
+        return {
+            "project_number": info.get("number", ""),
+            "title": info.get("title", "") or "Pendulum tuned mass damper - preliminary design",
+            "calculated_by": info.get("calculated_by", ""),
+            "checked_by": info.get("checked_by", ""),
+            "date": info.get("date", ""),
+            "revision": info.get("revision", ""),
+        }
+
+    def title_block(self, sh: _Sheet, fields: dict[str, str]) -> int:
+        from .template import add_default_title_block
+        add_default_title_block(sh.ws, fields, heading="Pendulum tuned mass damper - "
+                                                       "preliminary design")
+        return self.structure_rows(sh, 7)
+
+    def structure_rows(self, sh: _Sheet, row: int) -> int:
+        for label, key in (("Structure", "structure"), ("Client", "client")):
+            if self.project.info.get(key):
+                sh.put(row, 1, label, font=_BOLD)
+                sh.text(row, 2, self.project.info[key], align=_WRAP)
+                sh.ws.merge_cells(start_row=row, start_column=2, end_row=row, end_column=4)
+                row += 1
+        return row + 1
+
+    # Inputs ---------------------------------------------------------------------------------
+    def inputs_sheet(self, sh: _Sheet) -> None:
+        p = self.project
+        sh.put(1, 1, "Inputs", font=_TITLE)
+        sh.put(2, 1, "Yellow cells are the inputs (unlocked); every other cell is protected "
+                     "without a password. Values are converted to SI with exact factors.",
+               align=_WRAP)
+        sh.ws.merge_cells("A2:I2")
+        sh.header(4, ["Input", "Symbol", "Value", "Unit", "Factor to SI", "Value (SI)",
+                      "SI unit", "Valid range (in Unit)", "Where the value usually comes from"])
+        row = 5
+        for spec in INPUT_SPECS:
+            if spec.name == "modal_mass" and p.floors is not None:
+                sh.put(row, 1, spec.label, align=_WRAP, border=True)
+                sh.put(row, 2, spec.symbol, border=True)
+                sh.put(row, 3, "from the floor table below", border=True)
+                sh.put(row, 6, "=modal_mass_from_floors", fmt=_fmt("kg"), border=True)
+                sh.put(row, 7, "kg", border=True)
+                sh.put(row, 9, spec.note, align=_WRAP, border=True)
+                sh.name("modal_mass", row, 6)
+                row += 1
+                continue
+            item = p.inputs.get(spec.name)
+            if item is None:
+                continue
+            unit = item.unit
+            sh.put(row, 1, spec.label, align=_WRAP, border=True)
+            sh.put(row, 2, spec.symbol, border=True)
+            c = sh.put(row, 3, item.value, fmt="General", fill=_INPUT_FILL, border=True,
+                       unlocked=True)
+            sh.put(row, 4, unit.symbol, border=True)
+            sh.put(row, 5, unit.factor, fmt="General", border=True)
+            si_unit = SI_UNIT[spec.kind] if spec.kind != "fraction" else "-"
+            sh.put(row, 6, f"={c.coordinate}*E{row}", fmt=_fmt(si_unit), border=True)
+            sh.put(row, 7, si_unit, border=True)
+            sh.put(row, 8, spec.interval(unit.factor), border=True)
+            note = item.note + ("" if item.given else " (default)")
+            sh.text(row, 9, note, align=_WRAP, border=True)
+            self._validation(sh, c.coordinate, spec, unit.factor)
+            sh.name(INPUT_NAMES[spec.name], row, 6)
+            self.name_info.append((INPUT_NAMES[spec.name], "Inputs", spec.label, si_unit))
+            row += 1
+        # tuning method (text input, list validation)
+        sh.put(row, 1, "Tuning method", border=True)
+        sh.put(row, 3, p.tuning_method, border=True)
+        sh.put(row, 9, "Set in the project file; the Calculation sheet is laid out for it "
+                       "(rebuild to change).", align=_WRAP, border=True)
+        row += 2
+        if p.floors is not None:
+            row = self.floor_table(sh, row)
+        note_row = row
+        sh.put(note_row, 1, "Notes", font=_BOLD)
+        sh.text(note_row + 1, 1, p.info.get("notes", ""), align=_WRAP)
+        sh.ws.merge_cells(start_row=note_row + 1, start_column=1, end_row=note_row + 1,
+                          end_column=9)
+        sh.widths([34, 9, 12, 9, 12, 14, 8, 16, 52])
+        self.protect(sh, "Inputs", "1:4", landscape=True)
+
+    def _validation(self, sh: _Sheet, coord: str, spec, factor: float) -> None:
+        lo, hi = spec.low / factor, spec.high / factor
+        conds = [f"ABS({coord})>=0"]
+        if math.isfinite(lo):
+            conds.append(f"{coord}{'>' if spec.low_open else '>='}{lo!r}")
+        if math.isfinite(hi):
+            conds.append(f"{coord}{'<' if spec.high_open else '<='}{hi!r}")
+        formula = f"AND({','.join(conds)})"
+        check_formula(formula)
+        dv = DataValidation(type="custom", formula1=formula, allow_blank=False,
+                            showErrorMessage=True, errorTitle="Value out of range",
+                            error=f"{spec.label}: a number in {spec.interval(factor)}",
+                            showInputMessage=True, promptTitle=spec.symbol,
+                            prompt=f"Valid range {spec.interval(factor)}"[:255])
+        dv.add(coord)
+        sh.ws.add_data_validation(dv)
+
+    def _positive_validation(self, sh: _Sheet, rng: str, label: str) -> None:
+        first = rng.split(":")[0]
+        formula = f"AND(ABS({first})>=0,{first}>0)"
+        check_formula(formula)
+        dv = DataValidation(type="custom", formula1=formula, allow_blank=False,
+                            showErrorMessage=True, errorTitle="Value out of range",
+                            error=f"{label}: a number > 0")
+        dv.add(rng)
+        sh.ws.add_data_validation(dv)
+
+    def floor_table(self, sh: _Sheet, row: int) -> int:
+        fl = self.project.floors
+        sh.put(row, 1, "Floor table: modal mass from a power-law mode shape (z/h)^k "
+                       "(EN 1991-1-4 Annex F, F.3)", font=_BOLD, fill=_SECTION_FILL)
+        sh.ws.merge_cells(start_row=row, start_column=1, end_row=row, end_column=9)
+        row += 1
+        items = [("Building height", "h", fl.building_height, fl.height_unit, "building_height",
+                  "length"),
+                 ("Mode shape exponent" + (f" ({fl.structure_type})" if fl.structure_type
+                                           else ""), "k", fl.exponent, None, "mode_exponent",
+                  None)]
+        for label, sym, value, unit, name, kind in items:
+            sh.put(row, 1, label, border=True)
+            sh.put(row, 2, sym, border=True)
+            c = sh.put(row, 3, value, fill=_INPUT_FILL, border=True, unlocked=True)
+            self._positive_validation(sh, c.coordinate, label)
+            if unit is not None:
+                sh.put(row, 4, unit.symbol, border=True)
+                sh.put(row, 5, unit.factor, border=True)
+                sh.put(row, 6, f"={c.coordinate}*E{row}", fmt=_fmt("m"), border=True)
+                sh.put(row, 7, "m", border=True)
+            else:
+                sh.put(row, 4, "-", border=True)
+                sh.put(row, 6, f"={c.coordinate}", border=True)
+                sh.put(row, 7, "-", border=True)
+            sh.name(name, row, 6)
+            row += 1
+        sh.put(row, 1, "Damper at floor (1-based)", border=True)
+        c = sh.put(row, 3, fl.damper_level, border=True)
+        row += 1
+        head = row
+        sh.header(head, ["Floor", "", f"Height [{fl.height_unit.symbol}]",
+                         f"Mass [{fl.mass_unit.symbol}]", "Height (SI) [m]", "Mass (SI) [kg]",
+                         "phi = (z/h)^k", "m phi^2 [kg]", ""])
+        first = head + 1
+        for i, (h, m) in enumerate(zip(fl.heights, fl.masses), start=1):
+            r = head + i
+            sh.put(r, 1, i, border=True)
+            sh.put(r, 3, h, fill=_INPUT_FILL, border=True, unlocked=True)
+            sh.put(r, 4, m, fill=_INPUT_FILL, border=True, unlocked=True)
+            sh.put(r, 5, f"=C{r}*{fl.height_unit.factor!r}", fmt=_fmt("m"), border=True)
+            sh.put(r, 6, f"=D{r}*{fl.mass_unit.factor!r}", fmt=_fmt("kg"), border=True)
+            sh.put(r, 7, f"=POWER(E{r}/building_height,mode_exponent)", fmt=_fmt("-"),
+                   border=True)
+            sh.put(r, 8, f"=F{r}*G{r}^2", fmt=_fmt("kg"), border=True)
+        last = head + len(fl.heights)
+        self._positive_validation(sh, f"C{first}:D{last}", "Floor height and mass")
+        row = last + 1
+        d = head + fl.damper_level
+        sh.put(row, 1, "Modal mass, mode normalised to 1 at the damper", font=_BOLD, border=True)
+        sh.put(row, 2, "M*", border=True)
+        sh.put(row, 6, f"=SUMPRODUCT(H{first}:H{last})/G{d}^2", fmt=_fmt("kg"), border=True)
+        sh.put(row, 7, "kg", border=True)
+        sh.put(row, 9, "sum m_i phi_i^2 / phi_damper^2", border=True)
+        sh.name("modal_mass_from_floors", row, 6)
+        return row + 2
+
+    # Calculation ----------------------------------------------------------------------------
+    def calculation_sheet(self, sh: _Sheet) -> None:
+        sh.put(1, 1, "Calculation", font=_TITLE)
+        sh.put(2, 1, "Every value is a worksheet formula of the inputs, in checking order. "
+                     "Green cells are engine values (no closed form), computed when the "
+                     "workbook was built; their flag says when the inputs have changed since.",
+               align=_WRAP)
+        sh.ws.merge_cells("A2:G2")
+        us = self.project.units == "US"
+        sh.header(4, ["Step", "Quantity", "Symbol", "Value", "Unit", "Equation",
+                      "Source / note"] + (["Value (US)", "US unit"] if us else []))
+        row = 5
+        for sec in sections(self.method, self.mode):
+            sh.put(row, 1, sec.title, font=_BOLD, fill=_SECTION_FILL)
+            for col in range(2, 8):
+                sh.put(row, col, None, fill=_SECTION_FILL)
+            row += 1
+            if sec.note:
+                sh.put(row, 2, sec.note, align=_WRAP)
+                sh.ws.merge_cells(start_row=row, start_column=2, end_row=row, end_column=7)
+                row += 1
+            number = 0
+            items = list(sec.items)
+            for idx, item in enumerate(items):
+                number += 1
+                step_no = f"{sec.title.split()[0]}.{number}"
+                sh.put(row, 1, step_no, align=_TOP)
+                sh.put(row, 2, item.label, align=_WRAP, border=True)
+                sh.put(row, 3, item.symbol, border=True, align=_TOP)
+                sh.put(row, 5, item.unit, border=True, align=_TOP)
+                sh.put(row, 6, item.expression, align=_WRAP, border=True)
+                sh.put(row, 7, item.source, align=_WRAP, border=True)
+                fmt = _fmt(item.unit) if not item.name.startswith("var_") else "General"
+                if isinstance(item, EngineValue):
+                    value = self.engine_value(item.engine)
+                    sh.put(row, 4, value, fmt=fmt, fill=_ENGINE_FILL, border=True, align=_TOP)
+                    self.engine_values[item.name] = value
+                else:
+                    sh.put(row, 4, item.formula, fmt=fmt, border=True, align=_TOP)
+                sh.name(item.name, row, 4)
+                self.name_info.append((item.name, "Calculation", item.label, item.unit))
+                if us and item.unit in US_DISPLAY:
+                    us_unit, factor = US_DISPLAY[item.unit]
+                    sh.put(row, 8, f"=D{row}/{factor!r}", fmt=_fmt(us_unit), border=True,
+                           align=_TOP)
+                    sh.put(row, 9, us_unit, border=True, align=_TOP)
+                if item.engine:
+                    self.cross.append((item.name, item.label, item.symbol,
+                                       self.engine_value(item.engine)))
+                row += 1
+                nxt = items[idx + 1] if idx + 1 < len(items) else None
+                if isinstance(item, EngineValue) and not (
+                        isinstance(nxt, EngineValue) and nxt.depends_on == item.depends_on):
+                    what = "mass ratio" if item.name == "mass_ratio" else "tuning optimum"
+                    row = self.engine_flag(sh, row, item.depends_on, what)
+            row += 1
+        sh.widths([7, 40, 9, 15, 8, 34, 44] + ([13, 9] if us else []))
+        self.protect(sh, "Calculation", "1:4", landscape=True)
+
+    def engine_flag(self, sh: _Sheet, row: int, depends_on: tuple[str, ...],
+                    what: str) -> int:
+        conds = []
+        for dep in depends_on:
+            snap = self.engine_value(dep)
+            sh.put(row, 2, f"Engine value computed for {dep} =", align=_WRAP)
+            sh.put(row, 4, snap, fmt="General", fill=_ENGINE_FILL, border=True)
+            sh.put(row, 6, "value at build time", align=_WRAP)
+            conds.append(f"ABS({dep}-D{row})<=1E-12*ABS(D{row})")
+            row += 1
+        n = len(self.flag_cells) + 1
+        sh.put(row, 2, "Inputs changed since the engine value was computed?", font=_BOLD,
+               align=_WRAP)
+        sh.put(row, 4, f'=IF(AND({",".join(conds)}),"current","INPUTS CHANGED: rebuild")',
+               border=True, font=_BOLD)
+        sh.put(row, 6, "rebuild the workbook to refresh the engine value", align=_WRAP)
+        sh.name(f"engine_flag_{n}", row, 4)
+        self.flag_cells.append(f"engine_flag_{n}")
+        self.flag_labels.append(what)
+        self.helper_labels[f"engine_flag_{n}"] = (f"Flag: engine value of the {what} current?",
+                                                  "")
+        return row + 1
+
+    # Pendulum ------------------------------------------------------------------------------
+    def pendulum_sheet(self, sh: _Sheet) -> None:
+        sh.put(1, 1, "Pendulum length in tune at its own design swing", font=_TITLE)
+        sh.put(2, 1, "Fixed point L(k+1) = L_0 AGM(1, cos(theta_k/2))^2 with theta_k = "
+                     "asin(s / L_k): a pendulum of length L has the exact period "
+                     "T_0 / AGM(1, cos(theta/2)) at swing theta (A&S 17.6; Villarino 2012). "
+                     "AGM: a(n+1) = (a(n) + b(n))/2, b(n+1) = sqrt(a(n) b(n)), a(0) = 1.",
+               align=_WRAP)
+        sh.ws.merge_cells("A2:Q2")
+        cols = ["k", "L_k [m]", "theta_k [deg]", "b0 = cos(theta/2)"]
+        for n in range(1, AGM_STEPS + 1):
+            cols += [f"a{n}", f"b{n}"]
+        cols += ["AGM", "L_(k+1) [m]", "|L_(k+1) - L_k| / L_k"]
+        sh.header(4, cols)
+        first = 5
+        agm_col = 5 + 2 * AGM_STEPS
+        for k in range(FIXED_POINT_ITERATIONS):
+            r = first + k
+            sh.put(r, 1, k)
+            prev = "small_angle_length" if k == 0 else f"{get_column_letter(agm_col + 1)}{r - 1}"
+            sh.put(r, 2, f"={prev}", fmt="0.000000000000")
+            sh.put(r, 3, f"=DEGREES(ASIN(stroke/B{r}))", fmt="0.000000")
+            self._agm_row(sh, r, f"C{r}")
+            L = get_column_letter(agm_col + 1)
+            sh.put(r, agm_col + 1, f"=small_angle_length*{get_column_letter(agm_col)}{r}^2",
+                   fmt="0.000000000000")
+            # rounded to 1e-15 so that last-bit noise of a platform's maths library does not
+            # show (one unit in the last place is about 1.1e-16 relative)
+            sh.put(r, agm_col + 2, f"=ROUND(ABS({L}{r}-B{r})/B{r},15)", fmt=_SCI)
+        last = first + FIXED_POINT_ITERATIONS - 1
+        sh.name("fixed_point_length", last, agm_col + 1)
+        sh.name("fixed_point_change", last, agm_col + 2)
+        r = last + 2
+        sh.put(r, 1, "At the design swing theta = swing_angle_deg:", font=_BOLD)
+        r += 1
+        sh.put(r, 1, "final")
+        sh.put(r, 2, "=pendulum_length", fmt="0.000000000000")
+        sh.put(r, 3, "=swing_angle_deg", fmt="0.000000")
+        self._agm_row(sh, r, f"C{r}")
+        sh.name("agm_at_swing", r, agm_col)
+        sh.put(r + 2, 1, "Small-angle error e = 1/AGM - 1 and detuning 1/(1 + e) - 1 are on "
+                         "the Calculation sheet (section 5).")
+        widths = [6, 16, 13, 13] + [12] * (2 * AGM_STEPS) + [16, 16, 12]
+        sh.widths(widths)
+        self.protect(sh, "Pendulum", "1:4", landscape=True)
+
+    def _agm_row(self, sh: _Sheet, r: int, theta: str) -> None:
+        sh.put(r, 4, f"=COS(RADIANS({theta})/2)", fmt="0.000000000")
+        a_prev, b_prev = "1", f"D{r}"
+        col = 5
+        for _ in range(AGM_STEPS):
+            a_col, b_col = get_column_letter(col), get_column_letter(col + 1)
+            sh.put(r, col, f"=({a_prev}+{b_prev})/2", fmt="0.000000000")
+            sh.put(r, col + 1, f"=SQRT({a_prev}*{b_prev})", fmt="0.000000000")
+            a_prev, b_prev = f"{a_col}{r}", f"{b_col}{r}"
+            col += 2
+        sh.put(r, col, f"=({a_prev}+{b_prev})/2", fmt="0.000000000000")
+
+    # Checks ---------------------------------------------------------------------------------
+    def checks_sheet(self, sh: _Sheet) -> None:
+        sh.put(1, 1, "Checks", font=_TITLE)
+        sh.header(3, ["Design check", "Rule", "Value", "Limit", "Lower limit", "Unit",
+                      "Verdict"])
+        row = 4
+        self.design_verdict_cells: list[tuple[str, str]] = []
+        for chk in design_checks():
+            sh.put(row, 1, chk.label, align=_WRAP, border=True)
+            sh.put(row, 2, chk.rule, border=True)
+            sh.put(row, 3, chk.value_formula, fmt=_fmt(chk.unit), border=True)
+            sh.put(row, 4, chk.limit_formula, fmt=_fmt(chk.unit), border=True)
+            sh.put(row, 5, chk.lower_formula or None, fmt=_fmt(chk.unit), border=True)
+            sh.put(row, 6, chk.unit, border=True)
+            sh.put(row, 7, chk.verdict_formula, font=_BOLD, border=True)
+            self.design_verdict_cells.append((chk.label, f"G{row}"))
+            row += 1
+        self._verdict_colours(sh, f"G4:G{row - 1}")
+        all_row = row
+        cells = ",".join(f'{c}="OK"' for _, c in self.design_verdict_cells)
+        sh.put(row, 1, "All design checks", font=_BOLD, border=True)
+        sh.put(row, 7, f'=IF(AND({cells}),"OK","NOT OK")', font=_BOLD, border=True)
+        self._verdict_colours(sh, f"G{row}")
+        sh.name("all_design_checks", row, 7)
+        row += 3
+
+        sh.put(row, 1, "Cross-check of every formula result against the engine (functions/, "
+                       "computed when the workbook was built)", font=_BOLD)
+        row += 1
+        sh.header(row, ["Quantity", "Symbol", "Workbook formula", "Engine value",
+                        "Relative difference (rounded to 1e-12)", "Tolerance", "Verdict"])
+        row += 1
+        first = row
+        for name, label, symbol, engine in self.cross:
+            sh.put(row, 1, label, align=_WRAP, border=True)
+            sh.put(row, 2, symbol, border=True)
+            sh.put(row, 3, f"={name}", fmt=_FULL, border=True)
+            sh.put(row, 4, engine, fmt=_FULL, fill=_ENGINE_FILL, border=True)
+            sh.put(row, 5, f"=ROUND(IF(D{row}=0,ABS(C{row}),ABS(C{row}/D{row}-1)),12)", fmt=_SCI,
+                   border=True)
+            sh.put(row, 6, CROSS_CHECK_TOLERANCE, fmt=_SCI, border=True)
+            sh.put(row, 7, f'=IF(E{row}<=F{row},"OK","NOT OK")', font=_BOLD, border=True)
+            row += 1
+        last = row - 1
+        self._verdict_colours(sh, f"G{first}:G{last}")
+        cells = ",".join(f'G{r}="OK"' for r in range(first, last + 1))
+        sh.put(row, 1, "All cross-checks", font=_BOLD, border=True)
+        sh.put(row, 7, f'=IF(AND({cells}),"OK","NOT OK")', font=_BOLD, border=True)
+        self._verdict_colours(sh, f"G{row}")
+        sh.name("all_cross_checks", row, 7)
+        row += 2
+        sh.put(row, 1, "Pendulum fixed point converged (last relative change <= 1e-12)",
+               border=True,
+               align=_WRAP)
+        sh.put(row, 3, "=fixed_point_change", fmt=_SCI, border=True)
+        sh.put(row, 7, '=IF(fixed_point_change<=1E-12,"OK","NOT OK")',
+               font=_BOLD, border=True)
+        self._verdict_colours(sh, f"G{row}")
+        sh.name("fixed_point_converged", row, 7)
+        row += 1
+        for flag, what in zip(self.flag_cells, self.flag_labels):
+            sh.put(row, 1, f"Engine value of the {what} current (inputs unchanged since "
+                           "the build)", border=True, align=_WRAP)
+            sh.put(row, 7, f'=IF({flag}="current","OK","NOT OK")', font=_BOLD, border=True)
+            self._verdict_colours(sh, f"G{row}")
+            row += 1
+        self.all_checks_row = all_row
+        sh.widths([40, 25, 20, 20, 12, 10, 10])
+        self.protect(sh, "Checks", "1:3", landscape=False)
+
+    def _verdict_colours(self, sh: _Sheet, rng: str) -> None:
+        sh.ws.conditional_formatting.add(rng, CellIsRule(operator="equal", formula=['"OK"'],
+                                                         fill=_OK_FILL))
+        sh.ws.conditional_formatting.add(rng, CellIsRule(operator="equal",
+                                                         formula=['"NOT OK"'], fill=_BAD_FILL))
+
+    # Summary --------------------------------------------------------------------------------
+    def summary_sheet(self, sh: _Sheet, row: int) -> None:
+        p = self.project
+        if self.template is not None:
+            sh.put(row, 1, "Pendulum tuned mass damper - preliminary design", font=_TITLE)
+            row += 2
+        sh.put(row, 1, "Key results", font=_BOLD, fill=_SECTION_FILL)
+        sh.put(row, 2, None, fill=_SECTION_FILL)
+        sh.put(row, 3, None, fill=_SECTION_FILL)
+        row += 1
+        keys = [("required_damping", "Total damping needed", "-"),
+                ("mass_ratio", "Mass ratio", "-"), ("damper_mass", "Damper mass", "kg"),
+                ("damper_frequency", "Damper frequency", "Hz"),
+                ("damper_damping", "Damper damping (own frequency)", "-"),
+                ("effective_damping", "Effective damping with the damper", "-"),
+                ("acceleration_with_damper", "Peak acceleration with the damper", "m/s^2"),
+                ("stroke", "Peak stroke", "m"), ("pendulum_length", "Pendulum length", "m"),
+                ("swing_angle_deg", "Swing angle", "deg"), ("detuning", "Detuning at the swing",
+                                                              "-"),
+                ("stiffness", "Spring stiffness", "N/m"), ("dashpot", "Dashpot constant",
+                                                           "N s/m")]
+        us = p.units == "US"
+        for name, label, unit in keys:
+            sh.put(row, 1, label, border=True)
+            sh.put(row, 2, f"={name}", fmt=_fmt(unit), border=True)
+            sh.put(row, 3, unit, border=True)
+            if us and unit in US_DISPLAY:
+                us_unit, factor = US_DISPLAY[unit]
+                sh.put(row, 4, f"=B{row}/{factor!r}", fmt=_fmt(us_unit), border=True)
+                sh.put(row, 5, us_unit, border=True)
+            row += 1
+        row += 1
+        sh.put(row, 1, "Verdicts", font=_BOLD, fill=_SECTION_FILL)
+        sh.put(row, 2, None, fill=_SECTION_FILL)
+        sh.put(row, 3, None, fill=_SECTION_FILL)
+        row += 1
+        start = row
+        for label, cell in self.design_verdict_cells:
+            sh.put(row, 1, label, border=True)
+            sh.put(row, 2, f"=Checks!{cell}", border=True, font=_BOLD)
+            row += 1
+        rows = [("All design checks", "=all_design_checks"),
+                ("Workbook formulas agree with the engine", "=all_cross_checks"),
+                ("Pendulum fixed point converged", "=fixed_point_converged")]
+        rows += [(f"Engine value of the {what} current (inputs unchanged)",
+                  f'=IF({flag}="current","OK","NOT OK")')
+                 for flag, what in zip(self.flag_cells, self.flag_labels)]
+        for label, formula in rows:
+            sh.put(row, 1, label, border=True, font=_BOLD, align=_WRAP)
+            sh.put(row, 2, formula, border=True, font=_BOLD)
+            row += 1
+        self._verdict_colours(sh, f"B{start}:B{row - 1}")
+        row += 1
+        sh.put(row, 1, "Tuning method", font=_BOLD)
+        sh.put(row, 2, p.tuning_method)
+        row += 1
+        sh.put(row, 1, "Source file", font=_BOLD)
+        sh.text(row, 2, p.source_name + (f" (case {p.case})" if p.case else ""))
+        row += 2
+        sh.put(row, 1, "CAUTION", font=Font(bold=True, color="C00000"))
+        row += 1
+        for text in CAUTIONS[:5]:
+            sh.put(row, 1, text, align=_WRAP)
+            sh.ws.merge_cells(start_row=row, start_column=1, end_row=row, end_column=3)
+            row += 1
+        sh.put(row, 1, "See the Cautions sheet.")
+        sh.widths([42, 30, 14, 12, 9])
+        self.protect(sh, "Summary", None, landscape=False)
+
+    # Charts ---------------------------------------------------------------------------------
+    def charts(self) -> None:
+        try:
+            from .charts import add_charts_sheet
+        except ImportError:
+            return
+        before = set(self.wb.sheetnames)
+        add_charts_sheet(self.wb, self.result, paper=self.project.paper)
+        for title in self.wb.sheetnames:
+            if title not in before:
+                self.our_sheets.append(title)
+                self.wb[title].protection.sheet = True
+
+    # Names ----------------------------------------------------------------------------------
+    def names_sheet(self, sh: _Sheet) -> None:
+        sh.put(1, 1, "Defined names (workbook scope)", font=_TITLE)
+        sh.put(2, 1, "Every input and result has a name; formulas use the names, so "
+                     "=structural_damping*(acceleration/acceleration_limit)^2 reads as the "
+                     "equation.", align=_WRAP)
+        sh.ws.merge_cells("A2:E2")
+        sh.header(4, ["Name", "Refers to", "Quantity", "Unit", "Value"])
+        row = 5
+        labels = dict(self.helper_labels)
+        labels.update({n: (label, unit) for n, _, label, unit in self.name_info})
+        for name in sorted(self.names):
+            sheet, coord = self.names[name]
+            label, unit = labels.get(name, ("helper cell", ""))
+            sh.put(row, 1, name, border=True)
+            sh.put(row, 2, f"{sheet}!{coord}", border=True)
+            sh.put(row, 3, label, align=_WRAP, border=True)
+            sh.put(row, 4, unit, border=True)
+            sh.put(row, 5, f"={name}", fmt=_fmt(unit) if unit else "General", border=True)
+            row += 1
+        sh.widths([26, 18, 52, 8, 22])
+        self.protect(sh, "Names", "1:4", landscape=False)
+
+    # Cautions and record ---------------------------------------------------------------------
+    def cautions_sheet(self, sh: _Sheet) -> None:
+        sh.put(1, 1, "Cautions", font=_TITLE)
+        for i, text in enumerate(CAUTIONS, start=3):
+            sh.put(i, 1, f"{i - 2}.", align=_TOP)
+            sh.put(i, 2, text, align=_WRAP)
+        r = len(CAUTIONS) + 4
+        sh.put(r, 2, "Sources of the methods are given beside each step of the Calculation "
+                     "sheet. Values marked 'common practice, no source' are rules of the trade, "
+                     "not requirements of a standard.", align=_WRAP)
+        sh.widths([5, 95])
+        self.protect(sh, "Cautions", None, landscape=False)
+
+    def record_sheet(self, sh: _Sheet) -> None:
+        import functions
+        p = self.project
+        sh.put(1, 1, "Record", font=_TITLE)
+        rows = [
+            ("Program", f"swaytune {__version__} (workbook builder)"),
+            ("Engine", f"functions {getattr(functions, '__version__', '?')}"),
+            ("Source file", p.source_name),
+            ("Case", p.case or "-"),
+            ("Source SHA-256", p.source_sha256),
+            ("Unit system of the project", p.units),
+            ("Tuning method", p.tuning_method),
+            ("Build time", "see the document properties (created)"),
+            ("Rebuild with", f"swaytune build {p.source_name} -o <workbook>.xlsx"),
+        ]
+        for i, (k, v) in enumerate(rows, start=3):
+            sh.put(i, 1, k, font=_BOLD, border=True)
+            sh.text(i, 2, v, border=True, align=_WRAP)
+        sh.widths([28, 80])
+        self.protect(sh, "Record", None, landscape=False)
+
+    # layout ---------------------------------------------------------------------------------
+    def protect(self, sh: _Sheet, title: str, title_rows: str | None, landscape: bool) -> None:
+        _fit_rows(sh.ws)
+        sh.ws.protection.sheet = True
+        from .office import set_print_layout
+        set_print_layout(sh.ws, self.project.paper, landscape=landscape, title_rows=title_rows)
+
+
+def build_workbook(project: Project, *, template: str | Path | None = None,
+                   result=None) -> BuiltWorkbook:
+    """Build the workbook for a project and compute the cached value of every formula.
+
+    Parameters
+    ----------
+    project : Project
+        A validated project (:func:`workbook_builder.project.load_project`) [-].
+    template : path, optional
+        A firm's calc-sheet template whose title block is marked by defined names [-].
+    result : DesignResult, optional
+        The engine result, when already computed [-].
+
+    Returns
+    -------
+    built : BuiltWorkbook
+        Workbook, cached values, engine result and cross-check figures [-].
+
+    Raises
+    ------
+    ValueError
+        When the engine cannot compute the design for these inputs.
+    BuildError
+        When a formula of ours evaluates to an error (a bug, never silently written).
+    """
+    result = run_engine(project) if result is None else result
+    b = _Builder(project, result, template)
+    wb = b.build()
+    ev = Evaluator(wb, sheets=b.our_sheets)
+    values: dict[tuple[str, str], Any] = {}
+    errors = []
+    for sheet, cells in ev.values().items():
+        for coord, v in cells.items():
+            if is_error(v):
+                errors.append(f"{sheet}!{coord}={v}")
+                continue
+            if isinstance(v, float) and not math.isfinite(v):
+                errors.append(f"{sheet}!{coord}={v}")
+                continue
+            values[(sheet, coord)] = v
+    if errors:
+        raise BuildError("formula(s) evaluate to an error: " + ", ".join(errors[:10]))
+    built = BuiltWorkbook(wb, values, result, project, dict(b.names))
+    for name, label, symbol, engine in b.cross:
+        v = built.value(name)
+        rel = abs(v) if engine == 0 else abs(v / engine - 1)
+        built.cross_checks.append((name, v, engine, rel))
+    for label, cell in b.design_verdict_cells:
+        built.design_verdicts.append((label, values[("Checks", cell)]))
+    built.engine_checks = [(c.name, bool(c.ok)) for c in getattr(result, "checks", ())]
+    return built
+
+
+#: Custom document property holding :func:`content_digest` of the workbook as built.
+DIGEST_PROPERTY = "SwaytuneContentDigest"
+
+
+def content_digest(wb) -> str:
+    """SHA-256 of every cell's type and value or formula (not cached values, not styles).
+
+    The same for the workbook in memory and as read back from the saved file, so a rebuild can
+    tell whether a file swaytune wrote was changed afterwards.
+    """
+    import hashlib
+    h = hashlib.sha256()
+    for ws in wb.worksheets:
+        h.update(ws.title.encode("utf-8") + b"\0")
+        for row in ws.iter_rows():
+            for c in row:
+                v = c.value
+                if v is None or v == "":
+                    continue
+                if isinstance(v, bool):
+                    text = f"b{v}"
+                elif isinstance(v, (int, float)):
+                    text = f"n{float(v):.16g}"      # openpyxl stores 16 significant digits
+                else:
+                    text = f"{c.data_type}{v}"
+                h.update(f"{c.coordinate}\0{text}\0".encode("utf-8"))
+    return h.hexdigest()
+
+
+def _set_digest(wb) -> None:
+    from openpyxl.packaging.custom import StringProperty
+    props = wb.custom_doc_props
+    for prop in list(props.props):
+        if prop.name == DIGEST_PROPERTY:
+            props.props.remove(prop)
+    props.append(StringProperty(name=DIGEST_PROPERTY, value=content_digest(wb)))
+
+
+def guard_hand_edits(path: str | Path, force: bool = False) -> None:
+    """Refuse to replace a swaytune workbook that was changed after it was built.
+
+    Raises
+    ------
+    OverwriteRefused
+        When ``path`` carries a content digest that no longer matches its cells (edited, or
+        saved by another application), unless ``force``.
+    """
+    from openpyxl import load_workbook
+
+    from .atomic import OverwriteRefused
+    p = Path(path)
+    if force or not p.is_file():
+        return
+    try:
+        wb = load_workbook(p)
+    except Exception:           # not readable as a workbook: guard_overwrite decides
+        return
+    stored = next((prop.value for prop in wb.custom_doc_props.props
+                   if prop.name == DIGEST_PROPERTY), None)
+    if stored is not None and stored != content_digest(wb):
+        raise OverwriteRefused(
+            f"{p} was changed after swaytune built it (edited, or saved by another "
+            "application); refusing to overwrite it (choose another output name, or force "
+            "the overwrite)")
+
+
+def write_workbook(project: Project, out: str | Path, *, force: bool = False,
+                   template: str | Path | None = None) -> BuiltWorkbook:
+    """Build and save a project's workbook to ``out`` with cached values, atomically.
+
+    Raises
+    ------
+    OverwriteRefused
+        When ``out`` exists and was not made by swaytune, or was changed after swaytune built
+        it (unless ``force``).
+    ValueError, BuildError
+        See :func:`build_workbook`.
+    """
+    from .atomic import guard_overwrite
+    from .cached import write_with_cached_values
+    guard_overwrite(out, force=force)
+    guard_hand_edits(out, force=force)
+    built = build_workbook(project, template=template)
+    _set_digest(built.workbook)
+    # Without a template every formula cell is ours and must get its cached value.
+    write_with_cached_values(built.workbook, out, built.values, require_all=template is None)
+    return built

@@ -1,0 +1,338 @@
+# SPDX-License-Identifier: MIT
+"""LibreOffice headless: recalculation, PDF export, print layout and error scan.
+
+Every conversion runs ``soffice --headless --convert-to ...`` with
+
+* a private, throw-away user profile per run (``-env:UserInstallation=file:///tmp/...``), so
+  runs never share state, never touch the user's own profile and may run side by side;
+* ``OOXMLRecalcMode`` (and ``ODFRecalcMode``) written into that profile's
+  ``registrymodifications.xcu`` before the first start: ``0`` (always recalculate on load, the
+  default here) makes LibreOffice recompute every formula instead of trusting cached values;
+  ``1`` (never) keeps the cached values, which is how a viewer that does not recalculate sees
+  the file; macros are disabled (MacroSecurityLevel 3);
+* a fresh, separate output directory, a timeout that kills the whole process group, and a check
+  that the output file exists (``soffice`` exits with status 0 even when the conversion failed).
+
+Spreadsheet error codes differ between applications (LibreOffice shows ``Err:502`` where Excel shows
+``#NUM!``; saved to .xlsx, LibreOffice maps most to Excel codes). :func:`find_error_cells` therefore
+answers "is this an error", not "which one".
+"""
+from __future__ import annotations
+
+import os
+import re
+import shutil
+import signal
+import subprocess
+import tempfile
+from pathlib import Path
+from typing import Any, Iterable
+
+__all__ = [
+    "OfficeError",
+    "find_soffice",
+    "recalculate",
+    "export_pdf",
+    "convert",
+    "set_print_layout",
+    "read_values",
+    "find_error_cells",
+    "is_error_value",
+    "ERROR_CODES",
+]
+
+#: Error codes a spreadsheet application may store in a cell (Excel, LibreOffice, Google Sheets).
+ERROR_CODES = frozenset({
+    "#NULL!", "#DIV/0!", "#VALUE!", "#REF!", "#NAME?", "#NUM!", "#N/A", "#GETTING_DATA",
+    "#SPILL!", "#CALC!", "#FIELD!", "#BLOCKED!", "#CONNECT!", "#BUSY!", "#UNKNOWN!", "#ERROR!",
+})
+_ERROR_PATTERN = re.compile(r"^(?:Err:\d{3}|#[A-Z0-9/_]+[!?]|#N/A)$")
+
+#: Recalculation modes understood by LibreOffice's Formula/Load settings.
+_RECALC_MODES = {"always": 0, "never": 1}
+
+_XCU_TEMPLATE = """<?xml version="1.0" encoding="UTF-8"?>
+<oor:items xmlns:oor="http://openoffice.org/2001/registry" \
+xmlns:xs="http://www.w3.org/2001/XMLSchema" xmlns:xsi="http://www.w3.org/2001/XMLSchema-instance">
+<item oor:path="/org.openoffice.Office.Calc/Formula/Load"><prop oor:name="OOXMLRecalcMode" \
+oor:op="fuse"><value>{mode}</value></prop></item>
+<item oor:path="/org.openoffice.Office.Calc/Formula/Load"><prop oor:name="ODFRecalcMode" \
+oor:op="fuse"><value>{mode}</value></prop></item>
+<item oor:path="/org.openoffice.Office.Common/Misc"><prop oor:name="FirstRun" \
+oor:op="fuse"><value>false</value></prop></item>
+<item oor:path="/org.openoffice.Office.Common/Security/Scripting">\
+<prop oor:name="MacroSecurityLevel" oor:op="fuse"><value>3</value></prop></item>
+</oor:items>
+"""
+
+
+class OfficeError(RuntimeError):
+    """LibreOffice is missing, timed out, or did not produce the expected output file."""
+
+
+def find_soffice() -> str | None:
+    """Return the path of the LibreOffice ``soffice`` program, or None.
+
+    Looks at the ``SWAYTUNE_SOFFICE`` environment variable first, then ``soffice`` and
+    ``libreoffice`` on ``PATH``, then the usual install locations on Linux, macOS and Windows.
+    """
+    env = os.environ.get("SWAYTUNE_SOFFICE")
+    if env and Path(env).is_file() and os.access(env, os.X_OK):
+        return str(Path(env))
+    for name in ("soffice", "libreoffice"):
+        found = shutil.which(name)
+        if found:
+            return found
+    candidates = [
+        "/usr/lib/libreoffice/program/soffice",
+        "/opt/libreoffice/program/soffice",
+        "/Applications/LibreOffice.app/Contents/MacOS/soffice",
+        r"C:\Program Files\LibreOffice\program\soffice.exe",
+        r"C:\Program Files (x86)\LibreOffice\program\soffice.exe",
+    ]
+    candidates += sorted(str(p) for p in Path("/opt").glob("libreoffice*/program/soffice"))
+    for cand in candidates:
+        if Path(cand).is_file() and os.access(cand, os.X_OK):
+            return cand
+    return None
+
+
+def _write_profile(profile: Path, recalc: str) -> None:
+    """Create a private LibreOffice user profile with the recalculation mode set."""
+    user = profile / "user"
+    user.mkdir(parents=True, exist_ok=True)
+    (user / "registrymodifications.xcu").write_text(
+        _XCU_TEMPLATE.format(mode=_RECALC_MODES[recalc]), encoding="utf-8")
+
+
+def _run(cmd: list[str], timeout: float, env: dict[str, str]) -> subprocess.CompletedProcess:
+    """Run ``cmd`` in its own process group; kill the whole group on timeout."""
+    proc = subprocess.Popen(cmd, stdout=subprocess.PIPE, stderr=subprocess.PIPE, env=env,
+                            start_new_session=True, text=True, errors="replace")
+    try:
+        out, err = proc.communicate(timeout=timeout)
+    except subprocess.TimeoutExpired:
+        try:
+            os.killpg(proc.pid, signal.SIGKILL)
+        except (ProcessLookupError, PermissionError):
+            proc.kill()
+        proc.communicate()
+        raise OfficeError(f"LibreOffice did not finish within {timeout:g} s: "
+                          f"{' '.join(cmd)}") from None
+    return subprocess.CompletedProcess(cmd, proc.returncode, out, err)
+
+
+def convert(path: str | os.PathLike, outdir: str | os.PathLike, target: str = "xlsx", *,
+            timeout: float = 180, recalc: str = "always", soffice: str | None = None) -> Path:
+    """Convert ``path`` with LibreOffice headless into ``outdir``; return the output path.
+
+    ``target`` is the ``--convert-to`` argument (``"xlsx"``, ``"pdf"``, ``"ods"`` or with a filter,
+    e.g. ``"xlsx:Calc MS Excel 2007 XML"``); ``recalc`` is ``"always"`` (``OOXMLRecalcMode=0``) or
+    ``"never"`` (keep cached values). The output is ``outdir / (stem + "." + extension)`` and
+    replaces an older file of that name atomically.
+
+    Raises
+    ------
+    FileNotFoundError
+        When ``path`` does not exist.
+    ValueError
+        When ``outdir`` is the input's own directory and the extension would overwrite the input,
+        or ``recalc`` is unknown.
+    OfficeError
+        When soffice is not installed, times out, or produces no output file.
+    """
+    src = Path(path).resolve()
+    if not src.is_file():
+        raise FileNotFoundError(f"workbook to convert not found: {src}")
+    if recalc not in _RECALC_MODES:
+        raise ValueError(f"recalc={recalc!r} must be one of {sorted(_RECALC_MODES)}")
+    ext = target.split(":", 1)[0].lower()
+    out_dir = Path(outdir).resolve()
+    dest = out_dir / f"{src.stem}.{ext}"
+    if dest == src:
+        raise ValueError(f"outdir={str(out_dir)!r} would overwrite the input {src.name}; "
+                         "use a separate output directory")
+    exe = soffice or find_soffice()
+    if exe is None:
+        raise OfficeError("LibreOffice (soffice) not found; install it (e.g. 'apt-get install -y "
+                          "libreoffice-calc-nogui') or set SWAYTUNE_SOFFICE")
+    out_dir.mkdir(parents=True, exist_ok=True)
+    with tempfile.TemporaryDirectory(prefix="swaytune-lo-") as tmp:
+        tmp_path = Path(tmp)
+        profile = tmp_path / "profile"
+        _write_profile(profile, recalc)
+        work_out = tmp_path / "out"
+        work_out.mkdir()
+        cmd = [exe, f"-env:UserInstallation={profile.as_uri()}", "--headless", "--norestore",
+               "--nologo", "--nodefault", "--nolockcheck", "--convert-to", target,
+               "--outdir", str(work_out), str(src)]
+        env = dict(os.environ)
+        env.setdefault("SAL_USE_VCLPLUGIN", "svp")
+        result = _run(cmd, timeout, env)
+        produced = work_out / dest.name
+        if not produced.is_file() or produced.stat().st_size == 0:
+            detail = (result.stderr.strip() or result.stdout.strip() or "no message")[-2000:]
+            raise OfficeError(f"LibreOffice produced no {ext} file from {src.name} "
+                              f"(exit status {result.returncode}): {detail}")
+        # Move into place atomically (temporary file next to the destination, then os.replace).
+        from .atomic import atomic_path
+
+        with atomic_path(dest) as staging:
+            shutil.copyfile(produced, staging)
+    return dest
+
+
+def recalculate(path: str | os.PathLike, outdir: str | os.PathLike, timeout: float = 180, *,
+                recalc: str = "always", soffice: str | None = None) -> Path:
+    """Recalculate a workbook in LibreOffice headless; return the new .xlsx path.
+
+    Every formula is recomputed on load (``OOXMLRecalcMode=0`` in a private profile) and the result
+    is saved as ``outdir / <stem>.xlsx``. Read the recalculated values with :func:`read_values` and
+    look for errors with :func:`find_error_cells`. ``recalc="never"`` keeps the cached values
+    instead (useful to check what a viewer that does not recalculate shows).
+
+    Raises
+    ------
+    FileNotFoundError, ValueError, OfficeError
+        See :func:`convert`.
+    """
+    return convert(path, outdir, "xlsx:Calc MS Excel 2007 XML", timeout=timeout, recalc=recalc,
+                   soffice=soffice)
+
+
+def export_pdf(path: str | os.PathLike, outdir: str | os.PathLike, timeout: float = 180, *,
+               recalc: str = "always", soffice: str | None = None) -> Path:
+    """Export a workbook to PDF through LibreOffice headless; return the PDF path.
+
+    Formulas are recalculated first. Page size, orientation, print areas, repeated title rows and
+    fit-to-width come from the workbook itself (see :func:`set_print_layout`).
+
+    Raises
+    ------
+    FileNotFoundError, ValueError, OfficeError
+        See :func:`convert`.
+    """
+    return convert(path, outdir, "pdf:calc_pdf_Export", timeout=timeout, recalc=recalc,
+                   soffice=soffice)
+
+
+def set_print_layout(ws: Any, paper: str = "A4", landscape: bool = False,
+                     title_rows: str | tuple[int, int] | None = None, *,
+                     print_area: str | None = None, fit_to_width: bool = True,
+                     margins_in: float = 0.6, footer: bool = True) -> None:
+    """Lay out an openpyxl worksheet for filing: paper, fit to width, titles, footer.
+
+    ``paper`` is ``"A4"`` or ``"Letter"``; ``title_rows`` repeats rows at the top of each page
+    (``"1:3"`` or ``(1, 3)``); ``print_area`` defaults to the used range of the sheet. With
+    ``fit_to_width`` the sheet is scaled to one page wide and as many pages tall as needed. With
+    ``footer`` each page shows the sheet name and "Page n of N" (header/footer codes &A, &P, &N).
+
+    Raises
+    ------
+    ValueError
+        For an unknown paper name or malformed title rows.
+    """
+    sizes = {"A4": ws.PAPERSIZE_A4, "LETTER": ws.PAPERSIZE_LETTER}
+    key = str(paper).upper()
+    if key not in sizes:
+        raise ValueError(f"paper={paper!r} must be one of ['A4', 'Letter']")
+    ws.page_setup.paperSize = sizes[key]
+    ws.page_setup.orientation = "landscape" if landscape else "portrait"
+    if fit_to_width:
+        ws.sheet_properties.pageSetUpPr.fitToPage = True
+        ws.page_setup.fitToWidth = 1
+        ws.page_setup.fitToHeight = 0
+    else:
+        ws.sheet_properties.pageSetUpPr.fitToPage = False
+    if title_rows is not None:
+        if isinstance(title_rows, tuple):
+            first, last = title_rows
+        else:
+            m = re.fullmatch(r"\$?(\d+):\$?(\d+)", str(title_rows).strip())
+            if not m:
+                raise ValueError(f"title_rows={title_rows!r} must look like '1:3' or (1, 3)")
+            first, last = int(m.group(1)), int(m.group(2))
+        if not (isinstance(first, int) and isinstance(last, int) and 1 <= first <= last):
+            raise ValueError(f"title_rows={title_rows!r} must be rows first <= last, from 1")
+        ws.print_title_rows = f"{first}:{last}"
+    ws.print_area = print_area or ws.dimensions
+    for side in ("left", "right"):
+        setattr(ws.page_margins, side, margins_in)
+    ws.page_margins.top = ws.page_margins.bottom = margins_in + 0.15
+    ws.page_margins.header = ws.page_margins.footer = 0.3
+    ws.print_options.horizontalCentered = False
+    if footer:
+        ws.oddFooter.left.text = "&A"
+        ws.oddFooter.right.text = "Page &P of &N"
+        ws.evenFooter.left.text = "&A"
+        ws.evenFooter.right.text = "Page &P of &N"
+
+
+def is_error_value(value: Any, data_type: str | None = None) -> bool:
+    """True when a cell value read back is a spreadsheet error (``#VALUE!``, ``Err:502``, ...)."""
+    if data_type == "e":
+        return True
+    return isinstance(value, str) and bool(_ERROR_PATTERN.match(value.strip()))
+
+
+def read_values(path: str | os.PathLike) -> dict[tuple[str, str], Any]:
+    """Read the stored (cached or recalculated) values of every non-empty cell.
+
+    Returns a dict ``(sheet title, "A1") -> value`` read with openpyxl ``data_only=True``; formula
+    cells without a cached value read as None and are included.
+    """
+    from openpyxl import load_workbook
+
+    wb = load_workbook(path, data_only=True)
+    try:
+        out: dict[tuple[str, str], Any] = {}
+        formulas = _formula_coordinates(path)
+        for ws in wb.worksheets:
+            for row in ws.iter_rows():
+                for cell in row:
+                    if cell.value is not None or (ws.title, cell.coordinate) in formulas:
+                        out[(ws.title, cell.coordinate)] = cell.value
+        return out
+    finally:
+        wb.close()
+
+
+def _formula_coordinates(path: str | os.PathLike) -> set[tuple[str, str]]:
+    """(sheet, coordinate) of every formula cell, read with openpyxl (formulas kept)."""
+    from openpyxl import load_workbook
+
+    wb = load_workbook(path, data_only=False)
+    try:
+        return {(ws.title, c.coordinate) for ws in wb.worksheets for row in ws.iter_rows()
+                for c in row if c.data_type == "f"}
+    finally:
+        wb.close()
+
+
+def find_error_cells(path: str | os.PathLike, *, include_text: bool = True,
+                     sheets: Iterable[str] | None = None) -> list[tuple[str, str, str]]:
+    """List cells whose stored value is a spreadsheet error, as (sheet, cell, shown value).
+
+    Reads the file with openpyxl ``data_only=True`` (so run it on a recalculated copy, see
+    :func:`recalculate`). Cells typed as errors always count; with ``include_text`` a text cell
+    that reads exactly like an error code (``#NAME?``, ``Err:502``) counts too, because some
+    applications store errors that way. Order: sheet order, then row by row.
+    """
+    from openpyxl import load_workbook
+
+    wanted = None if sheets is None else set(sheets)
+    wb = load_workbook(path, data_only=True)
+    try:
+        found = []
+        for ws in wb.worksheets:
+            if wanted is not None and ws.title not in wanted:
+                continue
+            for row in ws.iter_rows():
+                for cell in row:
+                    if cell.value is None:
+                        continue
+                    if cell.data_type == "e" or (include_text and is_error_value(cell.value)):
+                        found.append((ws.title, cell.coordinate, str(cell.value)))
+        return found
+    finally:
+        wb.close()

@@ -1,0 +1,111 @@
+# SPDX-License-Identifier: MIT
+"""Input units of project files and workbooks, with exact factors to SI.
+
+Each kind of quantity lists the units a project may use for an input and the factor that
+turns a value in that unit into the SI unit the engine takes (``si = value * factor``). The
+factors are exact by definition, so a workbook converts with an explicit, visible factor
+cell instead of CONVERT (whose pound constants differ between applications by ~1e-7).
+
+Sources: international foot 0.3048 m and avoirdupois pound 0.45359237 kg, exact (international
+yard and pound agreement, 1959; NIST SP 811 (2008), Appendix B); standard gravity
+9.80665 m/s^2, exact (3rd CGPM, 1901). ``kip`` is used as a mass unit: the mass that weighs
+1 kip (1000 lbf) under standard gravity, i.e. 1000 lb of mass — the US practice of giving
+masses as weights.
+"""
+from __future__ import annotations
+
+from dataclasses import dataclass
+
+from functions.pendulum import STANDARD_GRAVITY
+
+__all__ = ["Unit", "UNITS", "DEFAULT_UNITS", "SI_UNIT", "unit_for", "UNIT_SYSTEMS"]
+
+FOOT = 0.3048
+INCH = 0.0254
+POUND = 0.45359237
+
+
+@dataclass(frozen=True)
+class Unit:
+    """A unit of a kind of quantity and its exact factor to the SI unit."""
+
+    symbol: str
+    factor: float
+    source: str
+
+
+_EXACT_1959 = "exact: 1959 international yard and pound; NIST SP 811 (2008) App. B"
+
+#: kind -> {unit symbol: Unit}; the first unit of each kind is the SI unit.
+UNITS: dict[str, dict[str, Unit]] = {
+    "frequency": {"Hz": Unit("Hz", 1.0, "SI unit")},
+    "mass": {
+        "kg": Unit("kg", 1.0, "SI unit"),
+        "t": Unit("t", 1000.0, "exact: 1 t = 1000 kg (SI Brochure)"),
+        "lb": Unit("lb", POUND, _EXACT_1959),
+        "kip": Unit("kip", 1000.0 * POUND, "exact: mass weighing 1 kip under standard "
+                    "gravity = 1000 lb; " + _EXACT_1959),
+    },
+    "fraction": {
+        "-": Unit("-", 1.0, "fraction"),
+        "%": Unit("%", 0.01, "exact: 1 % = 0.01"),
+    },
+    "acceleration": {
+        "m/s^2": Unit("m/s^2", 1.0, "SI unit"),
+        "milli-g": Unit("milli-g", STANDARD_GRAVITY / 1000.0,
+                        "exact: g_n = 9.80665 m/s^2 (3rd CGPM 1901)"),
+        "ft/s^2": Unit("ft/s^2", FOOT, _EXACT_1959),
+    },
+    "length": {
+        "m": Unit("m", 1.0, "SI unit"),
+        "mm": Unit("mm", 0.001, "exact: 1 mm = 0.001 m"),
+        "ft": Unit("ft", FOOT, _EXACT_1959),
+        "in": Unit("in", INCH, _EXACT_1959),
+    },
+    "angle": {"deg": Unit("deg", 1.0, "degree (the engine's angle unit)")},
+}
+
+#: The SI (engine) unit of each kind.
+SI_UNIT = {kind: next(iter(units)) for kind, units in UNITS.items()}
+
+UNIT_SYSTEMS = ("SI", "US")
+
+#: Unit a bare number in a project file is read in, per unit system and kind.
+DEFAULT_UNITS: dict[str, dict[str, str]] = {
+    "SI": {"frequency": "Hz", "mass": "kg", "fraction": "-", "acceleration": "m/s^2",
+           "length": "m", "angle": "deg"},
+    "US": {"frequency": "Hz", "mass": "kip", "fraction": "-", "acceleration": "ft/s^2",
+           "length": "ft", "angle": "deg"},
+}
+
+
+def unit_for(kind: str, symbol: str) -> Unit:
+    """The :class:`Unit` ``symbol`` of ``kind``.
+
+    Raises
+    ------
+    ValueError
+        When ``symbol`` is not a unit of ``kind``; the message lists the valid ones.
+
+    Examples
+    --------
+    >>> unit_for("length", "ft").factor
+    0.3048
+    """
+    units = UNITS[kind]
+    if symbol not in units:
+        raise ValueError(f"unit {symbol!r} is not a {kind} unit; use one of "
+                         f"{', '.join(repr(u) for u in units)}")
+    return units[symbol]
+
+#: lbf in N, exact: 0.45359237 kg x 9.80665 m/s^2 (NIST SP 811 (2008) App. B).
+POUND_FORCE = POUND * STANDARD_GRAVITY
+
+#: Results shown beside the SI value in US customary projects: SI unit -> (unit, factor).
+US_DISPLAY: dict[str, tuple[str, float]] = {
+    "kg": ("kip", 1000.0 * POUND),
+    "m": ("ft", FOOT),
+    "m/s^2": ("milli-g", STANDARD_GRAVITY / 1000.0),
+    "N/m": ("kip/ft", 1000.0 * POUND_FORCE / FOOT),
+    "N s/m": ("kip s/ft", 1000.0 * POUND_FORCE / FOOT),
+}
