@@ -417,6 +417,7 @@ def test_cli_examples_into_a_copy(tmp_path, capsys):
     out = capsys.readouterr().out
     assert (tmp_path / "residential_tower.xlsx").is_file()
     assert "residential_tower.xlsx" in out and "cross-check" in out and "CAUTION" in out
+    assert "nonlinear" in out and "deg)" in out        # the example asks for the simulation
 
 
 def test_cli_examples_empty_dir(tmp_path, capsys):
@@ -558,3 +559,260 @@ def test_refuses_to_overwrite_a_workbook_changed_after_the_build(tmp_path):
         write_workbook(project, out)
     assert out.read_bytes() == before
     write_workbook(project, out, force=True)
+
+
+# ----------------------------------------------------------------------------- precision
+def _variance_steps_workbook(mu, f, zd, zs):
+    """A workbook holding the four parameters and the Calculation sheet's variance steps."""
+    from openpyxl.workbook.defined_name import DefinedName
+    wb = openpyxl.Workbook()
+    ws = wb.active
+    ws.title = "S"
+    row = 1
+    for name, value in (("mass_ratio", mu), ("tuning_ratio", f), ("damper_damping", zd),
+                        ("structural_damping", zs)):
+        ws.cell(row, 1, value)
+        wb.defined_names.add(DefinedName(name, attr_text=f"S!$A${row}"))
+        row += 1
+    for step in all_steps("h2", "chosen_mass_ratio"):
+        if step.name.startswith("var_") or step.name in ("effective_damping", "stroke_ratio"):
+            ws.cell(row, 1, step.formula)
+            wb.defined_names.add(DefinedName(step.name, attr_text=f"S!$A${row}"))
+            row += 1
+    return Evaluator(wb)
+
+
+def _raw_i4(mu, f, zd, zs):
+    """Effective damping and stroke ratio from the raw I4 integral in 50-digit arithmetic.
+
+    D. E. Newland, An Introduction to Random Vibrations, Spectral & Wavelet Analysis, 3rd ed.
+    (1993), Appendix 1 (I4): with w = f^2, g = zeta_d f, a3 = 2 g (1 + mu) + 2 zeta_s,
+    a2 = w (1 + mu) + 1 + 4 zeta_s g, a1 = 2 zeta_s w + 2 g, num = w (a2 a3 - a1)
+    + a3 (4 g^2 - 2 w) + a1 and den = a1 (a2 a3 - a1) - w a3^2: zeta_eff = den / (2 num),
+    stroke ratio = sqrt(a1 / num). In double precision den loses about -log10(mu) digits to
+    cancellation; at 50 digits it does not matter.
+    """
+    import mpmath
+    with mpmath.workdps(50):
+        mu, f, zd, zs = (mpmath.mpf(x) for x in (mu, f, zd, zs))
+        w, g = f * f, zd * f
+        a3 = 2 * g * (1 + mu) + 2 * zs
+        a2 = w * (1 + mu) + 1 + 4 * zs * g
+        a1 = 2 * zs * w + 2 * g
+        p = a2 * a3 - a1
+        num = w * p + a3 * (4 * g * g - 2 * w) + a1
+        den = a1 * p - w * a3 * a3
+        return float(den / (2 * num)), float(mpmath.sqrt(a1 / num))
+
+
+def test_raw_i4_reference_agrees_with_a_lyapunov_solution():
+    """The 50-digit reference formula is the right variance: check it against the stationary
+    covariance of the 2-DOF state equations (scipy.linalg.solve_continuous_lyapunov)."""
+    import numpy as np
+    from scipy.linalg import solve_continuous_lyapunov
+    mu, f, zd, zs = 0.02, 0.98, 0.07, 0.01
+    # unit structure mass and frequency; damper mass mu (Den Hartog 1956, s3.3 set-up)
+    m = np.diag([1.0, mu])
+    k = np.array([[1 + mu * f * f, -mu * f * f], [-mu * f * f, mu * f * f]])
+    cd = 2 * mu * zd * f
+    c = np.array([[2 * zs + cd, -cd], [-cd, cd]])
+    a = np.block([[np.zeros((2, 2)), np.eye(2)],
+                  [-np.linalg.solve(m, k), -np.linalg.solve(m, c)]])
+    b = np.concatenate([np.zeros(2), np.linalg.solve(m, [1.0, 0.0])])[:, None]
+    cov = solve_continuous_lyapunov(a, -b @ b.T)
+    var_x = cov[0, 0]
+    var_rel = cov[1, 1] - 2 * cov[0, 1] + cov[0, 0]
+    # bare structure, same white force: variance 1 / (4 zeta) -> zeta_eff = 1 / (4 var_x)
+    zeta_ref, stroke_ref = _raw_i4(mu, f, zd, zs)
+    assert 1 / (4 * var_x) == pytest.approx(zeta_ref, rel=1e-9)
+    assert math.sqrt(var_rel / var_x) == pytest.approx(stroke_ref, rel=1e-9)
+
+
+@pytest.mark.parametrize("mu", [1e-4, 1e-3, 0.005, 0.02, 0.1, 0.2])
+@pytest.mark.parametrize("zs", [0.0, 0.005, 0.02])
+def test_native_variance_formulas_keep_full_precision(mu, zs):
+    """The worksheet's regrouped form (functions.damper, N, D, X) loses no digits: it agrees
+    with the 50-digit raw I4 integral to 1e-13 even at mu = 1e-4, where the raw form in double
+    precision keeps only about 12 digits."""
+    from functions.damper import effective_damping, optimal_tuning, stroke_ratio
+    f, zd = optimal_tuning(mu, "h2", zs)
+    ev = _variance_steps_workbook(mu, f, zd, zs)
+    zeta_ref, stroke_ref = _raw_i4(mu, f, zd, zs)
+    zeta = ev.evaluate("=effective_damping", "S")
+    stroke = ev.evaluate("=stroke_ratio", "S")
+    assert zeta == pytest.approx(zeta_ref, rel=1e-13)
+    assert stroke == pytest.approx(stroke_ref, rel=1e-13)
+    # and the cross-check against the engine holds far inside its 1e-9
+    assert zeta == pytest.approx(effective_damping(mu, f, zd, zs), rel=1e-14)
+    assert stroke == pytest.approx(stroke_ratio(mu, f, zd, zs), rel=1e-14)
+
+
+# ----------------------------------------------------------------------------- Nonlinear sheet
+def _nonlinear_flag(b):
+    return [n for n, (sheet, _) in b.names.items()
+            if n.startswith("engine_flag_") and sheet == "Nonlinear"]
+
+
+def test_nonlinear_sheet_only_when_asked(built):
+    from workbook_builder.build import SHEETS
+    for name in EXAMPLE_NAMES:
+        b, path = built[name]
+        wb = openpyxl.load_workbook(path)
+        assert wb.sheetnames == [s for s in SHEETS if s in wb.sheetnames]
+        assert ("Nonlinear" in wb.sheetnames) == (name == "residential_tower"), name
+        assert (b.simulation is not None) == (name == "residential_tower")
+    b, _ = built["observation_mast"]
+    assert not b.nonlinear_verdicts and not _nonlinear_flag(b)
+
+
+def test_nonlinear_values_are_the_engines(built):
+    """Every engine value on the sheet is the engine's, for the design's own damper: the
+    design's pendulum length and the designed dashpot (zeta_d on f_d -> on f_L)."""
+    from functions.simulation import RandomForce, simulate
+    b, path = built["residential_tower"]
+    r, run = b.result, b.simulation
+    sim = run.result
+    f_l = math.sqrt(r.inputs.g / r.pendulum_length) / (2 * math.pi)
+    assert run.length == r.pendulum_length and run.hanger_frequency == pytest.approx(f_l,
+                                                                                      rel=1e-15)
+    # c_d = 2 m_d omega zeta is the same dashpot on either frequency
+    assert 2 * r.damper_mass * 2 * math.pi * f_l * run.damper_damping == pytest.approx(
+        r.dashpot, rel=1e-13)
+    again = simulate(r.inputs.modal_mass, r.inputs.frequency, r.inputs.structural_damping,
+                     r.damper_mass, r.pendulum_length, run.damper_damping,
+                     RandomForce(run.force, r.inputs.frequency, seed=1), 600.0)
+    assert again.nonlinear.swing_deg == sim.nonlinear.swing_deg
+    wb = openpyxl.load_workbook(path, data_only=True)
+    expected = {"sim_swing_deg": sim.nonlinear.swing_deg, "sim_detuning": sim.detuning,
+                "sim_measured_detuning": sim.simulated_detuning,
+                "sim_departure": sim.departure, "sim_length": r.pendulum_length,
+                "sim_acceleration_rms": sim.nonlinear.acceleration_rms,
+                "sim_stroke_peak": sim.nonlinear.stroke_peak,
+                "sim_effective_damping": sim.nonlinear.effective_damping,
+                "sim_frequency_at_swing": sim.damper_frequency_at_swing,
+                "sim_tolerance": 0.05}
+    for name, value in expected.items():
+        assert _named_cell(wb, name).value == pytest.approx(value, rel=1e-15), name
+    assert _named_cell(wb, "sim_verdict").value == ("OK" if sim.within_tolerance else "NOT OK")
+    [flag] = _nonlinear_flag(b)
+    assert _named_cell(wb, flag).value == "current"
+    ws = wb["Nonlinear"]
+    text = " ".join(str(c.value) for row in ws.iter_rows(max_col=6) for c in row if c.value)
+    assert "ENGINE VALUES" in text and "computed" in text and "rebuild" in text
+    assert sim.verdict in text
+
+
+def test_random_load_is_calibrated_to_the_wind_input(built):
+    """Bare building under the random force: RMS acceleration x Davenport peak factor equals
+    the input peak acceleration. Reference variance by numerical integration of |H_a|^2 S_F
+    (scipy.integrate.quad), peak factor from Davenport (Proc. ICE 28(2), 1964):
+    g = sqrt(2 ln(nu T)) + 0.5772 / sqrt(2 ln(nu T)), nu = f_s, T = 600 s."""
+    from scipy.integrate import quad
+    from functions.simulation import force_spectrum
+    b, _ = built["residential_tower"]
+    i, run = b.result.inputs, b.simulation
+    ws, M, zs = 2 * math.pi * i.frequency, i.modal_mass, i.structural_damping
+
+    def integrand(f):
+        w = 2 * math.pi * f
+        h = w * w / abs(M * (ws * ws - w * w) + 2j * zs * M * ws * w)
+        return h * h * force_spectrum(f, run.force, i.frequency)
+
+    var = sum(quad(integrand, lo, hi, limit=400)[0] for lo, hi in
+              ((0, 0.9 * i.frequency), (0.9 * i.frequency, 1.1 * i.frequency),
+               (1.1 * i.frequency, 20 * i.frequency)))
+    var += quad(integrand, 20 * i.frequency, math.inf, limit=400)[0]
+    lnvt = 2 * math.log(i.frequency * 600.0)
+    g_peak = math.sqrt(lnvt) + 0.5772 / math.sqrt(lnvt)
+    assert run.peak_factor == pytest.approx(g_peak, rel=1e-4)       # Euler's constant to 4 digits
+    assert math.sqrt(var) * g_peak == pytest.approx(i.acceleration, rel=1e-4)
+
+
+HARMONIC = MINIMAL + """
+[simulation]
+load = "harmonic"
+duration = 120
+load_factor = 4
+tolerance = 0.01
+"""
+
+
+@pytest.fixture(scope="module")
+def harmonic(tmp_path_factory):
+    src = tmp_path_factory.mktemp("harmonic") / "h.toml"
+    src.write_text(HARMONIC, encoding="utf-8")
+    path = src.with_suffix(".xlsx")
+    return write_workbook(load_project(src), path), path
+
+
+def test_harmonic_load_is_calibrated_to_the_wind_input(harmonic):
+    """Bare building forced at resonance: steady peak acceleration F0 / (2 zeta_s M) (textbook
+    single-degree-of-freedom result, Den Hartog 1956, s2.4) = load factor x input peak; the
+    record is sampled 32 times a period, so the sampled peak is low by up to
+    1 - cos(pi/32) = 0.5 %."""
+    b, _ = harmonic
+    i, run = b.result.inputs, b.simulation
+    assert run.force == pytest.approx(4 * i.acceleration * 2 * i.structural_damping
+                                      * i.modal_mass, rel=1e-12)
+    peak = run.result.without_damper.acceleration_peak
+    assert 4 * i.acceleration * (1 - 0.005) <= peak <= 4 * i.acceleration * (1 + 1e-6)
+
+
+def test_harmonic_storm_verdicts_follow_the_engine(harmonic):
+    b, path = harmonic
+    sim = b.simulation.result
+    max_detuning = b.value("max_detuning")
+    verdicts = dict(b.nonlinear_verdicts)
+    labels = list(verdicts)
+    assert verdicts[labels[0]] == ("OK" if sim.within_tolerance else "NOT OK")
+    assert verdicts[labels[1]] == ("OK" if abs(sim.detuning) <= max_detuning else "NOT OK")
+    assert verdicts[labels[2]] == ("OK" if sim.nonlinear.swing_deg <= b.value("max_swing_deg")
+                                   else "NOT OK")
+    assert sim.nonlinear.swing_deg > b.result.swing_angle_deg        # a storm beyond the design
+    wb = openpyxl.load_workbook(path)
+    ws = wb["Nonlinear"]
+    assert ws.print_area is not None and "$F$" in ws.print_area      # data columns not printed
+    summary = " ".join(str(c.value) for row in wb["Summary"].iter_rows() for c in row if c.value)
+    assert "Nonlinear simulation: response within the tolerance" in summary
+    record = {r[0].value: r[1].value for r in wb["Record"].iter_rows(min_row=3) if r[0].value}
+    assert record["Nonlinear simulation"].startswith("harmonic load, duration 120 s")
+
+
+def test_nonlinear_flag_follows_inputs(built):
+    b, path = built["residential_tower"]
+    wb = openpyxl.load_workbook(path)
+    [flag] = _nonlinear_flag(b)
+    assert Evaluator(wb).evaluate(f"={flag}", "Nonlinear") == "current"
+    acc = _named_cell(wb, "acceleration")
+    wb["Inputs"][f"C{acc.row}"].value *= 1.01
+    ev = Evaluator(wb)
+    assert ev.evaluate(f"={flag}", "Nonlinear") == "INPUTS CHANGED: rebuild"
+    [row] = [c.row for c in wb["Summary"]["A"]
+             if c.value == "Engine value of the nonlinear simulation current (inputs unchanged)"]
+    assert ev.cell("Summary", row, 2) == "NOT OK"
+
+
+def test_simulation_refused_without_table(tmp_path):
+    from workbook_builder.build import run_engine, run_simulation
+    src = tmp_path / "p.toml"
+    src.write_text(MINIMAL, encoding="utf-8")
+    project = load_project(src)
+    with pytest.raises(ValueError, match=r"p\.toml: the project does not ask for a simulation"):
+        run_simulation(project, run_engine(project))
+
+
+def test_undefined_engine_values_are_shown_not_written_as_nan(harmonic):
+    """NaN/inf from the engine (a swing over the top has no detuning; a departure against a
+    zero linear response is infinite) become 'not defined' and NOT OK, never a NaN cell or an
+    error value."""
+    import dataclasses
+    b, _ = harmonic
+    run = b.simulation
+    broken = dataclasses.replace(run.result, detuning=math.nan, simulated_detuning=math.nan,
+                                 damper_frequency_at_swing=math.nan, departure=math.inf,
+                                 equivalent_swing_deg=math.nan)
+    again = build_workbook(b.project, result=b.result,
+                           simulation=dataclasses.replace(run, result=broken))
+    assert [v for _, v in again.nonlinear_verdicts[:2]] == ["NOT OK", "NOT OK"]
+    assert again.value("sim_detuning") == "not defined"
+    assert again.value("sim_verdict") == "NOT OK"

@@ -264,3 +264,68 @@ def test_renders_to_pdf_and_png(saved, tmp_path):
                     str(tmp_path / "page")], check=True, timeout=120)
     png = next(tmp_path.glob("page*.png"))
     assert png.stat().st_size > 20_000   # three charts drawn, not a blank page
+
+
+# ----------------------------------------------------------------------------- time histories
+@pytest.fixture(scope="module")
+def simulated():
+    sim_mod = pytest.importorskip("functions.simulation")
+    # invented demo data: 0.2 Hz mode, 2 % damper on a 6 m hanger, resonant harmonic force
+    return sim_mod.simulate(1e6, 0.2, 0.01, 2e4, 6.0, 0.07, sim_mod.HarmonicForce(4e4, 0.2),
+                            300.0)
+
+
+def test_time_history_table_subsamples_the_record(simulated):
+    n = simulated.time.size
+    t = charts.time_history_table(simulated, max_points=500)
+    stride = math.ceil(n / 500)
+    assert len(t.rows) == math.ceil(n / stride) <= 500
+    for k in (0, 1, len(t.rows) - 1):
+        i = k * stride
+        want = (simulated.time[i], simulated.without_damper.acceleration[i],
+                simulated.nonlinear.acceleration[i], simulated.nonlinear.angle_deg[i],
+                simulated.linear.angle_deg[i])
+        assert t.rows[k] == pytest.approx(want, rel=5e-6, abs=1e-12)   # 6 significant digits
+    full = charts.time_history_table(simulated, max_points=n)
+    assert len(full.rows) == n and full.title == "Time histories"
+    with pytest.raises(ValueError, match=r"max_points=1 must be >= 2"):
+        charts.time_history_table(simulated, max_points=1)
+
+
+def test_time_history_charts_carry_their_data(simulated, tmp_path):
+    wb = openpyxl.Workbook()
+    ws = wb.active
+    ws.title = "Nonlinear"
+    last = charts.add_time_history_charts(ws, simulated, chart_row=3, data_row=1, data_col=8)
+    assert last == 3 + 2 * charts._CHART_ROWS - 1
+    path = tmp_path / "t.xlsx"
+    wb.save(path)
+    roots = _chart_xml(path)
+    assert len(roots) == 2
+    titles = [_text(r.find("c:chart/c:title", NS)) for r in roots]
+    assert "without and with the damper" in titles[0] and "swing angle" in titles[1]
+    cells = openpyxl.load_workbook(path, data_only=True)["Nonlinear"]
+    for root in roots:
+        for ax in root.findall("c:chart/c:plotArea/c:valAx", NS):
+            assert re.search(r"\[[^\]]+\]$", _text(ax.find("c:title", NS)))
+        for num_ref in root.iter(f"{{{NS['c']}}}numRef"):
+            rng = num_ref.find("c:f", NS).text.split("!")[1].replace("$", "")
+            values = [row[0].value for row in cells[rng]]
+            pts = [float(p.find("c:v", NS).text)
+                   for p in num_ref.find("c:numCache", NS).findall("c:pt", NS)]
+            assert pts == pytest.approx(values, rel=1e-14) and len(pts) <= charts.MAX_TIME_POINTS
+
+
+def test_swing_window_table_is_centred_on_the_peak_swing(simulated):
+    t = charts.swing_window_table(simulated, periods=4.0)
+    rows = t.rows
+    period = 1.0 / simulated.damper_frequency
+    assert rows[-1][0] - rows[0][0] == pytest.approx(4 * period, abs=simulated.time_step)
+    i0 = int(round(rows[0][0] / simulated.time_step))
+    for k, (time, exact, linear) in enumerate(rows):
+        assert time == pytest.approx(simulated.time[i0 + k], rel=5e-6, abs=1e-9)
+        assert exact == pytest.approx(simulated.nonlinear.angle_deg[i0 + k], rel=5e-6, abs=1e-12)
+        assert linear == pytest.approx(simulated.linear.angle_deg[i0 + k], rel=5e-6, abs=1e-12)
+    assert max(abs(r[1]) for r in rows) == pytest.approx(simulated.nonlinear.swing_deg, rel=5e-6)
+    with pytest.raises(ValueError, match=r"periods=0 must be > 0"):
+        charts.swing_window_table(simulated, periods=0)

@@ -87,6 +87,24 @@ def test_verdicts_after_recalculation(recalculated, name):
 
 
 @pytest.mark.parametrize("name", NAMES)
+def test_engine_flags_and_nonlinear_verdict_after_recalculation(recalculated, name):
+    """Every engine-value flag (Calculation and Nonlinear sheets) reads "current" after a full
+    recalculation, and the Nonlinear sheet's verdict is the engine's."""
+    built, _, lo = recalculated[name]
+    values = office.read_values(lo)
+    flags = [n for n in built.names if n.startswith("engine_flag_")]
+    assert flags and all(values[built.names[n]] == "current" for n in flags)
+    if built.simulation is None:
+        assert "sim_verdict" not in built.names
+        return
+    sim = built.simulation.result
+    assert values[built.names["sim_verdict"]] == ("OK" if sim.within_tolerance else "NOT OK")
+    # LibreOffice writes numbers with 15 significant digits
+    assert values[built.names["sim_swing_deg"]] == pytest.approx(sim.nonlinear.swing_deg,
+                                                                 rel=1e-14)
+
+
+@pytest.mark.parametrize("name", NAMES)
 def test_cached_values_equal_libreoffice(recalculated, name):
     built, path, lo = recalculated[name]
     mine = office.read_values(path)
@@ -126,3 +144,4 @@ def test_pdf_export_is_legible(recalculated, tmp_path, name):
                   "Cautions", "Record"):
         assert sheet in text
     assert "licensed" in text and "preliminary design aid" in text
+    assert ("Nonlinear check" in text) == (name == "residential_tower")

@@ -292,3 +292,59 @@ def test_parse_project_from_dicts():
             "damper": {"clearance": 1.0}}
     p = parse_project(data, source="dict")
     assert p.si("frequency") == 0.2 and math.isclose(p.si("g"), 9.80665)
+
+
+# ----------------------------------------------------------------------------- [simulation]
+def test_simulation_table_defaults_and_values(tmp_path):
+    from workbook_builder.project import SimulationSettings
+    assert load_project(write(tmp_path, MINIMAL)).simulation is None
+    assert not load_project(write(tmp_path, MINIMAL)).simulate
+    p = load_project(write(tmp_path, MINIMAL + "\n[simulation]\n"))
+    assert p.simulation == SimulationSettings() and p.simulate
+    assert (p.simulation.load, p.simulation.duration, p.simulation.seed,
+            p.simulation.tolerance, p.simulation.load_factor) == ("random", 600.0, 1, 0.05, 1.0)
+    p = load_project(write(tmp_path, MINIMAL + '\n[simulation]\nenabled = false\nload = '
+                                               '"harmonic"\nduration = 120\nseed = 7\n'
+                                               'tolerance = 0.1\nload_factor = 2.5\n'))
+    assert not p.simulate
+    assert p.simulation == SimulationSettings(False, "harmonic", 120.0, 7, 0.1, 2.5)
+
+
+def test_examples_switch_the_simulation():
+    assert load_project(EXAMPLES / "residential_tower.toml").simulate
+    assert not load_project(EXAMPLES / "observation_mast.toml").simulate
+    assert load_project(EXAMPLES / "office_tower_us.toml").simulation is None
+
+
+@pytest.mark.parametrize("line, message", [
+    ('lode = "random"', r"p\.toml:19: simulation\.lode: unknown key \(did you mean 'load'\?\)"),
+    ('load = "wind"', r"p\.toml:19: simulation\.load: 'wind' must be one of "
+                      r"\['random', 'harmonic'\]"),
+    ("duration = 30", r"p\.toml:19: simulation\.duration: 30 must be in \[60, 3600\] \[s\]"),
+    ("duration = nan", r"simulation\.duration: value nan must be a finite number"),
+    ("tolerance = 0", r"p\.toml:19: simulation\.tolerance: 0 must be in \(0, 1\] \[-\]"),
+    ("load_factor = 11", r"simulation\.load_factor: 11 must be in \(0, 10\] \[-\]"),
+    ("seed = -1", r"p\.toml:19: simulation\.seed: -1 must be an integer in \[0, 2\^63\)"),
+    ("seed = 1.5", r"simulation\.seed: 1\.5 must be an integer"),
+    ('enabled = "yes"', r"p\.toml:19: simulation\.enabled: 'yes' must be true or false"),
+])
+def test_simulation_errors_name_key_and_line(tmp_path, line, message):
+    with pytest.raises(ProjectError, match=message):
+        load_project(write(tmp_path, MINIMAL + f"\n[simulation]\n{line}\n"))
+
+
+def test_simulation_in_csv_cases(tmp_path):
+    text = ("case,mode.frequency,mode.modal_mass [t],mode.structural_damping,"
+            "wind.acceleration,wind.acceleration_limit,damper.mass_ratio,damper.clearance,"
+            "simulation.enabled,simulation.load,simulation.duration\n"
+            "a,0.2,10000,0.01,0.25,0.15,0.02,1.5,true,harmonic,300\n"
+            "b,0.2,10000,0.01,0.25,0.15,0.02,1.5,false,random,600\n"
+            "c,0.2,10000,0.01,0.25,0.15,0.02,1.5,,,\n")
+    a, b, c = load_cases(write(tmp_path, text, "cases.csv"))
+    assert a.simulate and a.simulation.load == "harmonic" and a.simulation.duration == 300
+    assert not b.simulate and b.simulation.load == "random"
+    assert c.simulation is None and c.case == "c"
+    bad = text.replace("true,harmonic", "maybe,harmonic")
+    with pytest.raises(ProjectError, match=r"bad\.csv:2: column simulation\.enabled: "
+                                           r"'maybe' must be true or false"):
+        load_cases(write(tmp_path, bad, "bad.csv"))

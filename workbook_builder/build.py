@@ -8,7 +8,8 @@ file swaytune did not make. The physics comes from the engine (``functions.desig
 workbook's own formulas are checked against it on the Checks sheet.
 
 Sheets, in order: Summary (title block, key results, verdicts), Inputs, Calculation, Pendulum
-(swing-correction helper cells), Checks, Charts (when available), Names, Cautions, Record.
+(swing-correction helper cells), Checks, Charts (when available), Nonlinear (when the project
+asks for the time-domain simulation, :func:`run_simulation`), Names, Cautions, Record.
 """
 from __future__ import annotations
 
@@ -28,11 +29,12 @@ from . import __version__
 from .calcsheet import (AGM_STEPS, CROSS_CHECK_TOLERANCE, FIXED_POINT_ITERATIONS, INPUT_NAMES,
                         EngineValue, Step, design_checks, mass_ratio_mode, sections)
 from .formulas import Evaluator, check_formula, is_error
-from .project import INPUT_SPECS, Project
+from .project import INPUT_SPECS, Project, SimulationSettings
 from .units import SI_UNIT, US_DISPLAY
 
 __all__ = ["BuildError", "BuiltWorkbook", "build_workbook", "write_workbook", "CAUTIONS",
-           "SHEETS", "run_engine", "content_digest", "guard_hand_edits", "DIGEST_PROPERTY"]
+           "SHEETS", "run_engine", "run_simulation", "SimulationRun", "content_digest",
+           "guard_hand_edits", "DIGEST_PROPERTY"]
 
 #: Cautions printed in every workbook and by the command line.
 CAUTIONS = (
@@ -48,8 +50,13 @@ CAUTIONS = (
     "Measure the built structure's frequency and damping and retune the damper to them.",
 )
 
-SHEETS = ("Summary", "Inputs", "Calculation", "Pendulum", "Checks", "Charts", "Names",
-          "Cautions", "Record")
+SHEETS = ("Summary", "Inputs", "Calculation", "Pendulum", "Checks", "Charts", "Nonlinear",
+          "Names", "Cautions", "Record")
+
+#: Averaging time of the wind input's peak acceleration, for the random load's calibration [s].
+PEAK_DURATION = 600.0
+#: Shown for an engine value that is not defined (NaN: e.g. no detuning beyond 180 deg).
+_NOT_DEFINED = "not defined"
 
 _UNIT_FORMATS = {
     "kg": "#,##0", "N/m": "#,##0", "N s/m": "#,##0", "m": "0.0000", "Hz": "0.00000",
@@ -91,6 +98,8 @@ class BuiltWorkbook:
     cross_checks: list[tuple[str, float, float, float]] = field(default_factory=list)
     design_verdicts: list[tuple[str, str]] = field(default_factory=list)
     engine_checks: list[tuple[str, bool]] = field(default_factory=list)
+    simulation: Any = None        # SimulationRun when the Nonlinear sheet was built
+    nonlinear_verdicts: list[tuple[str, str]] = field(default_factory=list)
 
     def value(self, name: str) -> Any:
         """Value (cached value of a formula, or the constant) of the cell named ``name``."""
@@ -125,6 +134,81 @@ def run_engine(project: Project):
     except ValueError as exc:
         raise ValueError(f"{project.source_name}: {project.case + ': ' if project.case else ''}"
                          f"the design cannot be computed: {exc}") from exc
+
+
+@dataclass(frozen=True)
+class SimulationRun:
+    """The time-domain simulation of a design and how its load was chosen.
+
+    ``force`` is the random force's RMS or the harmonic force's amplitude [N], calibrated so
+    that the building WITHOUT the damper reaches the wind input's peak acceleration times
+    ``settings.load_factor``; ``peak_factor`` [-] is the Davenport factor used for the random
+    load (None for a harmonic load). ``length`` [m] is the design's pendulum length (in tune at
+    the design swing), ``hanger_frequency`` [Hz] its small-angle frequency and
+    ``damper_damping`` [-] the damper's damping on that frequency (the designed dashpot).
+    """
+
+    settings: SimulationSettings
+    load: Any
+    force: float
+    load_frequency: float
+    peak_factor: float | None
+    length: float
+    damper_mass: float
+    hanger_frequency: float
+    damper_damping: float
+    result: Any
+
+
+def run_simulation(project: Project, result) -> SimulationRun:
+    """Simulate the design's pendulum damper in time (``functions.simulation.simulate``).
+
+    The design's pendulum length L is simulated; the design's damper damping zeta_d is on the
+    target frequency f_d, so the dashpot stays the one designed with zeta_L = zeta_d f_d / f_L,
+    f_L = sqrt(g/L) / (2 pi). The load is calibrated to the wind input (see
+    :mod:`workbook_builder.project`, [simulation]): a random force (corner frequency at the
+    mode's frequency) whose bare-building RMS acceleration (frequency domain,
+    ``random_response_theory``) times Davenport's peak factor over 600 s
+    (``damper.peak_factor``) equals the input peak acceleration, or a harmonic force at the
+    mode's frequency whose steady bare-building peak acceleration equals it (amplification
+    from ``damper.frequency_response``: amplitude A F0 / M*). Both are scaled by the load
+    factor.
+
+    Raises
+    ------
+    ValueError
+        When the project has no enabled [simulation] table, or from the engine (prefixed with
+        the project's source name).
+    """
+    from functions import damper, simulation
+    settings = project.simulation
+    if settings is None or not settings.enabled:
+        raise ValueError(f"{project.source_name}: the project does not ask for a simulation")
+    i = result.inputs
+    M, fs, zs, g = float(i.modal_mass), float(i.frequency), float(i.structural_damping), \
+        float(i.g)
+    md, L = float(result.damper_mass), float(result.pendulum_length)
+    f_L = math.sqrt(g / L) / (2.0 * math.pi)
+    zd = float(result.damper_damping) * float(result.damper_frequency) / f_L
+    a = float(i.acceleration) * settings.load_factor
+    try:
+        if settings.load == "random":
+            unit = simulation.random_response_theory(M, fs, zs, md, L, zd, 1.0, fs,
+                                                     settings.duration, g=g)
+            gp = float(damper.peak_factor(fs, PEAK_DURATION))
+            force = a / (gp * unit.acceleration_rms_without_damper)
+            load = simulation.RandomForce(force, fs, seed=settings.seed)
+        else:
+            gp = None
+            amplification = float(damper.frequency_response(1.0, 0.0, 1.0, 0.0, zs))
+            force = a * M / amplification
+            load = simulation.HarmonicForce(force, fs)
+        sim = simulation.simulate(M, fs, zs, md, L, zd, load, settings.duration,
+                                  tolerance=settings.tolerance, g=g)
+    except ValueError as exc:
+        raise ValueError(f"{project.source_name}: {project.case + ': ' if project.case else ''}"
+                         f"the simulation cannot be run: {exc}") from exc
+    return SimulationRun(settings, load, float(force), fs, gp, L, md, f_L, zd, sim)
 
 
 # --------------------------------------------------------------------------- cell helpers
@@ -221,9 +305,11 @@ def _fmt(unit: str) -> str:
 
 # --------------------------------------------------------------------------- builder
 class _Builder:
-    def __init__(self, project: Project, result, template: str | Path | None):
+    def __init__(self, project: Project, result, template: str | Path | None,
+                 simulation: SimulationRun | None = None):
         self.project = project
         self.result = result
+        self.simulation = simulation
         self.template = template
         self.names: dict[str, tuple[str, str]] = {}
         self.name_info: list[tuple[str, str, str, str]] = []   # name, sheet, label, unit
@@ -294,9 +380,19 @@ class _Builder:
         self.inputs_sheet(self.sheet("Inputs"))
         self.calculation_sheet(self.sheet("Calculation"))
         self.pendulum_sheet(self.sheet("Pendulum"))
+        nonlinear = self.sheet("Nonlinear") if self.simulation is not None else None
+        if nonlinear is not None:       # written before Checks: it adds a flag and verdicts
+            self.nonlinear_sheet(nonlinear)
         self.checks_sheet(self.sheet("Checks"))
         self.summary_sheet(summary, next_row)
         self.charts()
+        if nonlinear is not None:       # placed after Charts, in the order of SHEETS
+            sheets = self.wb._sheets
+            sheets.remove(nonlinear.ws)
+            after = "Charts" if "Charts" in self.wb.sheetnames else "Checks"
+            sheets.insert(sheets.index(self.wb[after]) + 1, nonlinear.ws)
+            self.our_sheets.remove("Nonlinear")
+            self.our_sheets.insert(self.our_sheets.index(after) + 1, "Nonlinear")
         self.names_sheet(self.sheet("Names"))
         self.cautions_sheet(self.sheet("Cautions"))
         self.record_sheet(self.sheet("Record"))
@@ -535,27 +631,293 @@ class _Builder:
         self.protect(sh, "Calculation", "1:4", landscape=True)
 
     def engine_flag(self, sh: _Sheet, row: int, depends_on: tuple[str, ...],
-                    what: str) -> int:
+                    what: str, *, label_col: int = 2, value_col: int = 4,
+                    note_col: int = 6, note_to: int | None = None) -> int:
         conds = []
+        v = get_column_letter(value_col)
         for dep in depends_on:
             snap = self.engine_value(dep)
-            sh.put(row, 2, f"Engine value computed for {dep} =", align=_WRAP)
-            sh.put(row, 4, snap, fmt="General", fill=_ENGINE_FILL, border=True)
-            sh.put(row, 6, "value at build time", align=_WRAP)
-            conds.append(f"ABS({dep}-D{row})<=1E-12*ABS(D{row})")
+            sh.put(row, label_col, f"Engine value computed for {dep} =", align=_WRAP)
+            sh.put(row, value_col, snap, fmt="General", fill=_ENGINE_FILL, border=True,
+                   align=_TOP)
+            sh.put(row, note_col, "value at build time", align=_WRAP)
+            if note_to:
+                sh.ws.merge_cells(start_row=row, start_column=note_col, end_row=row,
+                                  end_column=note_to)
+            conds.append(f"ABS({dep}-{v}{row})<=1E-12*ABS({v}{row})")
             row += 1
         n = len(self.flag_cells) + 1
-        sh.put(row, 2, "Inputs changed since the engine value was computed?", font=_BOLD,
-               align=_WRAP)
-        sh.put(row, 4, f'=IF(AND({",".join(conds)}),"current","INPUTS CHANGED: rebuild")',
-               border=True, font=_BOLD)
-        sh.put(row, 6, "rebuild the workbook to refresh the engine value", align=_WRAP)
-        sh.name(f"engine_flag_{n}", row, 4)
+        sh.put(row, label_col, "Inputs changed since the engine value was computed?",
+               font=_BOLD, align=_WRAP)
+        sh.put(row, value_col, f'=IF(AND({",".join(conds)}),"current","INPUTS CHANGED: '
+                               'rebuild")', border=True, font=_BOLD, align=_TOP)
+        sh.put(row, note_col, "rebuild the workbook to refresh the engine value", align=_WRAP)
+        if note_to:
+            sh.ws.merge_cells(start_row=row, start_column=note_col, end_row=row,
+                              end_column=note_to)
+        sh.name(f"engine_flag_{n}", row, value_col)
         self.flag_cells.append(f"engine_flag_{n}")
         self.flag_labels.append(what)
         self.helper_labels[f"engine_flag_{n}"] = (f"Flag: engine value of the {what} current?",
                                                   "")
         return row + 1
+
+    # Nonlinear -----------------------------------------------------------------------------
+    def _simulation_dependencies(self) -> tuple[str, ...]:
+        """Inputs the simulation depends on (through the design and the load calibration)."""
+        deps = ["structure_frequency", "modal_mass", "structural_damping", "acceleration"]
+        if self.mode == "required":
+            deps.append("acceleration_limit")
+        deps += [n for n in ("chosen_mass_ratio", "chosen_damper_mass") if n in self.names]
+        return tuple(deps + ["gravity"])
+
+    def _engine_row(self, sh: _Sheet, row: int, label: str, value: Any, unit: str,
+                    note: str = "", name: str | None = None, fmt: str | None = None) -> int:
+        """A row of the Nonlinear sheet: label, engine value (green), unit, note."""
+        sh.put(row, 1, label, align=_WRAP, border=True)
+        if isinstance(value, float) and not math.isfinite(value):
+            value = _NOT_DEFINED          # the engine says why in its notes (shown below)
+        if isinstance(value, str) and not value.startswith("="):
+            sh.text(row, 2, value, border=True, align=_TOP)
+        elif isinstance(value, str):
+            sh.put(row, 2, value, fmt=fmt or _fmt(unit), border=True, align=_TOP)
+        else:
+            sh.put(row, 2, value, fmt=fmt or _fmt(unit), fill=_ENGINE_FILL, border=True,
+                   align=_TOP)
+        sh.put(row, 3, unit, border=True, align=_TOP)
+        sh.put(row, 4, note, align=_WRAP, border=True)
+        sh.ws.merge_cells(start_row=row, start_column=4, end_row=row, end_column=6)
+        if name:
+            sh.name(name, row, 2)
+            self.name_info.append((name, "Nonlinear", label, unit))
+        return row + 1
+
+    def _section(self, sh: _Sheet, row: int, title: str, note: str = "") -> int:
+        sh.put(row, 1, title, font=_BOLD, fill=_SECTION_FILL)
+        for col in range(2, 7):
+            sh.put(row, col, None, fill=_SECTION_FILL)
+        row += 1
+        if note:
+            sh.put(row, 1, note, align=_WRAP)
+            sh.ws.merge_cells(start_row=row, start_column=1, end_row=row, end_column=6)
+            row += 1
+        return row
+
+    def nonlinear_sheet(self, sh: _Sheet) -> None:
+        from .charts import add_time_history_charts
+        run = self.simulation
+        sim, st = run.result, run.settings
+        sh.put(1, 1, "Nonlinear check: the pendulum damper simulated in time", font=_TITLE)
+        sh.put(2, 1, "Green cells are ENGINE VALUES (functions.simulation.simulate) computed "
+                     "when the workbook was built: a time-domain integration of the exact "
+                     "pendulum equation has no worksheet formula. The flag at the end of table 1 "
+                     "says whether the inputs have changed since; rebuild the workbook to "
+                     "refresh them.", align=_WRAP)
+        sh.ws.merge_cells("A2:F2")
+        sh.put(3, 1, "Preliminary design aid: the model is one building mode with a rigid "
+                     "hanger and a linear dashpot; check it against the manufacturer's design.",
+               align=_WRAP, font=Font(italic=True, color="C00000"))
+        sh.ws.merge_cells("A3:F3")
+        sh.header(4, ["Quantity", "Value", "Unit", "Note", "", ""])
+        sh.ws.merge_cells("D4:F4")
+        row = self._section(sh, 5, "1  Load and damper simulated")
+        random = st.load == "random"
+        if random:
+            what = (f"white noise through a low-pass filter (corner at the mode's frequency), "
+                    f"seed {st.seed}")
+            calib = (f"chosen so that the building WITHOUT the damper has the expected peak "
+                     f"acceleration a x load factor: RMS x peak factor over "
+                     f"{PEAK_DURATION:g} s")
+        else:
+            what = "sine at the mode's frequency (resonance of the bare building)"
+            calib = ("chosen so that the steady peak acceleration of the building WITHOUT the "
+                     "damper is a x load factor")
+        row = self._engine_row(sh, row, "Load (project file, [simulation] load)", st.load,
+                               "", what)
+        row = self._engine_row(sh, row, "Force RMS" if random else "Force amplitude",
+                               run.force, "N", calib, "sim_force", fmt="#,##0")
+        row = self._engine_row(sh, row, "Load factor (force / calibrated force)",
+                               st.load_factor, "-", "project file, [simulation] load_factor",
+                               fmt="0.00")
+        if random:
+            row = self._engine_row(sh, row, "Peak factor g (Davenport)", run.peak_factor, "-",
+                                   f"functions.damper.peak_factor(f_s, {PEAK_DURATION:g} s)",
+                                   fmt="0.000")
+        row = self._engine_row(sh, row, "Corner frequency of the force spectrum" if random
+                               else "Forcing frequency", run.load_frequency, "Hz",
+                               "the mode's frequency f_s")
+        row = self._engine_row(sh, row, "Hanger length simulated (design pendulum length)",
+                               run.length, "m", "Calculation sheet, step 5.2: in tune at the "
+                               "design swing", "sim_length")
+        row = self._engine_row(sh, row, "Damper mass", run.damper_mass, "kg",
+                               "Calculation sheet, step 2")
+        row = self._engine_row(sh, row, "Small-angle frequency of that hanger",
+                               run.hanger_frequency, "Hz", "f_L = sqrt(g/L) / (2 pi): above "
+                               "f_d, equal to it at the design swing")
+        row = self._engine_row(sh, row, "Damper damping on the hanger's small-angle frequency",
+                               run.damper_damping, "-", "zeta_d f_d / f_L: the dashpot c_d "
+                               "designed on the Calculation sheet")
+        row = self._engine_row(sh, row, "Record length (after the warm-up)", sim.time[-1],
+                               "s", "project file, [simulation] duration", fmt="0.0")
+        row = self._engine_row(sh, row, "Warm-up simulated and discarded", sim.warmup, "s",
+                               "lets the start-up transient die out", fmt="0.0")
+        row = self._engine_row(sh, row, "Output time step", sim.time_step, "s",
+                               f"{sim.substeps} Runge-Kutta steps per output step",
+                               fmt="0.0000")
+        row = self._engine_row(sh, row, "Estimated relative integration error",
+                               sim.integration_error, "-", "step doubling (Richardson), "
+                               "relative to the peaks", fmt=_SCI)
+        row = self.engine_flag(sh, row, self._simulation_dependencies(),
+                               "nonlinear simulation", label_col=1, value_col=2, note_col=4,
+                               note_to=6)
+        row += 1
+
+        row = self._section(sh, row, "2  Response over the record",
+                            "Exact pendulum: sin(theta), cos(theta) and theta'^2 terms kept; "
+                            "linearised: the same damper with sin(theta) = theta (the linear "
+                            "design's model); without damper: the bare building under the same "
+                            "force.")
+        sh.header(row, ["Quantity", "Exact pendulum", "Linearised", "Without damper", "Unit",
+                        ""])
+        row += 1
+        nl, lin, bare = sim.nonlinear, sim.linear, sim.without_damper
+        table = [("RMS building displacement", "displacement_rms", "m", True),
+                 ("Peak building displacement", "displacement_peak", "m", True),
+                 ("RMS building acceleration", "acceleration_rms", "m/s^2", True),
+                 ("Peak building acceleration", "acceleration_peak", "m/s^2", True),
+                 ("RMS swing angle", "angle_rms_deg", "deg", False),
+                 ("Peak swing angle", "swing_deg", "deg", False),
+                 ("RMS stroke (mass relative to the floor)", "stroke_rms", "m", False),
+                 ("Peak stroke", "stroke_peak", "m", False),
+                 ("Effective damping identified from the response", "effective_damping", "-",
+                  True)]
+        first_table_row = row
+        for label, attr, unit, has_bare in table:
+            sh.put(row, 1, label, align=_WRAP, border=True)
+            for col, resp in ((2, nl), (3, lin), (4, bare)):
+                value = getattr(resp, attr)
+                if col == 4 and not has_bare:
+                    sh.put(row, col, "-", border=True)
+                elif isinstance(value, float) and not math.isfinite(value):
+                    sh.put(row, col, "not identified", border=True)
+                else:
+                    sh.put(row, col, value, fmt=_fmt(unit), fill=_ENGINE_FILL, border=True)
+            sh.put(row, 5, unit, border=True)
+            row += 1
+        self.names_for_table(sh, first_table_row)
+        if sim.theory is not None:
+            th = sim.theory
+            sh.put(row, 1, "RMS building acceleration, frequency domain (linear theory)",
+                   align=_WRAP, border=True)
+            sh.put(row, 2, "-", border=True)
+            sh.put(row, 3, th.acceleration_rms, fmt=_fmt("m/s^2"), fill=_ENGINE_FILL,
+                   border=True)
+            sh.put(row, 4, th.acceleration_rms_without_damper, fmt=_fmt("m/s^2"),
+                   fill=_ENGINE_FILL, border=True)
+            sh.put(row, 5, "m/s^2", border=True)
+            row += 1
+            sh.put(row, 1, "Expected scatter of an RMS over this record (1 standard "
+                           "deviation)", align=_WRAP, border=True)
+            sh.put(row, 2, "-", border=True)
+            sh.put(row, 3, th.acceleration_rms_scatter, fmt="0.0%", fill=_ENGINE_FILL,
+                   border=True)
+            sh.put(row, 4, "-", border=True)
+            sh.put(row, 5, "-", border=True)
+            row += 1
+        row += 1
+
+        row = self._section(sh, row, "3  Detuning check and verdict",
+                            "A pendulum's frequency falls as it swings further (exact period, "
+                            "A&S 17.6). The hanger is cut to be in tune at the design swing; "
+                            "here the simulated swing is compared with it.")
+        row = self._engine_row(sh, row, "Peak swing simulated (exact pendulum)",
+                               nl.swing_deg, "deg", "largest |theta| over the record",
+                               "sim_swing_deg")
+        row = self._engine_row(sh, row, "Design swing (Calculation sheet)", "=swing_angle_deg",
+                               "deg", "at the design stroke")
+        row = self._engine_row(sh, row, "Frequency of the hanger at the simulated peak swing",
+                               sim.damper_frequency_at_swing, "Hz", "exact period "
+                               "(functions.pendulum.pendulum_frequency)", "sim_frequency_at_swing")
+        row = self._engine_row(sh, row, "Detuning at the simulated peak swing, exact-period "
+                               "prediction", sim.detuning, "-", "f(theta) / f(0) - 1 "
+                               "(functions.pendulum.amplitude_detuning)", "sim_detuning")
+        row = self._engine_row(sh, row, "Detuning measured from the simulated swing",
+                               sim.simulated_detuning, "-", "equivalent linearisation of m g L "
+                               "sin(theta) over the record: for a random swing it reflects the "
+                               "typical, not the peak, swing", "sim_measured_detuning")
+        row = self._engine_row(sh, row, "Measured minus predicted detuning",
+                               f'=IFERROR(sim_measured_detuning-sim_detuning,"{_NOT_DEFINED}")',
+                               "-",
+                               "0 for a steady harmonic swing (to order theta^4)")
+        row = self._engine_row(sh, row, "Swing whose exact period gives the measured detuning",
+                               sim.equivalent_swing_deg, "deg",
+                               "functions.pendulum.amplitude_for_error")
+        row = self._engine_row(sh, row, "Mistuning at the simulated peak swing against the "
+                               "damper frequency f_d", "=IFERROR(sim_frequency_at_swing/"
+                               f'damper_frequency-1,"{_NOT_DEFINED}")', "-",
+                               "0 at the design swing; the hanger "
+                               "runs fast at smaller swings and slow at larger ones")
+        row = self._engine_row(sh, row, "Largest departure, exact pendulum against "
+                               "linearised", sim.departure, "-", sim.departure_quantity,
+                               "sim_departure")
+        sh.put(row, 1, "Accepted departure", align=_WRAP, border=True)
+        sh.put(row, 2, st.tolerance, fmt="0.000", border=True)
+        sh.put(row, 3, "-", border=True)
+        sh.put(row, 4, "project file, [simulation] tolerance", align=_WRAP, border=True)
+        sh.ws.merge_cells(start_row=row, start_column=4, end_row=row, end_column=6)
+        sh.name("sim_tolerance", row, 2)
+        self.name_info.append(("sim_tolerance", "Nonlinear", "Accepted departure", "-"))
+        row += 1
+        sh.put(row, 1, "Verdict: nonlinear response within the tolerance and swing <= 90 deg",
+               font=_BOLD, align=_WRAP, border=True)
+        sh.put(row, 2, '=IFERROR(IF(AND(sim_departure<=sim_tolerance,sim_swing_deg<=90),"OK",'
+                       '"NOT OK"),"NOT OK")', font=_BOLD, border=True)
+        self._verdict_colours(sh, f"B{row}")
+        sh.name("sim_verdict", row, 2)
+        self.helper_labels["sim_verdict"] = ("Verdict of the nonlinear simulation", "")
+        row += 1
+        sh.put(row, 1, "Engine's verdict", align=_TOP, border=True)
+        sh.text(row, 2, sim.verdict, align=_WRAP, border=True)
+        sh.ws.merge_cells(start_row=row, start_column=2, end_row=row, end_column=6)
+        row += 1
+        for note in sim.notes:
+            sh.put(row, 1, "Engine note", align=_TOP, border=True)
+            sh.text(row, 2, note, align=_WRAP, border=True)
+            sh.ws.merge_cells(start_row=row, start_column=2, end_row=row, end_column=6)
+            row += 1
+        row += 1
+        sh.put(row, 1, "Charts: engine values (the whole record with one point in every few "
+                       "output samples; every sample around the peak swing); the tables they "
+                       "plot are in columns H:P (not printed).", align=_WRAP)
+        sh.ws.merge_cells(start_row=row, start_column=1, end_row=row, end_column=6)
+        chart_row = row + 1
+        from openpyxl.worksheet.pagebreak import Break
+        sh.ws.row_breaks.append(Break(id=row))
+        last = add_time_history_charts(sh.ws, sim, chart_row=chart_row, data_row=1, data_col=8)
+        sh.widths([40, 15, 15, 15, 9, 22, 3, 10, 14, 14, 14, 14, 3, 10, 14, 14])
+        _fit_rows(sh.ws)
+        sh.ws.protection.sheet = True
+        from .office import set_print_layout
+        set_print_layout(sh.ws, self.project.paper, landscape=False, title_rows="1:1",
+                         print_area=f"A1:F{last}")
+
+    def names_for_table(self, sh: _Sheet, first: int) -> None:
+        """Defined names of the exact-pendulum column of the response table."""
+        for offset, (name, label, unit) in enumerate((
+                ("sim_displacement_rms", "Simulated RMS building displacement", "m"),
+                ("sim_displacement_peak", "Simulated peak building displacement", "m"),
+                ("sim_acceleration_rms", "Simulated RMS building acceleration", "m/s^2"),
+                ("sim_acceleration_peak", "Simulated peak building acceleration", "m/s^2"),
+                ("sim_swing_rms_deg", "Simulated RMS swing angle", "deg"),
+                (None, "", ""),
+                ("sim_stroke_rms", "Simulated RMS stroke", "m"),
+                ("sim_stroke_peak", "Simulated peak stroke", "m"),
+                ("sim_effective_damping", "Effective damping identified from the simulation",
+                 "-"))):
+            if name is None:
+                continue
+            sh.name(name, first + offset, 2)
+            self.name_info.append((name, "Nonlinear", label, unit))
 
     # Pendulum ------------------------------------------------------------------------------
     def pendulum_sheet(self, sh: _Sheet) -> None:
@@ -681,9 +1043,57 @@ class _Builder:
             sh.put(row, 7, f'=IF({flag}="current","OK","NOT OK")', font=_BOLD, border=True)
             self._verdict_colours(sh, f"G{row}")
             row += 1
+        self.nonlinear_verdict_cells: list[tuple[str, str]] = []
+        if self.simulation is not None:
+            row = self.nonlinear_checks(sh, row + 2)
         self.all_checks_row = all_row
         sh.widths([40, 25, 20, 20, 12, 10, 10])
         self.protect(sh, "Checks", "1:3", landscape=False)
+
+    def nonlinear_checks(self, sh: _Sheet, row: int) -> int:
+        """Detuning check and verdict of the time-domain simulation (Nonlinear sheet)."""
+        sh.put(row, 1, "Nonlinear check: time-domain simulation (engine values computed when "
+                       "the workbook was built; see the Nonlinear sheet)", font=_BOLD)
+        row += 1
+        sh.header(row, ["Check", "Rule", "Value", "Limit", "Lower limit", "Unit", "Verdict"])
+        row += 1
+        first = row
+        rows = [
+            ("Nonlinear response within the tolerance of the linearised damper",
+             "departure <= tolerance", "=sim_departure", "=sim_tolerance", "-",
+             "=sim_verdict", "Nonlinear simulation: response within the tolerance"),
+            ("Detuning at the simulated peak swing within the accepted value",
+             "|df/f| <= |df/f|_max", f'=IFERROR(ABS(sim_detuning),"{_NOT_DEFINED}")',
+             "=max_detuning", "-",
+             '=IFERROR(IF(ABS(sim_detuning)<=max_detuning,"OK","NOT OK"),"NOT OK")',
+             "Nonlinear simulation: detuning at the simulated swing"),
+            ("Simulated peak swing within the accepted angle", "theta_sim <= theta_max",
+             "=sim_swing_deg", "=max_swing_deg", "deg",
+             '=IF(sim_swing_deg<=max_swing_deg,"OK","NOT OK")',
+             "Nonlinear simulation: simulated swing"),
+        ]
+        self.nonlinear_summary_labels: list[str] = []
+        for label, rule, value, limit, unit, verdict, short in rows:
+            self.nonlinear_summary_labels.append(short)
+            sh.put(row, 1, label, align=_WRAP, border=True)
+            sh.put(row, 2, rule, border=True)
+            sh.put(row, 3, value, fmt=_fmt(unit), border=True)
+            sh.put(row, 4, limit, fmt=_fmt(unit), border=True)
+            sh.put(row, 5, None, border=True)
+            sh.put(row, 6, unit, border=True)
+            sh.put(row, 7, verdict, font=_BOLD, border=True)
+            self.nonlinear_verdict_cells.append((label, f"G{row}"))
+            row += 1
+        self._verdict_colours(sh, f"G{first}:G{row - 1}")
+        sh.put(row, 1, "For information: detuning measured from the simulated swing, and the "
+                       "exact-period prediction at the peak swing", align=_WRAP, border=True)
+        sh.put(row, 2, "measured / predicted", border=True)
+        sh.put(row, 3, "=sim_measured_detuning", fmt=_fmt("-"), border=True)
+        sh.put(row, 4, "=sim_detuning", fmt=_fmt("-"), border=True)
+        sh.put(row, 5, None, border=True)
+        sh.put(row, 6, "-", border=True)
+        sh.put(row, 7, "info", border=True)
+        return row + 1
 
     def _verdict_colours(self, sh: _Sheet, rng: str) -> None:
         sh.ws.conditional_formatting.add(rng, CellIsRule(operator="equal", formula=['"OK"'],
@@ -735,6 +1145,8 @@ class _Builder:
         rows = [("All design checks", "=all_design_checks"),
                 ("Workbook formulas agree with the engine", "=all_cross_checks"),
                 ("Pendulum fixed point converged", "=fixed_point_converged")]
+        rows += [(short, f"=Checks!{cell}") for short, (_, cell) in
+                 zip(getattr(self, "nonlinear_summary_labels", []), self.nonlinear_verdict_cells)]
         rows += [(f"Engine value of the {what} current (inputs unchanged)",
                   f'=IF({flag}="current","OK","NOT OK")')
                  for flag, what in zip(self.flag_cells, self.flag_labels)]
@@ -821,6 +1233,7 @@ class _Builder:
             ("Source SHA-256", p.source_sha256),
             ("Unit system of the project", p.units),
             ("Tuning method", p.tuning_method),
+            ("Nonlinear simulation", self._simulation_record()),
             ("Build time", "see the document properties (created)"),
             ("Rebuild with", f"swaytune build {p.source_name} -o <workbook>.xlsx"),
         ]
@@ -829,6 +1242,14 @@ class _Builder:
             sh.text(i, 2, v, border=True, align=_WRAP)
         sh.widths([28, 80])
         self.protect(sh, "Record", None, landscape=False)
+
+    def _simulation_record(self) -> str:
+        st = self.project.simulation
+        if st is None or not st.enabled:
+            return "not requested" if st is None else "switched off ([simulation] enabled = false)"
+        return (f"{st.load} load, duration {st.duration:g} s, seed {st.seed}, tolerance "
+                f"{st.tolerance:g}, load factor {st.load_factor:g} (functions.simulation.simulate, "
+                "default integration settings)")
 
     # layout ---------------------------------------------------------------------------------
     def protect(self, sh: _Sheet, title: str, title_rows: str | None, landscape: bool) -> None:
@@ -839,7 +1260,7 @@ class _Builder:
 
 
 def build_workbook(project: Project, *, template: str | Path | None = None,
-                   result=None) -> BuiltWorkbook:
+                   result=None, simulation: SimulationRun | None = None) -> BuiltWorkbook:
     """Build the workbook for a project and compute the cached value of every formula.
 
     Parameters
@@ -850,6 +1271,9 @@ def build_workbook(project: Project, *, template: str | Path | None = None,
         A firm's calc-sheet template whose title block is marked by defined names [-].
     result : DesignResult, optional
         The engine result, when already computed [-].
+    simulation : SimulationRun, optional
+        The time-domain simulation, when already computed; otherwise it is run
+        (:func:`run_simulation`) when the project asks for it [-].
 
     Returns
     -------
@@ -864,7 +1288,9 @@ def build_workbook(project: Project, *, template: str | Path | None = None,
         When a formula of ours evaluates to an error (a bug, never silently written).
     """
     result = run_engine(project) if result is None else result
-    b = _Builder(project, result, template)
+    if simulation is None and project.simulate:
+        simulation = run_simulation(project, result)
+    b = _Builder(project, result, template, simulation)
     wb = b.build()
     ev = Evaluator(wb, sheets=b.our_sheets)
     values: dict[tuple[str, str], Any] = {}
@@ -880,13 +1306,15 @@ def build_workbook(project: Project, *, template: str | Path | None = None,
             values[(sheet, coord)] = v
     if errors:
         raise BuildError("formula(s) evaluate to an error: " + ", ".join(errors[:10]))
-    built = BuiltWorkbook(wb, values, result, project, dict(b.names))
+    built = BuiltWorkbook(wb, values, result, project, dict(b.names), simulation=simulation)
     for name, label, symbol, engine in b.cross:
         v = built.value(name)
         rel = abs(v) if engine == 0 else abs(v / engine - 1)
         built.cross_checks.append((name, v, engine, rel))
     for label, cell in b.design_verdict_cells:
         built.design_verdicts.append((label, values[("Checks", cell)]))
+    for label, cell in b.nonlinear_verdict_cells:
+        built.nonlinear_verdicts.append((label, values[("Checks", cell)]))
     built.engine_checks = [(c.name, bool(c.ok)) for c in getattr(result, "checks", ())]
     return built
 

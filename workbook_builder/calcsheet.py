@@ -115,7 +115,11 @@ class Section:
 
 _TWO_PI = "2*PI()"
 
-_VARIANCE_SOURCE = "I4 integral (Newland 1993, App. 1)"
+#: The white-noise variances are I4 integrals (Newland 1993, App. 1), regrouped as in
+#: functions.damper.effective_damping so that no large terms cancel: the raw form
+#: den / (2 num) loses about -log10(mu) digits; N, D, X keep them (zeta_eff = D / N,
+#: stroke ratio = sqrt(X / N)).
+_VARIANCE_SOURCE = "I4 integral (Newland 1993, App. 1), regrouped: no cancellation"
 
 
 def sections(method: str, mode: str) -> tuple[Section, ...]:
@@ -240,22 +244,24 @@ def sections(method: str, mode: str) -> tuple[Section, ...]:
         Step("var_w", "Helper: w = f^2", "w", "-", "=tuning_ratio^2", "f^2", _VARIANCE_SOURCE),
         Step("var_g", "Helper: g = zeta_d f", "g", "-", "=damper_damping*tuning_ratio",
              "zeta_d f", _VARIANCE_SOURCE),
-        Step("var_a3", "Helper: a3", "a3", "-", "=2*var_g*(1+mass_ratio)+2*structural_damping",
-             "2 g (1 + mu) + 2 zeta_s", _VARIANCE_SOURCE),
-        Step("var_a2", "Helper: a2", "a2", "-",
-             "=var_w*(1+mass_ratio)+1+4*structural_damping*var_g",
-             "w (1 + mu) + 1 + 4 zeta_s g", _VARIANCE_SOURCE),
-        Step("var_a1", "Helper: a1", "a1", "-", "=2*structural_damping*var_w+2*var_g",
-             "2 zeta_s w + 2 g", _VARIANCE_SOURCE),
-        Step("var_p", "Helper: P = a2 a3 - a1", "P", "-", "=var_a2*var_a3-var_a1",
-             "a2 a3 - a1", _VARIANCE_SOURCE),
-        Step("var_num", "Helper: numerator", "num", "-",
-             "=var_w*var_p+var_a3*(4*var_g^2-2*var_w)+var_a1",
-             "w P + a3 (4 g^2 - 2 w) + a1", _VARIANCE_SOURCE),
-        Step("var_den", "Helper: denominator", "den", "-", "=var_a1*var_p-var_w*var_a3^2",
-             "a1 P - w a3^2", _VARIANCE_SOURCE),
+        Step("var_x", "Helper: X = zeta_s w + g", "X", "-",
+             "=structural_damping*var_w+var_g", "zeta_s w + g", _VARIANCE_SOURCE),
+        Step("var_y", "Helper: Y = g (1 + mu) + zeta_s", "Y", "-",
+             "=var_g*(1+mass_ratio)+structural_damping", "g (1 + mu) + zeta_s",
+             _VARIANCE_SOURCE),
+        Step("var_t", "Helper: t = (1 + mu) w - 1", "t", "-", "=(1+mass_ratio)*var_w-1",
+             "(1 + mu) w - 1", _VARIANCE_SOURCE),
+        Step("var_n", "Helper: N (variance numerator)", "N", "-",
+             "=var_g*(var_t^2+mass_ratio*var_w)+4*var_g*var_x*var_y"
+             "+structural_damping*mass_ratio*var_w^2",
+             "g (t^2 + mu w) + 4 g X Y + zeta_s mu w^2", _VARIANCE_SOURCE),
+        Step("var_d", "Helper: D (variance denominator)", "D", "-",
+             "=mass_ratio*var_g*var_x+structural_damping*mass_ratio*var_w^2*var_y"
+             "+structural_damping*var_g*(var_w-1)*var_t+4*structural_damping*var_g*var_x*var_y",
+             "mu g X + zeta_s mu w^2 Y + zeta_s g (w - 1) t + 4 zeta_s g X Y",
+             _VARIANCE_SOURCE),
         Step("effective_damping", "Effective damping (equal displacement variance)",
-             "zeta_eff", "-", "=var_den/(2*var_num)", "den / (2 num)",
+             "zeta_eff", "-", "=var_d/var_n", "D / N",
              "functions.damper.effective_damping", "effective_damping"),
         Step("acceleration_with_damper", "Peak acceleration with the damper", "a_d", "m/s^2",
              "=acceleration*SQRT(structural_damping/effective_damping)",
@@ -266,7 +272,7 @@ def sections(method: str, mode: str) -> tuple[Section, ...]:
              "a_d / (2 pi f_s)^2", "Harmonic at the mode's frequency",
              "structure_displacement"),
         Step("stroke_ratio", "Stroke ratio (RMS relative / RMS structure)", "r_s", "-",
-             "=SQRT(var_a1/var_num)", "sqrt(a1 / num)", "functions.damper.stroke_ratio",
+             "=SQRT(var_x/var_n)", "sqrt(X / N)", "functions.damper.stroke_ratio",
              "stroke_ratio"),
         Step("stroke", "Peak stroke of the damper (relative)", "s", "m",
              "=stroke_ratio*structure_displacement", "(x_d/x_s) x_s", "Equal peak factors",

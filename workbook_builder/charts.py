@@ -26,11 +26,15 @@ from typing import Any, Sequence
 import numpy as np
 
 __all__ = ["ChartTable", "chart_tables", "add_charts_sheet", "fill_chart_caches",
-           "RULE_OF_THUMB_DEG"]
+           "RULE_OF_THUMB_DEG", "time_history_table", "swing_window_table",
+           "add_time_history_charts", "MAX_TIME_POINTS"]
 
 #: Swing amplitude up to which the small-angle period is taken as good enough
 #: (common practice, no source; the period error there is about 0.43 %).
 RULE_OF_THUMB_DEG = 15.0
+
+#: Largest number of points of a time-history chart (the record is subsampled to it) [-].
+MAX_TIME_POINTS = 3000
 
 _BLUE, _ORANGE, _GREY, _RED, _GREEN = "1F4E79", "C55A11", "7F7F7F", "C00000", "548235"
 _CHART_WIDTH_CM, _CHART_HEIGHT_CM = 20.5, 9.6
@@ -192,7 +196,8 @@ def _write_table(ws: Any, table: ChartTable, row: int, col: int) -> tuple[int, i
 
 
 def _series(ws: Any, xcol: int, ycol: int, first: int, last: int, title: str, color: str, *,
-            dash: str | None = None, marker: str | None = None, line: bool = True) -> Any:
+            dash: str | None = None, marker: str | None = None, line: bool = True,
+            width_emu: int = 22000) -> Any:
     from openpyxl.chart import Reference, Series
 
     x = Reference(ws, min_col=xcol, min_row=first, max_row=last)
@@ -200,7 +205,7 @@ def _series(ws: Any, xcol: int, ycol: int, first: int, last: int, title: str, co
     s = Series(y, x, title=title)
     if line:
         s.graphicalProperties.line.solidFill = color
-        s.graphicalProperties.line.width = 22000          # EMU (about 1.7 pt)
+        s.graphicalProperties.line.width = width_emu      # EMU (22000: about 1.7 pt)
         if dash:
             s.graphicalProperties.line.dashStyle = dash
     else:
@@ -355,6 +360,123 @@ def add_charts_sheet(wb: Any, result: Any, *, title: str = "Charts", index: int 
     set_print_layout(ws, paper=paper, landscape=False, title_rows="1:2",
                      print_area=f"A1:{get_column_letter(12)}{last_row}")
     return ws
+
+
+def _significant(values: Any, digits: int = 6) -> list[float]:
+    """Values rounded to ``digits`` significant digits (plenty for a chart; stable files)."""
+    return [float(f"{v:.{digits}g}") + 0.0 for v in _floats(values)]
+
+
+def time_history_table(simulation: Any, max_points: int = MAX_TIME_POINTS) -> ChartTable:
+    """Time histories of a simulation for the charts, subsampled to ``max_points`` rows.
+
+    ``simulation`` is a :class:`functions.simulation.SimulationResult`. Every k-th sample is kept
+    (k the smallest stride that gives at most ``max_points`` rows; the output step of the
+    simulation resolves each period with at least 8 samples, so k = 2 or 3 still draws the
+    oscillation); values are rounded to 6 significant digits. Columns: time, building
+    acceleration without and with the damper (exact pendulum), hanger angle exact and
+    linearised.
+
+    Raises
+    ------
+    ValueError
+        If ``max_points`` < 2 or a value is not finite.
+    """
+    if max_points < 2:
+        raise ValueError(f"max_points={max_points!r} must be >= 2")
+    n = int(simulation.time.size)
+    stride = max(1, math.ceil(n / max_points))
+    pick = slice(0, n, stride)
+    nl, lin, bare = simulation.nonlinear, simulation.linear, simulation.without_damper
+    columns = (_significant(simulation.time[pick]), _significant(bare.acceleration[pick]),
+               _significant(nl.acceleration[pick]), _significant(nl.angle_deg[pick]),
+               _significant(lin.angle_deg[pick]))
+    return ChartTable(
+        "time", f"Time histories (one sample in {stride})" if stride > 1 else "Time histories",
+        ("Time t [s]", "Acceleration without damper [m/s^2]",
+         "Acceleration with damper [m/s^2]", "Hanger angle, exact [deg]",
+         "Hanger angle, linearised [deg]"),
+        tuple(zip(*columns)), ("0.00", "0.00000", "0.00000", "0.000", "0.000"))
+
+
+def swing_window_table(simulation: Any, periods: float = 10.0) -> ChartTable:
+    """Hanger angle, exact and linearised, over ``periods`` damper periods around the peak swing.
+
+    Every output sample of the window (no subsampling), values rounded to 6 significant
+    digits; the window is centred on the largest |angle| of the exact model and kept inside
+    the record.
+
+    Raises
+    ------
+    ValueError
+        If ``periods`` is not positive or a value is not finite.
+    """
+    if not periods > 0:
+        raise ValueError(f"periods={periods!r} must be > 0")
+    t = simulation.time
+    angle = simulation.nonlinear.angle_deg
+    n = int(t.size)
+    half = max(1, int(round(0.5 * periods / simulation.damper_frequency / simulation.time_step)))
+    centre = int(np.argmax(np.abs(angle)))
+    lo = max(0, min(centre - half, n - 1 - 2 * half))
+    hi = min(n, lo + 2 * half + 1)
+    pick = slice(lo, hi)
+    return ChartTable(
+        "swing_window", f"Around the peak swing ({periods:g} damper periods)",
+        ("Time t [s]", "Hanger angle, exact [deg]", "Hanger angle, linearised [deg]"),
+        tuple(zip(_significant(t[pick]), _significant(angle[pick]),
+                  _significant(simulation.linear.angle_deg[pick]))),
+        ("0.00", "0.000", "0.000"))
+
+
+def add_time_history_charts(ws: Any, simulation: Any, *, chart_row: int, data_row: int,
+                            data_col: int, max_points: int = MAX_TIME_POINTS) -> int:
+    """Write the time-history tables and two native charts over time; return the last row used.
+
+    Chart 1, anchored at column A of ``chart_row``: building acceleration over the whole record
+    without the damper and with it (exact pendulum model). Chart 2 below it: hanger angle,
+    exact and linearised, over ten damper periods around the peak swing (over the whole record
+    the oscillations are too dense to tell two curves apart). The tables
+    (:func:`time_history_table`, five columns, then :func:`swing_window_table` one column to
+    the right of it) start at (``data_row``, ``data_col``); the series carry their data caches
+    (:func:`fill_chart_caches`). Nothing here does physics: the values are the engine's.
+
+    Raises
+    ------
+    ValueError
+        See :func:`time_history_table`.
+    """
+    table = time_history_table(simulation, max_points)
+    first, last = _write_table(ws, table, data_row, data_col)
+    ws.row_dimensions[data_row + 1].height = max(ws.row_dimensions[data_row + 1].height or 0,
+                                                 45)
+    t_end = table.rows[-1][0]
+    thin = 9525                     # EMU, 0.75 pt: thousands of points stay legible
+    ch1 = _scatter("Building acceleration over time, without and with the damper",
+                   "Time t [s]", "Acceleration [m/s²]", x_min=0.0, x_max=t_end,
+                   y_format="0.000", x_format="0")
+    window = swing_window_table(simulation)
+    w_col = data_col + len(table.headers) + 1
+    w_first, w_last = _write_table(ws, window, data_row, w_col)
+    ch2 = _scatter("Hanger swing angle around the peak swing: exact and linearised",
+                   "Time t [s]", "Angle θ [deg]",
+                   x_min=10.0 * math.floor(window.rows[0][0] / 10.0),
+                   x_max=10.0 * math.ceil(window.rows[-1][0] / 10.0), y_format="0.0",
+                   x_format="0")
+    for ch in (ch1, ch2):
+        ch.x_axis.tickLblPos = "low"        # time labels under the plot, not on the zero line
+    ch1.series.append(_series(ws, data_col, data_col + 1, first, last, "Without damper",
+                              _GREY, width_emu=thin))
+    ch1.series.append(_series(ws, data_col, data_col + 2, first, last,
+                              "With damper (exact pendulum)", _BLUE, width_emu=thin))
+    ws.add_chart(ch1, f"A{chart_row}")
+    ch2.series.append(_series(ws, w_col, w_col + 2, w_first, w_last, "Linearised (sin θ = θ)",
+                              _ORANGE, dash="dash"))
+    ch2.series.append(_series(ws, w_col, w_col + 1, w_first, w_last, "Exact pendulum", _BLUE,
+                              width_emu=2 * thin))
+    ws.add_chart(ch2, f"A{chart_row + _CHART_ROWS}")
+    fill_chart_caches(ws)
+    return chart_row + 2 * _CHART_ROWS - 1
 
 
 def _cells_of(wb: Any, ref: str) -> list[Any]:

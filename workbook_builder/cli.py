@@ -41,7 +41,8 @@ def summary_table(rows: list[tuple[str, object]]) -> str:
     ``rows`` holds ``(label, BuiltWorkbook)`` pairs.
     """
     head = ["Workbook", "mu [-]", "m_d [kg]", "f_d [Hz]", "L [m]", "stroke [m]",
-            "swing [deg]", "a_d [m/s^2]", "a_lim [m/s^2]", "design", "cross-check"]
+            "swing [deg]", "a_d [m/s^2]", "a_lim [m/s^2]", "design", "cross-check",
+            "nonlinear"]
     lines = []
     for label, built in rows:
         v = built.value
@@ -49,11 +50,19 @@ def summary_table(rows: list[tuple[str, object]]) -> str:
             else "NOT OK: " + ", ".join(lab.split(" within")[0] for lab, verdict in
                                        built.design_verdicts if verdict != "OK")
         worst = max(rel for *_, rel in built.cross_checks)
+        nonlinear = "-"
+        if getattr(built, "simulation", None) is not None:
+            sim = built.simulation.result
+            bad = [lab.split(" within")[0] for lab, verdict in built.nonlinear_verdicts
+                   if verdict != "OK"]
+            nonlinear = (f"OK ({sim.departure:.1%}, swing {sim.nonlinear.swing_deg:.1f} deg)"
+                         if not bad else "NOT OK: " + ", ".join(bad))
         lines.append([label, f"{v('mass_ratio'):.4f}", f"{v('damper_mass'):,.0f}",
                       f"{v('damper_frequency'):.4f}", f"{v('pendulum_length'):.3f}",
                       f"{v('stroke'):.3f}", f"{v('swing_angle_deg'):.2f}",
                       f"{v('acceleration_with_damper'):.4f}", f"{v('acceleration_limit'):.4f}",
-                      design, f"OK ({worst:.0e})" if worst <= 1e-9 else f"NOT OK ({worst:.1e})"])
+                      design, f"OK ({worst:.0e})" if worst <= 1e-9 else f"NOT OK ({worst:.1e})",
+                      nonlinear])
     widths = [max(len(str(r[i])) for r in [head] + lines) for i in range(len(head))]
     out = ["  ".join(str(c).ljust(w) for c, w in zip(head, widths))]
     out.append("  ".join("-" * w for w in widths))

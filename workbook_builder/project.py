@@ -32,6 +32,23 @@ commented example)::
     max_swing = 15                 # [deg]
     max_detuning = { value = 1, unit = "%" }
 
+    [simulation]                   # optional: the Nonlinear sheet (time-domain check)
+    enabled = true                 # default true when the table is present
+    load = "random"                # "random" (wind-like) or "harmonic" (at the mode's frequency)
+    duration = 600                 # record length [s], in [60, 3600]
+    seed = 1                       # seed of the random record (same seed, same record)
+    tolerance = 0.05               # accepted departure nonlinear vs linearised, in (0, 1] [-]
+    load_factor = 1.0              # force / force that reproduces the wind input, in (0, 10]
+
+The simulation (``functions.simulation.simulate``) runs the design's pendulum length, with the
+exact pendulum equation and linearised, under a force calibrated to the wind input: a random
+force (corner frequency at the mode's frequency) whose response without the damper has the
+expected peak acceleration ``wind.acceleration`` over 600 s (RMS times Davenport's peak factor,
+``functions.damper.peak_factor``), or a harmonic force at the mode's frequency whose steady
+response without the damper has that peak; ``load_factor`` scales the force (e.g. 2 for a
+storm beyond the design wind). Its results are engine values computed when the workbook is
+built.
+
 The modal mass may instead come from floor masses and a power-law mode shape::
 
     [mode.floors]
@@ -45,7 +62,8 @@ The modal mass may instead come from floor masses and a power-law mode shape::
 
 The table form is a CSV file whose header cells are the dotted keys (``mode.frequency``),
 optionally with a unit in brackets (``mode.modal_mass [t]``); each row is one project, named by
-its ``case`` column (else ``project.number``); a floor table ([mode.floors]) needs the TOML form.
+its ``case`` column (else ``project.number``); a floor table ([mode.floors]) needs the TOML form;
+the [simulation] keys work as columns (``simulation.enabled`` true/false, ``simulation.load``...).
 Errors name the file, the line and the key.
 """
 from __future__ import annotations
@@ -56,7 +74,7 @@ import hashlib
 import math
 import re
 import sys
-from dataclasses import dataclass, field
+from dataclasses import dataclass, field, replace
 from pathlib import Path
 from typing import Any
 
@@ -70,6 +88,7 @@ from .units import DEFAULT_UNITS, SI_UNIT, UNIT_SYSTEMS, Unit, unit_for
 __all__ = [
     "ProjectError", "InputSpec", "INPUT_SPECS", "InputValue", "Floors", "Project",
     "load_project", "load_cases", "parse_project", "INFO_KEYS", "TUNING_METHODS",
+    "SimulationSettings", "SIMULATION_LOADS",
 ]
 
 
@@ -220,6 +239,28 @@ class Floors:
         return self.building_height * self.height_unit.factor
 
 
+#: Load types of the [simulation] table.
+SIMULATION_LOADS = ("random", "harmonic")
+_SIMULATION_KEYS = {"enabled", "load", "duration", "seed", "tolerance", "load_factor"}
+
+
+@dataclass(frozen=True)
+class SimulationSettings:
+    """The [simulation] table: settings of the optional Nonlinear sheet.
+
+    ``duration`` [s] is the record kept after the warm-up; ``tolerance`` [-] the accepted
+    relative departure of the nonlinear RMS response from the linearised one; ``load_factor``
+    [-] scales the force calibrated to the wind input; ``seed`` [-] fixes the random record.
+    """
+
+    enabled: bool = True
+    load: str = "random"
+    duration: float = 600.0
+    seed: int = 1
+    tolerance: float = 0.05
+    load_factor: float = 1.0
+
+
 @dataclass(frozen=True)
 class Project:
     """A validated project: identification, inputs (SI and as entered), options."""
@@ -234,6 +275,12 @@ class Project:
     floors: Floors | None = None
     case: str = ""
     lines: dict[str, int] = field(default_factory=dict, compare=False, repr=False)
+    simulation: SimulationSettings | None = None    # None: no [simulation] table
+
+    @property
+    def simulate(self) -> bool:
+        """True when the project asks for the Nonlinear sheet."""
+        return self.simulation is not None and self.simulation.enabled
 
     def si(self, name: str) -> float | None:
         """SI value of input ``name`` (None for an optional input not given)."""
@@ -306,7 +353,8 @@ def _flatten(data: dict, prefix: str = "") -> dict[str, Any]:
     out: dict[str, Any] = {}
     for k, v in data.items():
         key = f"{prefix}{k}"
-        if isinstance(v, dict) and not (key in SPEC_BY_KEY or key == "mode.floors"):
+        if isinstance(v, dict) and not (key in SPEC_BY_KEY or key in ("mode.floors",
+                                                                     "simulation")):
             out.update(_flatten(v, key + "."))
         else:
             out[key] = v
@@ -412,6 +460,43 @@ def _read_floors(ctx: _Context, raw: Any, system: str) -> Floors:
                   h, exponent, structure_type, level)
 
 
+def _read_simulation(ctx: _Context, raw: Any) -> SimulationSettings:
+    key = "simulation"
+    if not isinstance(raw, dict):
+        raise ctx.error(key, "must be a table ([simulation])")
+    unknown = set(raw) - _SIMULATION_KEYS
+    if unknown:
+        close = difflib.get_close_matches(sorted(unknown)[0], sorted(_SIMULATION_KEYS), n=1)
+        hint = f" (did you mean '{close[0]}'?)" if close else ""
+        raise ctx.error(f"{key}.{sorted(unknown)[0]}", f"unknown key{hint}; [simulation] takes "
+                                                       f"{sorted(_SIMULATION_KEYS)}")
+    out = SimulationSettings()
+    values: dict[str, Any] = {}
+    enabled = raw.get("enabled", True)
+    if not isinstance(enabled, bool):
+        raise ctx.error(f"{key}.enabled", f"{enabled!r} must be true or false")
+    values["enabled"] = enabled
+    load = raw.get("load", out.load)
+    if load not in SIMULATION_LOADS:
+        raise ctx.error(f"{key}.load", f"{load!r} must be one of {list(SIMULATION_LOADS)}")
+    values["load"] = load
+    seed = raw.get("seed", out.seed)
+    if isinstance(seed, bool) or not isinstance(seed, int) or not 0 <= seed < 2**63:
+        raise ctx.error(f"{key}.seed", f"{seed!r} must be an integer in [0, 2^63)")
+    values["seed"] = seed
+    for name, low, high, low_open, unit in (("duration", 60.0, 3600.0, False, "s"),
+                                            ("tolerance", 0.0, 1.0, True, "-"),
+                                            ("load_factor", 0.0, 10.0, True, "-")):
+        if name not in raw:
+            continue
+        v = _check_finite(ctx, f"{key}.{name}", raw[name])
+        if not ((v > low if low_open else v >= low) and v <= high):
+            raise ctx.error(f"{key}.{name}", f"{v:g} must be in {'(' if low_open else '['}"
+                                             f"{low:g}, {high:g}] [{unit}]")
+        values[name] = v
+    return SimulationSettings(**values)
+
+
 def parse_project(data: dict, *, source: str = "<project>", text: str = "",
                   lines: dict[str, int] | None = None, row_label: str = "",
                   case: str = "") -> Project:
@@ -426,7 +511,7 @@ def parse_project(data: dict, *, source: str = "<project>", text: str = "",
     ctx = _Context(source, lines, row_label)
     flat = _flatten(data)
     known = set(SPEC_BY_KEY) | {f"project.{k}" for k in _PROJECT_KEYS} | _OTHER_KEYS | {
-        "mode.floors"}
+        "mode.floors", "simulation"}
     for key in flat:
         if key not in known:
             close = difflib.get_close_matches(key, sorted(known), n=1)
@@ -474,8 +559,12 @@ def parse_project(data: dict, *, source: str = "<project>", text: str = "",
     if lo.si >= hi.si:
         raise ctx.error("damper.mass_ratio_max", f"{hi.si:g} must be above mass_ratio_min "
                                                  f"{lo.si:g}")
+    simulation = None
+    if "simulation" in flat:
+        simulation = _read_simulation(ctx, flat["simulation"])
     digest = hashlib.sha256(text.encode("utf-8")).hexdigest()
-    return Project(source, digest, info, system, paper, inputs, method, floors, case, lines)
+    return Project(source, digest, info, system, paper, inputs, method, floors, case, lines,
+                   simulation)
 
 
 def load_project(path: str | Path) -> Project:
@@ -568,8 +657,11 @@ def load_cases(path: str | Path) -> list[Project]:
             value: Any = _csv_value(cell)
             if key in SPEC_BY_KEY and unit:
                 value = {"value": value, "unit": unit}
-            elif key.startswith("project.") or key == "damper.tuning_method":
+            elif key.startswith("project.") or key in ("damper.tuning_method",
+                                                        "simulation.load"):
                 value = cell.strip()
+            elif key == "simulation.enabled":
+                value = {"true": True, "false": False}.get(cell.strip().lower(), cell.strip())
             parts = key.split(".")
             node = data
             for p in parts[:-1]:
@@ -584,9 +676,7 @@ def load_cases(path: str | Path) -> list[Project]:
         project = parse_project(data, source=path.name, lines=lines,
                                 row_label="column ", case=case)
         digest = hashlib.sha256(",".join(row).encode("utf-8")).hexdigest()
-        projects.append(Project(project.source_name, digest, project.info, project.units,
-                                project.paper, project.inputs, project.tuning_method,
-                                project.floors, case, lines))
+        projects.append(replace(project, source_sha256=digest, case=case, lines=lines))
     if not projects:
         raise ProjectError(f"{path}: the case table has no rows")
     return projects
