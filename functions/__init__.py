@@ -1,21 +1,23 @@
 # SPDX-License-Identifier: MIT
 """swaytune engine: pure, vectorised functions for pendulum tuned mass damper design.
 
-SI units (m, kg, s, Hz, N), angles in degrees, damping as a fraction of critical.
+SI units (m, kg, s, Hz, N), angles in degrees, damping as a fraction of critical. Every public
+name of the topic modules is re-exported here::
+
+    pendulum    exact period, small-angle error, tuned (equivalent) length, motion
+    structure   modal mass, mode shapes, EN 1991-1-4 Annex F estimates, log decrement
+    damper      optimal tuning, effective damping, stroke, required damping and mass ratio
+    design      the whole design chain -> DesignResult with checks
+    simulation  time-domain check of the pendulum damper on the building mode
 """
-from functions.pendulum import (  # noqa: F401
-    STANDARD_GRAVITY,
-    amplitude_detuning,
-    amplitude_for_error,
-    compound_pendulum_length,
-    equivalent_length,
-    exact_period,
-    folded_pendulum_length,
-    pendulum_frequency,
-    pendulum_motion,
-    small_angle_error,
-    small_angle_period,
-    swing_angle,
-)
+from functions import damper, design, pendulum, simulation, structure
+from functions.damper import *  # noqa: F401,F403
+from functions.design import *  # noqa: F401,F403
+from functions.pendulum import *  # noqa: F401,F403
+from functions.simulation import *  # noqa: F401,F403
+from functions.structure import *  # noqa: F401,F403
 
 __version__ = "0.1.0"
+
+__all__ = sorted({*pendulum.__all__, *structure.__all__, *damper.__all__, *design.__all__,
+                  *simulation.__all__})
