@@ -26,7 +26,6 @@ process and with ``--jobs 2``).
 from __future__ import annotations
 
 import argparse
-import os
 import shutil
 import sys
 import tempfile
@@ -36,7 +35,7 @@ from pathlib import Path
 ROOT = Path(__file__).resolve().parent.parent
 sys.path.insert(0, str(ROOT))
 
-from workbook_builder import office, recalc  # noqa: E402
+from workbook_builder import office, recalc, xlsx_package  # noqa: E402
 from workbook_builder.build import write_workbook  # noqa: E402
 from workbook_builder.project import load_project, parse_project  # noqa: E402
 
@@ -85,32 +84,18 @@ def generate(folder: Path, n: int) -> list[Path]:
 
 def libreoffice_batch(files: list[Path], outdir: Path, timeout: float) -> float:
     """Recalculate every file in ONE soffice process; return the wall time [s]."""
-    exe = office.find_soffice()
-    if exe is None:
+    if office.find_soffice() is None:
         raise SystemExit("LibreOffice (soffice) not found: cannot run the comparison")
-    outdir.mkdir(parents=True, exist_ok=True)
-    with tempfile.TemporaryDirectory(prefix="swaytune-bench-lo-") as tmp:
-        profile = Path(tmp) / "profile"
-        # office.py's private profile writer: OOXMLRecalcMode=0 (always recalculate), macros off.
-        office._write_profile(profile, "always")
-        cmd = [exe, f"-env:UserInstallation={profile.as_uri()}", "--headless", "--norestore",
-               "--nologo", "--nodefault", "--nolockcheck", "--convert-to",
-               "xlsx:Calc MS Excel 2007 XML", "--outdir", str(outdir)] + [str(f) for f in files]
-        env = dict(os.environ)
-        env.setdefault("SAL_USE_VCLPLUGIN", "svp")
-        t0 = time.perf_counter()
-        office._run(cmd, timeout, env)
-        elapsed = time.perf_counter() - t0
-    missing = [f.name for f in files if not (outdir / f.name).is_file()]
-    if missing:
-        raise SystemExit(f"LibreOffice produced no output for {len(missing)} file(s), e.g. "
-                         f"{missing[:3]}")
-    return elapsed
+    t0 = time.perf_counter()
+    # office.convert_many: one soffice process, private profile with OOXMLRecalcMode=0 (always
+    # recalculate on load), macros off, every output checked.
+    office.convert_many(files, outdir, "xlsx:Calc MS Excel 2007 XML", timeout=timeout)
+    return time.perf_counter() - t0
 
 
 def values(path: Path) -> dict[tuple[str, str], float]:
     """Numeric values (cached values of formulas, constants) of the compared sheets."""
-    book = recalc._open_package(path)
+    book = xlsx_package.open_package(path)
     out = {}
     for title in SHEETS:
         if title not in book.sheets:
@@ -124,7 +109,7 @@ def values(path: Path) -> dict[tuple[str, str], float]:
 
 def error_cells(path: Path) -> list[str]:
     """Cells whose stored value is a spreadsheet error (is it an error, not which one)."""
-    book = recalc._open_package(path)
+    book = xlsx_package.open_package(path)
     out = []
     for title, sheet in book.sheets.items():
         for cell in sheet.cells.values():
@@ -175,8 +160,7 @@ def main(argv: list[str] | None = None) -> int:
         batch = None
         for jobs in args.jobs:
             out = work / ("ours" if jobs == args.jobs[0] else f"ours_j{jobs}")
-            for cache in (recalc._REFERENCE_CACHE, recalc._PARSE_CACHE, recalc._CANON_CACHE):
-                cache.clear()                 # every run starts cold
+            recalc.clear_caches()             # every run starts cold
             t0 = time.perf_counter()
             b = recalc.recalc_many([work / "in"], outdir=out, jobs=jobs, progress=False)
             timings[jobs] = time.perf_counter() - t0

@@ -220,7 +220,7 @@ def test_names_protection_and_validation(built, name):
     for n in names:
         assert not n[:3].isalpha() or not n[3:].isdigit()       # not a cell address
     listed = {c.value for c in wb["Names"]["A"][4:] if c.value}
-    assert listed == {n for n in names if n != "SWAYTUNE_GENERATOR"}
+    assert listed == {n for n in names if n not in ("SWAYTUNE_GENERATOR", "SWAYTUNE_FORMAT")}
     for ws in wb.worksheets:
         assert ws.protection.sheet and not ws.protection.password, ws.title
     inputs = wb["Inputs"]
@@ -816,3 +816,86 @@ def test_undefined_engine_values_are_shown_not_written_as_nan(harmonic):
     assert [v for _, v in again.nonlinear_verdicts[:2]] == ["NOT OK", "NOT OK"]
     assert again.value("sim_detuning") == "not defined"
     assert again.value("sim_verdict") == "NOT OK"
+
+
+# ----------------------------------------------------------------------------- recalc support
+def test_evaluator_shares_a_parse_cache():
+    """Evaluator(parse_cache=...) fills and reuses the given cache; values do not change."""
+    cache: dict = {}
+    wb = openpyxl.Workbook()
+    ws = wb.active
+    ws.title = "S"
+    ws["A1"], ws["A2"] = 3.0, "=A1*2"
+    assert Evaluator(wb, parse_cache=cache).cell("S", 2, 1) == 6.0
+    assert "=A1*2" in cache
+    ws["A1"] = 4.0
+    assert Evaluator(wb, parse_cache=cache).cell("S", 2, 1) == 8.0     # text -> tree only
+    assert len(cache) == 1
+
+
+def test_format_mark_and_simulation_property(tmp_path):
+    """SWAYTUNE_FORMAT holds FORMAT_VERSION; the [simulation] table travels as data."""
+    import dataclasses
+    from workbook_builder.atomic import new_file_mode
+    from workbook_builder.build import (FORMAT_NAME, FORMAT_VERSION, SIMULATION_PROPERTY,
+                                        read_simulation_settings)
+    from workbook_builder.project import SimulationSettings, parse_project
+    import tomllib
+    raw = tomllib.loads(MINIMAL)
+    raw["simulation"] = {"load": "harmonic", "duration": 120.0, "seed": 7, "tolerance": 0.1}
+    project = parse_project(raw, source="sim.toml")
+    out = tmp_path / "w.xlsx"
+    write_workbook(project, out)
+    wb = openpyxl.load_workbook(out)
+    assert wb.defined_names[FORMAT_NAME].attr_text == str(FORMAT_VERSION)
+    assert wb.defined_names[FORMAT_NAME].hidden
+    prop = next(p for p in wb.custom_doc_props.props if p.name == SIMULATION_PROPERTY)
+    assert not str(prop.value).startswith("=")
+    assert read_simulation_settings(prop.value) == project.simulation
+    assert read_simulation_settings(prop.value) == dataclasses.replace(
+        SimulationSettings(), load="harmonic", duration=120.0, seed=7, tolerance=0.1)
+    # Normal file permissions (0o644 under umask 022), not a temporary file's private 0o600.
+    assert out.stat().st_mode & 0o777 == new_file_mode(tmp_path / "new.xlsx")
+
+
+@pytest.mark.parametrize("text, match", [
+    ("not json", r"SwaytuneSimulation='not json' is not JSON"),
+    ('{"loud": 1}', r"is not a \[simulation\] table"),
+    ('{"duration": -5}', r"duration"),
+])
+def test_read_simulation_settings_refuses(text, match):
+    from workbook_builder.build import read_simulation_settings
+    with pytest.raises(ValueError, match=match):
+        read_simulation_settings(text)
+
+
+def test_engine_cells_list_every_engine_value():
+    """build.engine_cells: every engine-only constant, kinds and values as written."""
+    from workbook_builder.build import ENGINE_KINDS, EngineCell, engine_cells, engine_value
+    from workbook_builder.project import parse_project
+    import tomllib
+    project = parse_project(tomllib.loads(MINIMAL), source="m.toml")
+    built = build_workbook(project)
+    cells = built.engine_cells
+    assert cells == engine_cells(project, built.result)
+    assert {c.kind for c in cells} == {"engine", "chart"} and set(ENGINE_KINDS) >= {"engine"}
+    for c in cells:
+        assert isinstance(c, EngineCell)
+        cell = built.workbook[c.sheet][c.cell]
+        assert cell.data_type == "n" and cell.value == c.value
+        if c.kind == "engine":
+            assert engine_value(project, built.result, c.key) == c.value
+    # Every green (engine) cell of the Calculation and Checks sheets is in the list.
+    listed = {(c.sheet, c.cell) for c in cells}
+    green = 0
+    for title in ("Calculation", "Checks"):
+        for row in built.workbook[title].iter_rows():
+            for cell in row:
+                if cell.fill is not None and cell.fill.fgColor.rgb in ("00E2EFDA", "FFE2EFDA"):
+                    assert (title, cell.coordinate) in listed, cell.coordinate
+                    green += 1
+    assert green == sum(1 for c in cells if c.sheet in ("Calculation", "Checks"))
+    # The engine column of the cross-checks holds the engine's value of its quantity.
+    assert any(c.sheet == "Checks" and c.key == "tuning_ratio" for c in cells)
+    with pytest.raises(ValueError, match="name=.nothing. is neither a result field"):
+        engine_value(project, built.result, "nothing")

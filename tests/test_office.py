@@ -198,3 +198,42 @@ def test_is_error_value(text, expected):
 def test_is_error_value_by_type():
     assert office.is_error_value("anything", "e") is True
     assert office.is_error_value(3.0) is False
+
+
+# ----------------------------------------------------------------------------- convert_many
+def test_convert_many_argument_errors(tmp_path):
+    with pytest.raises(ValueError, match="paths is empty"):
+        office.convert_many([], tmp_path / "out")
+    a = _sample(tmp_path / "a" / "s.xlsx")
+    b = _sample(tmp_path / "b" / "s.xlsx")
+    with pytest.raises(ValueError, match="would both be converted to s.xlsx"):
+        office.convert_many([a, b], tmp_path / "out")
+    with pytest.raises(FileNotFoundError, match="not found"):
+        office.convert_many([a, tmp_path / "nope.xlsx"], tmp_path / "out")
+    with pytest.raises(ValueError, match="recalc='sometimes' must be one of"):
+        office.convert_many([a], tmp_path / "out", recalc="sometimes")
+
+
+def test_convert_many_missing_output_names_the_file(tmp_path):
+    # A soffice that converts only the first file: the batch fails, naming the other, and
+    # nothing is moved into the output folder.
+    fake = tmp_path / "fake_soffice"
+    fake.write_text('#!/bin/sh\noutdir=""; take=0\nfor a; do if [ "$take" = 1 ]; then outdir=$a; take=0; fi; '
+                    'if [ "$a" = "--outdir" ]; then take=1; fi; done\n'
+                    'for a; do case "$a" in *first.xlsx) cp "$a" "$outdir/";; esac; done\n')
+    fake.chmod(0o755)
+    first = _sample(tmp_path / "first.xlsx")
+    second = _sample(tmp_path / "second.xlsx")
+    with pytest.raises(office.OfficeError, match="no xlsx file from second.xlsx"):
+        office.convert_many([first, second], tmp_path / "out", soffice=str(fake))
+    assert not (tmp_path / "out" / "first.xlsx").exists()
+
+
+@needs_soffice
+def test_convert_many_one_process_recalculates_every_file(tmp_path):
+    files = [_sample(tmp_path / "in" / f"s{i}.xlsx") for i in range(3)]
+    outs = office.convert_many(files, tmp_path / "out", "xlsx:Calc MS Excel 2007 XML")
+    assert outs == [(tmp_path / "out" / f"s{i}.xlsx").resolve() for i in range(3)]
+    for out in outs:
+        # stale cached value 999 recomputed: B1 = A1*2 = 4
+        assert office.read_values(out)[("Calc sheet", "B1")] == 4

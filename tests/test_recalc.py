@@ -19,12 +19,13 @@ from pathlib import Path
 import openpyxl
 import pytest
 
-from workbook_builder import office, recalc
+from workbook_builder import office, recalc, xlsx_package
 from workbook_builder.build import build_workbook, write_workbook
 from workbook_builder.cached import formula_cells
 from workbook_builder.project import load_project, parse_project
 from workbook_builder.recalc import (RecalcError, main_recalc, read_inputs, read_workbook,
                                      recalc_many, recalc_workbook, write_results)
+from workbook_builder.recalc_summary import csv_safe
 
 ROOT = Path(__file__).resolve().parent.parent
 EXAMPLES = ROOT / "example_workbooks"
@@ -460,7 +461,7 @@ def test_in_place_keeps_backup_and_is_atomic(built, tmp_path, monkeypatch):
     def boom(*a, **k):
         raise OSError("disk full (simulated)")
 
-    monkeypatch.setattr(recalc, "_rewrite_cells", boom)
+    monkeypatch.setattr(xlsx_package, "rewrite_cells", boom)
     res2 = recalc_workbook(path, in_place=True, backup=False, inputs={"frequency": 0.23})
     assert res2.status == "FAILED" and "disk full" in res2.error
     assert path.read_bytes() == before
@@ -603,9 +604,9 @@ def test_folder_scan_skips_outputs_backups_and_summaries(built, tmp_path):
 
 
 def test_csv_text_is_never_a_formula():
-    assert recalc._csv_safe("=HYPERLINK(1)") == "'=HYPERLINK(1)"
-    assert recalc._csv_safe("plain") == "plain"
-    assert recalc._csv_safe(-1.5) == -1.5
+    assert csv_safe("=HYPERLINK(1)") == "'=HYPERLINK(1)"
+    assert csv_safe("plain") == "plain"
+    assert csv_safe(-1.5) == -1.5
 
 
 def test_write_results_refuses_formula_cell(built, tmp_path):
@@ -650,7 +651,7 @@ def test_older_format_is_noted(built, tmp_path, monkeypatch):
 
 
 def test_nonlinear_sheet_flags_stale_simulation(tmp_path):
-    """recalc does not rerun the time-domain simulation: its flag says when it is stale."""
+    """recalc does not rerun the time-domain simulation: it says so (NOT OK, rebuild)."""
     project = load_project(EXAMPLES / "residential_tower.toml")
     if getattr(project, "simulation", None) is None:
         pytest.skip("the example has no [simulation] table")
@@ -671,7 +672,11 @@ def test_nonlinear_sheet_flags_stale_simulation(tmp_path):
     _set_cells(path, {(sheet, coord): "=tuning_ratio*structure_frequency*1.02"})
     edited = recalc_workbook(path)
     assert [i.where for i in edited.issues if i.kind == "formula_edited"] == [f"{sheet}!{coord}"]
-    assert any(i.kind == "note" and "Summary" in i.where for i in edited.issues)
+    # the [simulation] settings travel with the workbook (document property), so the builder's
+    # layout includes the Nonlinear sheet and every sheet is compared as text
+    assert read_workbook(path).project.simulation == project.simulation
+    assert not [i for i in edited.issues if i.kind == "note"]
+    assert "REBUILD NEEDED" in stale[0].message
 
 
 # ----------------------------------------------------------------------------- parameter study
@@ -711,3 +716,118 @@ def test_output_opens_in_libreoffice_without_errors(built, tmp_path):
     again = recalc_workbook(lo, outdir=tmp_path / "again")
     assert again.status == "OK", again.error or [str(i) for i in again.issues]
     assert not [i for i in again.issues if i.kind.startswith("formula")]
+
+
+# ----------------------------------------------------------------------------- format, layout
+def test_workbook_without_format_mark_is_reported_older(built, tmp_path):
+    from workbook_builder.build import FORMAT_NAME, FORMAT_VERSION
+    path = _copy(built["den_hartog"], tmp_path)
+    assert read_workbook(path).book.defined_names[FORMAT_NAME].attr_text == str(FORMAT_VERSION)
+    _set_cells(path, {}, delete_names=(FORMAT_NAME,))
+    res = recalc_workbook(path)
+    assert res.status == "OK"
+    notes = [i for i in res.issues if i.kind == "note" and i.where == "format"]
+    assert len(notes) == 1 and "format 1" in notes[0].message
+
+
+def test_bad_format_mark_fails(built, tmp_path):
+    path = _copy(built["den_hartog"], tmp_path)
+    _set_cells(path, {}, add_names={recalc.FORMAT_NAME: '"two"'})
+    res = recalc_workbook(path)
+    assert res.status == "FAILED" and "is not a number" in res.error
+
+
+def test_engine_cells_located_by_the_builder_list(built, tmp_path):
+    """Engine values are written where build.engine_cells says; a moved row fails clearly."""
+    from workbook_builder.build import engine_cells
+    data = read_workbook(built["den_hartog"])
+    listed = engine_cells(data.project)
+    assert {c.kind for c in listed} == {"engine", "chart"}
+    res = recalc_workbook(built["den_hartog"], outdir=tmp_path / "o", inputs={"frequency": 0.3})
+    got = _values(res.output)
+    fresh = {(c.sheet, c.cell): c.value for c in engine_cells(read_workbook(res.output).project)}
+    assert all(got[k] == pytest.approx(v, rel=1e-15) for k, v in fresh.items())
+    # the label of an engine value's row changed: the value cannot be located -> FAILED
+    check = next(c for c in listed if c.sheet == "Checks")
+    row = check.cell.lstrip("ABCDEFGHIJKLMNOPQRSTUVWXYZ")
+    path = _copy(built["den_hartog"], tmp_path / "moved")
+    _set_cells(path, {("Checks", f"A{row}"): "Something else"})
+    moved = recalc_workbook(path, outdir=tmp_path / "o2")
+    assert moved.status == "FAILED" and "laid out differently" in moved.error
+    assert not (tmp_path / "o2" / path.name).exists()
+
+
+# ----------------------------------------------------------------------------- permissions
+def test_outputs_have_normal_permissions(built, tmp_path):
+    """Built workbooks, recalc outputs and summaries: 0o644 under umask 022, not 0o600."""
+    import os
+    import stat
+    old = os.umask(0o022)
+    try:
+        out = tmp_path / "built.xlsx"
+        write_workbook(parse_project(DEN_HARTOG, source="p.toml"), out)
+        src = _copy(built["den_hartog"], tmp_path / "in")
+        os.chmod(src, 0o600)                   # a private original: the copies are not
+        batch = recalc_many([src], outdir=tmp_path / "out", progress=False)
+        assert batch.exit_status == 0
+        files = [out, batch.results[0].output, batch.summary_xlsx, batch.summary_csv]
+        assert [stat.S_IMODE(f.stat().st_mode) for f in files] == [0o644] * 4
+        # in place: the file keeps its own mode
+        inplace = _copy(built["den_hartog"], tmp_path / "ip")
+        os.chmod(inplace, 0o640)
+        res = recalc_workbook(inplace, in_place=True, inputs={"frequency": 0.21})
+        assert res.status == "OK" and stat.S_IMODE(inplace.stat().st_mode) == 0o640
+    finally:
+        os.umask(old)
+
+
+# ----------------------------------------------------------------------------- swaytune recalc
+def test_swaytune_recalc_command(built, tmp_path, capsys):
+    """``swaytune recalc`` (workbook_builder.cli) with the cautions, as every command."""
+    from workbook_builder import cli
+    with pytest.raises(SystemExit):
+        cli.main(["--help"])
+    assert "recalc" in capsys.readouterr().out
+    folder = tmp_path / "in"
+    _copy(built["den_hartog"], folder)
+    status = cli.main(["recalc", str(folder), "-o", str(tmp_path / "out"), "--no-progress",
+                       "--jobs", "1"])
+    out = capsys.readouterr().out
+    assert status == 0
+    assert "1 workbook(s): 1 OK" in out and "CAUTION - preliminary design aid" in out
+    assert "licensed" in out
+    assert (tmp_path / "out" / "den_hartog.xlsx").is_file()
+    assert (tmp_path / "out" / "recalc_summary.csv").is_file()
+    # neither -o nor --in-place: usage error 2, cautions still printed
+    assert cli.main(["recalc", str(folder)]) == 2
+    captured = capsys.readouterr()
+    assert "exactly one" in captured.err and "CAUTION" in captured.out
+    # a failed workbook: exit status 1
+    bad = tmp_path / "bad.xlsx"
+    bad.write_bytes(b"not a zip")
+    assert cli.main(["recalc", str(bad), "-o", str(tmp_path / "o3"), "--no-progress"]) == 1
+    assert "FAILED" in capsys.readouterr().out
+
+
+def test_python_m_workbook_builder_recalc(built, tmp_path):
+    folder = tmp_path / "in"
+    _copy(built["den_hartog"], folder)
+    proc = subprocess.run([sys.executable, "-m", "workbook_builder", "recalc", str(folder),
+                           "-o", str(tmp_path / "out"), "--no-progress"], cwd=ROOT,
+                          capture_output=True, text=True, timeout=300)
+    assert proc.returncode == 0, proc.stderr
+    assert "1 OK" in proc.stdout and "CAUTION" in proc.stdout
+
+
+def test_unreadable_simulation_property_is_noted(built, tmp_path):
+    from openpyxl.packaging.custom import StringProperty
+    from workbook_builder.build import SIMULATION_PROPERTY
+    path = _copy(built["den_hartog"], tmp_path)
+    wb = openpyxl.load_workbook(path)
+    wb.custom_doc_props.append(StringProperty(name=SIMULATION_PROPERTY, value="{broken"))
+    wb.save(path)
+    res = recalc_workbook(path)
+    assert res.status == "OK"
+    assert read_workbook(path).project.simulation is None
+    assert any(i.kind == "note" and i.where == SIMULATION_PROPERTY and "not JSON" in i.message
+               for i in res.issues)

@@ -29,12 +29,34 @@ from . import __version__
 from .calcsheet import (AGM_STEPS, CROSS_CHECK_TOLERANCE, FIXED_POINT_ITERATIONS, INPUT_NAMES,
                         EngineValue, Step, design_checks, mass_ratio_mode, sections)
 from .formulas import Evaluator, check_formula, is_error
-from .project import INPUT_SPECS, Project, SimulationSettings
+from .project import INPUT_SPECS, Project
 from .units import SI_UNIT, US_DISPLAY
+# The engine calls (re-exported: part of this module's public API since the first release).
+from .engine import (PEAK_DURATION, SIMULATION_PROPERTY, SimulationRun,  # noqa: F401
+                     engine_value, read_simulation_settings, run_engine, run_simulation,
+                     simulation_settings_text)
 
 __all__ = ["BuildError", "BuiltWorkbook", "build_workbook", "write_workbook", "CAUTIONS",
            "SHEETS", "run_engine", "run_simulation", "SimulationRun", "content_digest",
-           "guard_hand_edits", "DIGEST_PROPERTY"]
+           "guard_hand_edits", "DIGEST_PROPERTY", "FORMAT_VERSION", "FORMAT_NAME",
+           "SIMULATION_PROPERTY", "EngineCell", "ENGINE_KINDS", "engine_cells", "engine_value",
+           "lay_out",
+           "simulation_settings_text", "read_simulation_settings"]
+
+#: Layout format of the workbooks this builder writes, stored in every workbook as the
+#: workbook-scoped defined name ``SWAYTUNE_FORMAT``. RAISE IT BY ONE ON EVERY LAYOUT CHANGE
+#: (a sheet, row, column, defined name or formula moved, added, removed or rewritten): batch
+#: recalculation (:mod:`workbook_builder.recalc`) refuses a workbook of a newer format and
+#: reports an older one, whose formulas may differ from the builder's without a hand edit.
+#: History: 1 = layout of swaytune 0.1 before the mark existed; 2 = the mark itself and the
+#: SwaytuneSimulation document property.
+FORMAT_VERSION = 2
+#: Defined name (workbook scope, hidden) holding :data:`FORMAT_VERSION`.
+FORMAT_NAME = "SWAYTUNE_FORMAT"
+#: Kinds of engine-only cells (:class:`EngineCell`): a design-chain value or input snapshot
+#: (``engine``), a chart table value (``chart``), a time-domain simulation value or setting of
+#: the Nonlinear sheet (``simulation``).
+ENGINE_KINDS = ("engine", "chart", "simulation")
 
 #: Cautions printed in every workbook and by the command line.
 CAUTIONS = (
@@ -53,8 +75,6 @@ CAUTIONS = (
 SHEETS = ("Summary", "Inputs", "Calculation", "Pendulum", "Checks", "Charts", "Nonlinear",
           "Names", "Cautions", "Record")
 
-#: Averaging time of the wind input's peak acceleration, for the random load's calibration [s].
-PEAK_DURATION = 600.0
 #: Shown for an engine value that is not defined (NaN: e.g. no detuning beyond 180 deg).
 _NOT_DEFINED = "not defined"
 
@@ -86,6 +106,23 @@ class BuildError(RuntimeError):
     """The workbook could not be built consistently (e.g. a formula evaluates to an error)."""
 
 
+@dataclass(frozen=True)
+class EngineCell:
+    """A cell the builder fills with an engine value (a constant, not a formula).
+
+    ``kind`` is one of :data:`ENGINE_KINDS`; ``key`` says which value: the engine field or
+    defined input name for ``engine`` (see :func:`engine_value`), ``(table key, row index,
+    column index)`` of :func:`workbook_builder.charts.chart_tables` for ``chart``, a short
+    description for ``simulation``. ``value`` is what the builder wrote (float or text).
+    """
+
+    sheet: str
+    cell: str
+    kind: str
+    key: Any
+    value: Any
+
+
 @dataclass
 class BuiltWorkbook:
     """A built workbook with the cached values of its formula cells and the engine result."""
@@ -100,6 +137,8 @@ class BuiltWorkbook:
     engine_checks: list[tuple[str, bool]] = field(default_factory=list)
     simulation: Any = None        # SimulationRun when the Nonlinear sheet was built
     nonlinear_verdicts: list[tuple[str, str]] = field(default_factory=list)
+    #: Every engine-only cell the builder wrote, in writing order (see :func:`engine_cells`).
+    engine_cells: list[EngineCell] = field(default_factory=list)
 
     def value(self, name: str) -> Any:
         """Value (cached value of a formula, or the constant) of the cell named ``name``."""
@@ -107,108 +146,6 @@ class BuiltWorkbook:
         if key in self.values:
             return self.values[key]
         return self.workbook[key[0]][key[1]].value
-
-
-# --------------------------------------------------------------------------- engine
-def _engine_modal_mass(project: Project) -> float | None:
-    fl = project.floors
-    if fl is None:
-        return None
-    from functions.structure import modal_mass, power_law_mode_shape
-    shape = power_law_mode_shape(fl.heights_si, fl.building_height_si, fl.exponent)
-    return float(modal_mass(fl.masses_si, shape, damper_level=fl.damper_level - 1))
-
-
-def run_engine(project: Project):
-    """Run the engine's design chain for a project; return the DesignResult.
-
-    Raises
-    ------
-    ValueError
-        From the engine, prefixed with the project's source name.
-    """
-    from functions.design import DesignInputs, design_damper
-    try:
-        inputs = DesignInputs(**project.design_kwargs(_engine_modal_mass(project)))
-        return design_damper(inputs)
-    except ValueError as exc:
-        raise ValueError(f"{project.source_name}: {project.case + ': ' if project.case else ''}"
-                         f"the design cannot be computed: {exc}") from exc
-
-
-@dataclass(frozen=True)
-class SimulationRun:
-    """The time-domain simulation of a design and how its load was chosen.
-
-    ``force`` is the random force's RMS or the harmonic force's amplitude [N], calibrated so
-    that the building WITHOUT the damper reaches the wind input's peak acceleration times
-    ``settings.load_factor``; ``peak_factor`` [-] is the Davenport factor used for the random
-    load (None for a harmonic load). ``length`` [m] is the design's pendulum length (in tune at
-    the design swing), ``hanger_frequency`` [Hz] its small-angle frequency and
-    ``damper_damping`` [-] the damper's damping on that frequency (the designed dashpot).
-    """
-
-    settings: SimulationSettings
-    load: Any
-    force: float
-    load_frequency: float
-    peak_factor: float | None
-    length: float
-    damper_mass: float
-    hanger_frequency: float
-    damper_damping: float
-    result: Any
-
-
-def run_simulation(project: Project, result) -> SimulationRun:
-    """Simulate the design's pendulum damper in time (``functions.simulation.simulate``).
-
-    The design's pendulum length L is simulated; the design's damper damping zeta_d is on the
-    target frequency f_d, so the dashpot stays the one designed with zeta_L = zeta_d f_d / f_L,
-    f_L = sqrt(g/L) / (2 pi). The load is calibrated to the wind input (see
-    :mod:`workbook_builder.project`, [simulation]): a random force (corner frequency at the
-    mode's frequency) whose bare-building RMS acceleration (frequency domain,
-    ``random_response_theory``) times Davenport's peak factor over 600 s
-    (``damper.peak_factor``) equals the input peak acceleration, or a harmonic force at the
-    mode's frequency whose steady bare-building peak acceleration equals it (amplification
-    from ``damper.frequency_response``: amplitude A F0 / M*). Both are scaled by the load
-    factor.
-
-    Raises
-    ------
-    ValueError
-        When the project has no enabled [simulation] table, or from the engine (prefixed with
-        the project's source name).
-    """
-    from functions import damper, simulation
-    settings = project.simulation
-    if settings is None or not settings.enabled:
-        raise ValueError(f"{project.source_name}: the project does not ask for a simulation")
-    i = result.inputs
-    M, fs, zs, g = float(i.modal_mass), float(i.frequency), float(i.structural_damping), \
-        float(i.g)
-    md, L = float(result.damper_mass), float(result.pendulum_length)
-    f_L = math.sqrt(g / L) / (2.0 * math.pi)
-    zd = float(result.damper_damping) * float(result.damper_frequency) / f_L
-    a = float(i.acceleration) * settings.load_factor
-    try:
-        if settings.load == "random":
-            unit = simulation.random_response_theory(M, fs, zs, md, L, zd, 1.0, fs,
-                                                     settings.duration, g=g)
-            gp = float(damper.peak_factor(fs, PEAK_DURATION))
-            force = a / (gp * unit.acceleration_rms_without_damper)
-            load = simulation.RandomForce(force, fs, seed=settings.seed)
-        else:
-            gp = None
-            amplification = float(damper.frequency_response(1.0, 0.0, 1.0, 0.0, zs))
-            force = a * M / amplification
-            load = simulation.HarmonicForce(force, fs)
-        sim = simulation.simulate(M, fs, zs, md, L, zd, load, settings.duration,
-                                  tolerance=settings.tolerance, g=g)
-    except ValueError as exc:
-        raise ValueError(f"{project.source_name}: {project.case + ': ' if project.case else ''}"
-                         f"the simulation cannot be run: {exc}") from exc
-    return SimulationRun(settings, load, float(force), fs, gp, L, md, f_L, zd, sim)
 
 
 # --------------------------------------------------------------------------- cell helpers
@@ -318,6 +255,8 @@ class _Builder:
         self.cross: list[tuple[str, str, str, float]] = []      # name, label, symbol, engine
         self.flag_cells: list[str] = []
         self.flag_labels: list[str] = []
+        self.engine_cells: list[EngineCell] = []
+        self.cross_engine: dict[str, str] = {}                  # name -> engine field
         self.helper_labels: dict[str, tuple[str, str]] = {
             "fixed_point_length": ("Pendulum length after the last fixed-point iteration", "m"),
             "fixed_point_change": ("Relative change of the length in the last iteration "
@@ -354,13 +293,12 @@ class _Builder:
     # engine values ------------------------------------------------------------------------
     def engine_value(self, name: str) -> float:
         """Engine value of a result field or an input (SI), for snapshots and cross-checks."""
-        if hasattr(self.result, name):
-            return float(getattr(self.result, name))
-        for spec_name, defined in INPUT_NAMES.items():
-            if defined == name:
-                return float(self.project.si(spec_name)
-                             if spec_name != "modal_mass" else self.result.inputs.modal_mass)
-        raise BuildError(f"no engine value for {name!r}")
+        return engine_value(self.project, self.result, name)
+
+    def engine_cell(self, cell, kind: str, key: Any) -> None:
+        """Record a cell just written with an engine value (:class:`EngineCell`)."""
+        self.engine_cells.append(EngineCell(cell.parent.title, cell.coordinate, kind, key,
+                                            cell.value))
 
     # --------------------------------------------------------------------------------------
     def build(self) -> Workbook:
@@ -398,6 +336,18 @@ class _Builder:
         self.record_sheet(self.sheet("Record"))
         from .atomic import mark_workbook
         mark_workbook(self.wb, __version__)
+        if FORMAT_NAME in self.wb.defined_names:      # a template's stale mark
+            del self.wb.defined_names[FORMAT_NAME]
+        self.wb.defined_names.add(DefinedName(FORMAT_NAME, attr_text=str(FORMAT_VERSION),
+                                              hidden=True))
+        if self.project.simulation is not None:
+            from openpyxl.packaging.custom import StringProperty
+            props = self.wb.custom_doc_props
+            for prop in list(props.props):
+                if prop.name == SIMULATION_PROPERTY:
+                    props.props.remove(prop)
+            props.append(StringProperty(name=SIMULATION_PROPERTY,
+                                        value=simulation_settings_text(self.project.simulation)))
         self.wb.properties.creator = f"swaytune {__version__}"
         self.wb.properties.title = self.project.info.get("title") or "Pendulum damper design"
         self.wb.calculation.fullCalcOnLoad = True
@@ -606,7 +556,9 @@ class _Builder:
                 fmt = _fmt(item.unit) if not item.name.startswith("var_") else "General"
                 if isinstance(item, EngineValue):
                     value = self.engine_value(item.engine)
-                    sh.put(row, 4, value, fmt=fmt, fill=_ENGINE_FILL, border=True, align=_TOP)
+                    c = sh.put(row, 4, value, fmt=fmt, fill=_ENGINE_FILL, border=True,
+                               align=_TOP)
+                    self.engine_cell(c, "engine", item.engine)
                     self.engine_values[item.name] = value
                 else:
                     sh.put(row, 4, item.formula, fmt=fmt, border=True, align=_TOP)
@@ -620,6 +572,7 @@ class _Builder:
                 if item.engine:
                     self.cross.append((item.name, item.label, item.symbol,
                                        self.engine_value(item.engine)))
+                    self.cross_engine[item.name] = item.engine
                 row += 1
                 nxt = items[idx + 1] if idx + 1 < len(items) else None
                 if isinstance(item, EngineValue) and not (
@@ -632,14 +585,15 @@ class _Builder:
 
     def engine_flag(self, sh: _Sheet, row: int, depends_on: tuple[str, ...],
                     what: str, *, label_col: int = 2, value_col: int = 4,
-                    note_col: int = 6, note_to: int | None = None) -> int:
+                    note_col: int = 6, note_to: int | None = None, kind: str = "engine") -> int:
         conds = []
         v = get_column_letter(value_col)
         for dep in depends_on:
             snap = self.engine_value(dep)
             sh.put(row, label_col, f"Engine value computed for {dep} =", align=_WRAP)
-            sh.put(row, value_col, snap, fmt="General", fill=_ENGINE_FILL, border=True,
-                   align=_TOP)
+            c = sh.put(row, value_col, snap, fmt="General", fill=_ENGINE_FILL, border=True,
+                       align=_TOP)
+            self.engine_cell(c, kind, dep)
             sh.put(row, note_col, "value at build time", align=_WRAP)
             if note_to:
                 sh.ws.merge_cells(start_row=row, start_column=note_col, end_row=row,
@@ -678,12 +632,13 @@ class _Builder:
         if isinstance(value, float) and not math.isfinite(value):
             value = _NOT_DEFINED          # the engine says why in its notes (shown below)
         if isinstance(value, str) and not value.startswith("="):
-            sh.text(row, 2, value, border=True, align=_TOP)
+            self.engine_cell(sh.text(row, 2, value, border=True, align=_TOP), "simulation",
+                             label)
         elif isinstance(value, str):
             sh.put(row, 2, value, fmt=fmt or _fmt(unit), border=True, align=_TOP)
         else:
-            sh.put(row, 2, value, fmt=fmt or _fmt(unit), fill=_ENGINE_FILL, border=True,
-                   align=_TOP)
+            self.engine_cell(sh.put(row, 2, value, fmt=fmt or _fmt(unit), fill=_ENGINE_FILL,
+                                    border=True, align=_TOP), "simulation", label)
         sh.put(row, 3, unit, border=True, align=_TOP)
         sh.put(row, 4, note, align=_WRAP, border=True)
         sh.ws.merge_cells(start_row=row, start_column=4, end_row=row, end_column=6)
@@ -769,7 +724,7 @@ class _Builder:
                                "relative to the peaks", fmt=_SCI)
         row = self.engine_flag(sh, row, self._simulation_dependencies(),
                                "nonlinear simulation", label_col=1, value_col=2, note_col=4,
-                               note_to=6)
+                               note_to=6, kind="simulation")
         row += 1
 
         row = self._section(sh, row, "2  Response over the record",
@@ -799,9 +754,11 @@ class _Builder:
                 if col == 4 and not has_bare:
                     sh.put(row, col, "-", border=True)
                 elif isinstance(value, float) and not math.isfinite(value):
-                    sh.put(row, col, "not identified", border=True)
+                    self.engine_cell(sh.put(row, col, "not identified", border=True),
+                                     "simulation", f"{label} ({col})")
                 else:
-                    sh.put(row, col, value, fmt=_fmt(unit), fill=_ENGINE_FILL, border=True)
+                    self.engine_cell(sh.put(row, col, value, fmt=_fmt(unit), fill=_ENGINE_FILL,
+                                            border=True), "simulation", f"{label} ({col})")
             sh.put(row, 5, unit, border=True)
             row += 1
         self.names_for_table(sh, first_table_row)
@@ -810,17 +767,20 @@ class _Builder:
             sh.put(row, 1, "RMS building acceleration, frequency domain (linear theory)",
                    align=_WRAP, border=True)
             sh.put(row, 2, "-", border=True)
-            sh.put(row, 3, th.acceleration_rms, fmt=_fmt("m/s^2"), fill=_ENGINE_FILL,
-                   border=True)
-            sh.put(row, 4, th.acceleration_rms_without_damper, fmt=_fmt("m/s^2"),
-                   fill=_ENGINE_FILL, border=True)
+            self.engine_cell(sh.put(row, 3, th.acceleration_rms, fmt=_fmt("m/s^2"),
+                                    fill=_ENGINE_FILL, border=True), "simulation",
+                             "acceleration_rms (theory)")
+            self.engine_cell(sh.put(row, 4, th.acceleration_rms_without_damper,
+                                    fmt=_fmt("m/s^2"), fill=_ENGINE_FILL, border=True),
+                             "simulation", "acceleration_rms_without_damper (theory)")
             sh.put(row, 5, "m/s^2", border=True)
             row += 1
             sh.put(row, 1, "Expected scatter of an RMS over this record (1 standard "
                            "deviation)", align=_WRAP, border=True)
             sh.put(row, 2, "-", border=True)
-            sh.put(row, 3, th.acceleration_rms_scatter, fmt="0.0%", fill=_ENGINE_FILL,
-                   border=True)
+            self.engine_cell(sh.put(row, 3, th.acceleration_rms_scatter, fmt="0.0%",
+                                    fill=_ENGINE_FILL, border=True), "simulation",
+                             "acceleration_rms_scatter (theory)")
             sh.put(row, 4, "-", border=True)
             sh.put(row, 5, "-", border=True)
             row += 1
@@ -861,7 +821,8 @@ class _Builder:
                                "linearised", sim.departure, "-", sim.departure_quantity,
                                "sim_departure")
         sh.put(row, 1, "Accepted departure", align=_WRAP, border=True)
-        sh.put(row, 2, st.tolerance, fmt="0.000", border=True)
+        self.engine_cell(sh.put(row, 2, st.tolerance, fmt="0.000", border=True), "simulation",
+                         "tolerance (project file)")
         sh.put(row, 3, "-", border=True)
         sh.put(row, 4, "project file, [simulation] tolerance", align=_WRAP, border=True)
         sh.ws.merge_cells(start_row=row, start_column=4, end_row=row, end_column=6)
@@ -877,12 +838,14 @@ class _Builder:
         self.helper_labels["sim_verdict"] = ("Verdict of the nonlinear simulation", "")
         row += 1
         sh.put(row, 1, "Engine's verdict", align=_TOP, border=True)
-        sh.text(row, 2, sim.verdict, align=_WRAP, border=True)
+        self.engine_cell(sh.text(row, 2, sim.verdict, align=_WRAP, border=True), "simulation",
+                         "verdict")
         sh.ws.merge_cells(start_row=row, start_column=2, end_row=row, end_column=6)
         row += 1
         for note in sim.notes:
             sh.put(row, 1, "Engine note", align=_TOP, border=True)
-            sh.text(row, 2, note, align=_WRAP, border=True)
+            self.engine_cell(sh.text(row, 2, note, align=_WRAP, border=True), "simulation",
+                             "note")
             sh.ws.merge_cells(start_row=row, start_column=2, end_row=row, end_column=6)
             row += 1
         row += 1
@@ -894,6 +857,10 @@ class _Builder:
         from openpyxl.worksheet.pagebreak import Break
         sh.ws.row_breaks.append(Break(id=row))
         last = add_time_history_charts(sh.ws, sim, chart_row=chart_row, data_row=1, data_col=8)
+        for cells in sh.ws.iter_rows(min_col=8):
+            for c in cells:
+                if isinstance(c.value, (int, float)) and not isinstance(c.value, bool):
+                    self.engine_cell(c, "simulation", "time history")
         sh.widths([40, 15, 15, 15, 9, 22, 3, 10, 14, 14, 14, 14, 3, 10, 14, 14])
         _fit_rows(sh.ws)
         sh.ws.protection.sheet = True
@@ -1014,7 +981,8 @@ class _Builder:
             sh.put(row, 1, label, align=_WRAP, border=True)
             sh.put(row, 2, symbol, border=True)
             sh.put(row, 3, f"={name}", fmt=_FULL, border=True)
-            sh.put(row, 4, engine, fmt=_FULL, fill=_ENGINE_FILL, border=True)
+            self.engine_cell(sh.put(row, 4, engine, fmt=_FULL, fill=_ENGINE_FILL, border=True),
+                             "engine", self.cross_engine[name])
             sh.put(row, 5, f"=ROUND(IF(D{row}=0,ABS(C{row}),ABS(C{row}/D{row}-1)),12)", fmt=_SCI,
                    border=True)
             sh.put(row, 6, CROSS_CHECK_TOLERANCE, fmt=_SCI, border=True)
@@ -1178,8 +1146,17 @@ class _Builder:
             from .charts import add_charts_sheet
         except ImportError:
             return
+        from .charts import chart_tables
         before = set(self.wb.sheetnames)
-        add_charts_sheet(self.wb, self.result, paper=self.project.paper)
+        positions: dict[str, tuple[int, int]] = {}
+        ws = add_charts_sheet(self.wb, self.result, paper=self.project.paper,
+                              positions=positions)
+        for key, table in chart_tables(self.result).items():
+            r0, c0 = positions[key]
+            for i, values in enumerate(table.rows):
+                for j, v in enumerate(values):
+                    if not isinstance(v, str):
+                        self.engine_cell(ws.cell(r0 + i, c0 + j), "chart", (key, i, j))
         for title in self.wb.sheetnames:
             if title not in before:
                 self.our_sheets.append(title)
@@ -1306,7 +1283,8 @@ def build_workbook(project: Project, *, template: str | Path | None = None,
             values[(sheet, coord)] = v
     if errors:
         raise BuildError("formula(s) evaluate to an error: " + ", ".join(errors[:10]))
-    built = BuiltWorkbook(wb, values, result, project, dict(b.names), simulation=simulation)
+    built = BuiltWorkbook(wb, values, result, project, dict(b.names), simulation=simulation,
+                          engine_cells=list(b.engine_cells))
     for name, label, symbol, engine in b.cross:
         v = built.value(name)
         rel = abs(v) if engine == 0 else abs(v / engine - 1)
@@ -1317,6 +1295,41 @@ def build_workbook(project: Project, *, template: str | Path | None = None,
         built.nonlinear_verdicts.append((label, values[("Checks", cell)]))
     built.engine_checks = [(c.name, bool(c.ok)) for c in getattr(result, "checks", ())]
     return built
+
+
+def lay_out(project: Project, result=None, *, simulation: SimulationRun | None = None,
+            template: str | Path | None = None) -> tuple[Workbook, list[EngineCell]]:
+    """Lay out a project's workbook in memory: no formula evaluated, nothing saved.
+
+    Returns the openpyxl workbook (formulas, names, labels, styles as :func:`build_workbook`
+    makes them, without cached values) and every engine-only cell written into it.
+
+    Raises
+    ------
+    ValueError
+        When the engine (or the simulation, when the project asks for it) cannot compute the
+        design for these inputs.
+    """
+    result = run_engine(project) if result is None else result
+    if simulation is None and project.simulate:
+        simulation = run_simulation(project, result)
+    b = _Builder(project, result, template, simulation)
+    return b.build(), list(b.engine_cells)
+
+
+def engine_cells(project: Project, result=None, *, simulation: SimulationRun | None = None,
+                 template: str | Path | None = None) -> list[EngineCell]:
+    """Every engine-only cell the builder writes for a project, with its value.
+
+    Batch recalculation uses this list to know which constants are engine values, instead of
+    finding them by their labels (see :func:`lay_out`).
+
+    Raises
+    ------
+    ValueError
+        See :func:`lay_out`.
+    """
+    return lay_out(project, result, simulation=simulation, template=template)[1]
 
 
 #: Custom document property holding :func:`content_digest` of the workbook as built.

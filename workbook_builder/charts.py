@@ -273,13 +273,16 @@ def _scatter(title: str, x_title: str, y_title: str, *, x_min: float | None = No
 
 
 def add_charts_sheet(wb: Any, result: Any, *, title: str = "Charts", index: int | None = None,
-                     paper: str = "A4", **table_options: Any) -> Any:
+                     paper: str = "A4", positions: dict[str, tuple[int, int]] | None = None,
+                     **table_options: Any) -> Any:
     """Add a sheet with the three chart tables and their native charts; return the sheet.
 
     ``result`` is a :class:`functions.design.DesignResult`; ``table_options`` go to
     :func:`chart_tables`. The charts sit on top (so they are seen first and print first), the
     tables below them; each chart's series carry their data cache. The sheet is laid out for
-    printing on ``paper`` (A4 or Letter, portrait, fit to width, title rows repeated).
+    printing on ``paper`` (A4 or Letter, portrait, fit to width, title rows repeated). When
+    ``positions`` is given it receives ``table key -> (first data row, first column)`` of
+    every table written (the builder's list of engine cells is made from it).
 
     Raises
     ------
@@ -314,6 +317,9 @@ def add_charts_sheet(wb: Any, result: Any, *, title: str = "Charts", index: int 
     pm1, pm2 = _write_table(ws, tables["period_marks"], p2 + 2, 1)
     ws.cell(pm2 + 1, 1, "* rule of thumb: common practice, no source").font = Font(italic=True)
     dm1, dm2 = _write_table(ws, tables["damping_marks"], d2 + 2, 9)
+    if positions is not None:
+        positions.update({"period": (p1, 1), "response": (r1, 5), "damping": (d1, 9),
+                          "period_marks": (pm1, 1), "damping_marks": (dm1, 9)})
     ws.row_dimensions[top + 1].height = 45
     ws.row_breaks.append(Break(id=top - 1))      # charts on the first page, tables after
 

@@ -7,6 +7,8 @@ Commands::
     swaytune build CASES.csv [-o OUT_DIR]           one workbook per row
     swaytune examples [--dir DIR] [--force]         build every example project next to it
     swaytune pdf WORKBOOK.xlsx [-o OUT_DIR]          export to PDF through LibreOffice
+    swaytune recalc PATH... (-o OUTDIR | --in-place) [--jobs N] [--summary BASE] ...
+                                                    recalculate workbooks with the engine
 
 An existing output file is replaced only when swaytune made it and it was not changed since (or
 with ``--force``); writes are atomic. Every command ends with the cautions.
@@ -21,13 +23,14 @@ from typing import Sequence
 
 from . import __version__
 
-__all__ = ["main", "summary_table", "EXAMPLES_DIR"]
+__all__ = ["main", "summary_table", "print_cautions", "EXAMPLES_DIR"]
 
 #: Example projects of the source tree (``swaytune examples``).
 EXAMPLES_DIR = Path(__file__).resolve().parent.parent / "example_workbooks"
 
 
-def _print_cautions(stream=None) -> None:
+def print_cautions(stream=None) -> None:
+    """Print the cautions that end every command's output (``stream`` default stdout)."""
     from .build import CAUTIONS
     stream = stream or sys.stdout
     print("\nCAUTION - preliminary design aid:", file=stream)
@@ -173,11 +176,22 @@ def _parser() -> argparse.ArgumentParser:
     p.add_argument("workbook")
     p.add_argument("-o", "--output", help="output directory (default: next to the workbook)")
     p.set_defaults(func=_cmd_pdf)
+
+    from .recalc import RECALC_DESCRIPTION, add_recalc_arguments, run_recalc
+    r = sub.add_parser("recalc", help="recalculate workbooks (files, folders) with the engine "
+                                      "into -o OUTDIR or --in-place; writes a summary",
+                       description=RECALC_DESCRIPTION)
+    add_recalc_arguments(r)
+    r.set_defaults(func=run_recalc)
     return parser
 
 
 def main(argv: Sequence[str] | None = None) -> int:
-    """Run the command line; return the exit status (0 success, 1 error, 2 usage)."""
+    """Run the command line; return the exit status.
+
+    0 success; 1 error (for ``recalc``: a workbook failed or a check is NOT OK); 2 usage;
+    130 ``recalc`` interrupted (Ctrl-C).
+    """
     args = _parser().parse_args(argv)
     from .atomic import OverwriteRefused
     from .project import ProjectError
@@ -185,9 +199,9 @@ def main(argv: Sequence[str] | None = None) -> int:
         status = args.func(args)
     except (ProjectError, OverwriteRefused, ValueError, FileNotFoundError) as exc:
         print(f"error: {exc}", file=sys.stderr)
-        _print_cautions(sys.stderr)
+        print_cautions(sys.stderr)
         return 1
-    _print_cautions()
+    print_cautions()
     return status
 
 

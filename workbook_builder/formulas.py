@@ -497,14 +497,19 @@ class Evaluator:
     sheets : collection of str, optional
         Only formulas on these sheets are evaluated by :meth:`values`; references to other
         sheets still read their cells.
+    parse_cache : dict, optional
+        Formula text -> syntax tree, shared between evaluators (e.g. over a batch of
+        workbooks that hold the same formulas); filled as formulas are parsed. Parsing depends
+        on the text only, so sharing never changes a value. Default: a cache of this
+        evaluator's own.
     """
 
-    def __init__(self, workbook, sheets=None):
+    def __init__(self, workbook, sheets=None, *, parse_cache: dict[str, Any] | None = None):
         self.wb = workbook
         self.sheets = list(sheets) if sheets is not None else list(workbook.sheetnames)
         self._cache: dict[tuple[str, int, int], Any] = {}
         self._busy: set[tuple[str, int, int]] = set()
-        self._parsed: dict[str, Any] = {}
+        self._parsed: dict[str, Any] = {} if parse_cache is None else parse_cache
         self._names: dict[str, tuple] = {}
         for name, dn in workbook.defined_names.items():
             dests = list(dn.destinations)

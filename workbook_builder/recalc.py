@@ -10,8 +10,14 @@ writes an updated workbook:
 * every formula cell of swaytune's sheets gets a fresh cached value, computed from the formula
   text in the file (so a viewer that does not recalculate shows what the formula computes);
 * engine-only values (results without a closed form, the input snapshots beside them, the engine
-  column of the cross-checks, the chart tables and chart data caches) are refreshed;
+  column of the cross-checks, the chart tables and chart data caches) are refreshed, in the
+  cells the builder lists (:func:`workbook_builder.build.engine_cells`);
 * everything else in the package (styles, charts, a firm's own sheets) is copied unchanged.
+
+The time-domain simulation of the Nonlinear sheet is not rerun (its table sizes depend on its
+result): once the inputs change, its flag says so and the workbook is reported NOT OK with
+"REBUILD NEEDED" (``swaytune build`` from the project file; the [simulation] settings are
+stored in the workbook, so the builder's layout is still compared as text).
 
 The output goes to OUTDIR, or replaces the original only with ``--in-place``, which keeps a
 backup and writes atomically (temporary file in the same folder, then :func:`os.replace`). A
@@ -24,17 +30,20 @@ same layout (:func:`workbook_builder.build.build_workbook`), and every result's 
 with the engine's. The batch writes a summary workbook and CSV (one row per workbook: key
 inputs and results, every check verdict, what changed since the last calculation, issues).
 
-The package is read with the standard library's zip reader and ``defusedxml`` (entity
-expansion, external entities and DTDs refused), with limits on member sizes. Untrusted files
-are never opened with a parser that resolves entities; :func:`assert_defusedxml` checks that
-openpyxl itself runs with defusedxml.
+The package is read and written by :mod:`workbook_builder.xlsx_package` (standard library zip
+reader and XML parser; DTDs and entity declarations refused, limits on member sizes; untrusted
+files are never opened with a parser that resolves entities; :func:`assert_defusedxml` checks
+that openpyxl itself runs with defusedxml). The builder's layout and the comparison of formulas
+are in :mod:`workbook_builder.recalc_layout`, the batch summary in
+:mod:`workbook_builder.recalc_summary`. A workbook's format mark (``SWAYTUNE_FORMAT``,
+:data:`workbook_builder.build.FORMAT_VERSION`) newer than the builder's is refused, an older
+one (or none: format 1) is reported.
 
 Preliminary design aid: results must be checked by a licensed engineer against local codes,
 wind-tunnel data and the manufacturer's design.
 """
 from __future__ import annotations
 
-import csv
 import datetime as _dt
 import hashlib
 import math
@@ -44,13 +53,17 @@ import shutil
 import signal
 import sys
 import time
-import zipfile
-import zlib
 from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Any, Iterable, Mapping, Sequence
 
+from openpyxl.utils import get_column_letter
+
 from . import __version__
+from .build import FORMAT_NAME
+from .recalc_summary import SUMMARY_STEM, print_report, summary_row, write_summary
+from .xlsx_package import Book, Cell, PackageError, Sheet, open_package, split_coord, \
+    write_package
 
 __all__ = [
     "RecalcError", "Issue", "RecalcResult", "BatchSummary", "WorkbookData",
@@ -59,30 +72,13 @@ __all__ = [
     "SUMMARY_STEM",
 ]
 
-#: Defined name holding the workbook's format number (an integer, raised by the builder whenever
-#: the layout or a formula changes). A workbook with a higher number, or made by a newer swaytune
-#: when no format mark is present, is refused rather than misread.
-FORMAT_NAME = "SWAYTUNE_FORMAT"
-
 
 def _current_format() -> int:
-    """Format number the builder writes now (``build.FORMAT_VERSION``; 1 until it has one)."""
+    """Format number the builder writes now (:data:`workbook_builder.build.FORMAT_VERSION`)."""
     from . import build
-    return int(getattr(build, "FORMAT_VERSION", 1))
+    return int(build.FORMAT_VERSION)
 
 
-#: File stem of the batch summary (``recalc_summary.xlsx`` and ``.csv``); folder scans skip it.
-SUMMARY_STEM = "recalc_summary"
-
-#: Largest uncompressed size of one package member and of the whole package [bytes].
-MAX_MEMBER_BYTES = 64 * 1024 * 1024
-MAX_PACKAGE_BYTES = 256 * 1024 * 1024
-#: Largest compression ratio accepted for a member larger than 1 MB (zip bombs) [-].
-MAX_RATIO = 200.0
-
-_OLE_MAGIC = b"\xd0\xcf\x11\xe0\xa1\xb1\x1a\xe1"
-_NS_REL_DOC = "http://schemas.openxmlformats.org/officeDocument/2006/relationships"
-_REL_PKG = "http://schemas.openxmlformats.org/package/2006/relationships"
 #: Relative tolerance below which a value counts as unchanged since the last calculation [-].
 CHANGE_TOLERANCE = 1e-12
 
@@ -197,400 +193,15 @@ class BatchSummary:
 
     def table(self) -> list[dict[str, Any]]:
         """One flat row per workbook (the CSV rows), for a notebook or a DataFrame."""
-        return [_summary_row(r) for r in self.results]
+        return [summary_row(r) for r in self.results]
 
 
-# =============================================================================== package
-class _Cell:
-    """A cell read from the package (duck-types the openpyxl cell the evaluator reads)."""
-
-    __slots__ = ("row", "column", "value", "data_type", "cached", "cached_type")
-
-    def __init__(self, row: int, column: int, value: Any, data_type: str,
-                 cached: Any = None, cached_type: str = "n"):
-        self.row = row
-        self.column = column
-        self.value = value
-        self.data_type = data_type
-        self.cached = cached
-        self.cached_type = cached_type
-
-    @property
-    def coordinate(self) -> str:
-        return f"{_col_letter(self.column)}{self.row}"
-
-    @property
-    def formula(self) -> str | None:
-        return self.value if self.data_type == "f" else None
-
-
-class _Sheet:
-    def __init__(self, title: str):
-        self.title = title
-        self.cells: dict[tuple[int, int], _Cell] = {}
-
-    def cell(self, row: int, column: int) -> _Cell:
-        c = self.cells.get((row, column))
-        if c is None:
-            c = _Cell(row, column, None, "n")
-        return c
-
-    def iter_rows(self):
-        rows: dict[int, list[_Cell]] = {}
-        for (r, _c), cell in sorted(self.cells.items()):
-            rows.setdefault(r, []).append(cell)
-        for r in sorted(rows):
-            yield rows[r]
-
-    def get(self, coord: str) -> _Cell:
-        r, c = _split_coord(coord)
-        return self.cell(r, c)
-
-
-class _DefinedName:
-    def __init__(self, name: str, text: str, local: bool, hidden: bool):
-        self.name = name
-        self.attr_text = text
-        self.local = local
-        self.hidden = hidden
-
-    @property
-    def destinations(self):
-        m = _SINGLE_REF_RE.fullmatch(self.attr_text.strip())
-        if not m:
-            return iter(())
-        sheet = m.group("sheet")
-        if sheet.startswith("'"):
-            sheet = sheet[1:-1].replace("''", "'")
-        return iter([(sheet, m.group("ref"))])
-
-
-_SINGLE_REF_RE = re.compile(
-    r"(?P<sheet>'(?:[^']|'')+'|[A-Za-z_][A-Za-z0-9_. ]*)!(?P<ref>\$?[A-Za-z]{1,3}\$?\d+"
-    r"(?::\$?[A-Za-z]{1,3}\$?\d+)?)")
-
-
-class _Names(dict):
-    """Workbook-scoped defined names (``items()`` as openpyxl's DefinedNameDict)."""
-
-
-class _Book:
-    """The parts of a workbook package the recalculation reads (duck-types openpyxl's)."""
-
-    def __init__(self):
-        self.members: list[tuple[zipfile.ZipInfo, bytes]] = []
-        self.sheets: dict[str, _Sheet] = {}
-        self.sheet_parts: dict[str, str] = {}
-        self.defined_names = _Names()
-        self.local_names: dict[str, str] = {}
-        self.custom_props: dict[str, str] = {}
-
-    @property
-    def sheetnames(self) -> dict[str, _Sheet]:
-        return self.sheets          # supports `in` and iteration in sheet order, no copy
-
-    def __getitem__(self, title: str) -> _Sheet:
-        return self.sheets[title]
-
-    def __contains__(self, title: str) -> bool:
-        return title in self.sheets
-
-    def name_cell(self, name: str) -> tuple[str, str] | None:
-        dn = self.defined_names.get(name)
-        if dn is None:
-            return None
-        dests = list(dn.destinations)
-        if len(dests) != 1:
-            return None
-        sheet, ref = dests[0]
-        ref = ref.replace("$", "").split(":")[0].upper()
-        if sheet not in self.sheets:
-            return None
-        return sheet, ref
-
-    def named(self, name: str) -> _Cell | None:
-        loc = self.name_cell(name)
-        return None if loc is None else self.sheets[loc[0]].get(loc[1])
-
-
-def _col_letter(n: int) -> str:
-    s = ""
-    while n:
-        n, r = divmod(n - 1, 26)
-        s = chr(65 + r) + s
-    return s
-
-
-def _col_index(letters: str) -> int:
-    n = 0
-    for ch in letters.upper():
-        n = n * 26 + ord(ch) - 64
-    return n
-
-
-_COORD_RE = re.compile(r"\$?([A-Za-z]{1,3})\$?(\d+)")
-
-
-_COORD_CACHE: dict[str, tuple[int, int]] = {}
-
-
-def _split_coord(coord: str) -> tuple[int, int]:
-    hit = _COORD_CACHE.get(coord)
-    if hit is not None:
-        return hit
-    m = _COORD_RE.fullmatch(coord)
-    if not m:
-        raise RecalcError(f"cell reference {coord!r} is not valid")
-    out = _COORD_CACHE[coord] = (int(m.group(2)), _col_index(m.group(1)))
-    return out
-
-
-def _local(tag: str) -> str:
-    return tag.rsplit("}", 1)[-1]
-
-
-def _parse_xml(data: bytes, part: str):
-    """Parse one package part; refuse DTDs (hence every entity declaration) outright.
-
-    A workbook part never needs a document type declaration. Without one there can be no
-    entity declarations (no "billion laughs", no external entities), so after this check the
-    fast C parser of the standard library is safe; the refusal is stricter than defusedxml's
-    default, which allows a DTD without entities.
-    """
-    from xml.etree.ElementTree import ParseError, fromstring
-    if data[:2] in (b"\xff\xfe", b"\xfe\xff") or data[:4] in (b"\x00\x00\xfe\xff",
-                                                              b"\xff\xfe\x00\x00"):
-        raise RecalcError(f"refused: part {part} is not UTF-8 encoded XML")
-    if b"<!DOCTYPE" in data or b"<!ENTITY" in data:
-        raise RecalcError(f"refused: part {part} holds a DTD or XML entity declarations; a "
-                          "workbook never needs them (possible entity-expansion attack)")
+def _open_package(path: Path) -> Book:
+    """:func:`workbook_builder.xlsx_package.open_package`, its errors as RecalcError."""
     try:
-        return fromstring(data)
-    except ParseError as exc:
-        raise RecalcError(f"corrupted workbook: part {part} is not well-formed XML ({exc})") \
-            from None
-
-
-def _open_package(path: Path) -> _Book:
-    """Read a .xlsx package safely; raise RecalcError with a clear reason otherwise."""
-    try:
-        with open(path, "rb") as fh:
-            head = fh.read(8)
-    except IsADirectoryError:
-        raise RecalcError("is a directory, not a workbook") from None
-    except FileNotFoundError:
-        raise RecalcError("file not found") from None
-    except OSError as exc:
-        raise RecalcError(f"cannot be read: {exc.strerror or exc}") from None
-    if not head:
-        raise RecalcError("empty file (0 bytes): not a workbook")
-    if head == _OLE_MAGIC:
-        raise RecalcError("password-protected (encrypted) workbook or legacy .xls file (OLE "
-                          "compound document): swaytune cannot read it; save a copy without a "
-                          "password as .xlsx")
-    if not head.startswith(b"PK"):
-        raise RecalcError("not a workbook: the file is not an .xlsx package (zip)")
-    book = _Book()
-    try:
-        with zipfile.ZipFile(path) as zf:
-            infos = zf.infolist()
-            total = 0
-            for info in infos:
-                if info.flag_bits & 0x1:
-                    raise RecalcError("encrypted zip member: not a workbook swaytune can read")
-                if info.file_size > MAX_MEMBER_BYTES or (
-                        info.file_size > 1_000_000
-                        and info.file_size > MAX_RATIO * max(info.compress_size, 1)):
-                    raise RecalcError(f"refused: package member {info.filename} is "
-                                      f"{info.file_size} bytes uncompressed (limit "
-                                      f"{MAX_MEMBER_BYTES}, ratio {MAX_RATIO:g})")
-                total += info.file_size
-            if total > MAX_PACKAGE_BYTES:
-                raise RecalcError(f"refused: package is {total} bytes uncompressed (limit "
-                                  f"{MAX_PACKAGE_BYTES})")
-            names = {i.filename for i in infos}
-            if "xl/workbook.xml" not in names:
-                raise RecalcError("not an Excel workbook: the package has no xl/workbook.xml")
-            for info in infos:
-                book.members.append((info, zf.read(info)))
-    except RecalcError:
-        raise
-    except zipfile.BadZipFile as exc:
-        raise RecalcError(f"corrupted or truncated workbook: not a valid zip package ({exc})") \
-            from None
-    except (EOFError, zlib.error, UnicodeDecodeError, NotImplementedError, ValueError,
-            OverflowError) as exc:
-        raise RecalcError(f"corrupted or truncated workbook: the zip package cannot be read "
-                          f"({type(exc).__name__}: {exc})") from None
-    data = {info.filename: raw for info, raw in book.members}
-    _read_workbook_part(book, data)
-    strings = _read_shared_strings(data)
-    for title, part in book.sheet_parts.items():
-        if part not in data:
-            raise RecalcError(f"corrupted workbook: sheet {title!r} part {part} is missing")
-        book.sheets[title] = _read_sheet(title, data[part], part, strings)
-    if "docProps/custom.xml" in data:
-        root = _parse_xml(data["docProps/custom.xml"], "docProps/custom.xml")
-        for prop in root:
-            name = prop.get("name")
-            texts = [child.text or "" for child in prop]
-            if name:
-                book.custom_props[name] = texts[0] if texts else ""
-    return book
-
-
-def _read_workbook_part(book: _Book, data: dict[str, bytes]) -> None:
-    import posixpath
-    root = _parse_xml(data["xl/workbook.xml"], "xl/workbook.xml")
-    rels_part = "xl/_rels/workbook.xml.rels"
-    if rels_part not in data:
-        raise RecalcError("corrupted workbook: xl/_rels/workbook.xml.rels is missing")
-    rels = _parse_xml(data[rels_part], rels_part)
-    targets = {r.get("Id"): r.get("Target") for r in rels if _local(r.tag) == "Relationship"}
-    order: list[str] = []
-    for el in root.iter():
-        tag = _local(el.tag)
-        if tag == "sheet":
-            rid = next((v for k, v in el.attrib.items() if _local(k) == "id"), None)
-            target = targets.get(rid)
-            if target is None:
-                continue
-            part = target.lstrip("/") if target.startswith("/") else posixpath.normpath(
-                posixpath.join("xl", target))
-            if "worksheets/" not in part:
-                continue            # chartsheets and the like carry no cells
-            book.sheet_parts[el.get("name")] = part
-            order.append(el.get("name"))
-        elif tag == "definedName":
-            name = el.get("name") or ""
-            text = el.text or ""
-            hidden = el.get("hidden") in ("1", "true")
-            if el.get("localSheetId") is not None:
-                book.local_names[name] = text
-                continue
-            book.defined_names[name] = _DefinedName(name, text, False, hidden)
-
-
-def _read_shared_strings(data: dict[str, bytes]) -> list[str]:
-    part = "xl/sharedStrings.xml"
-    if part not in data:
-        return []
-    root = _parse_xml(data[part], part)
-    out = []
-    for si in root:
-        if _local(si.tag) != "si":
-            continue
-        out.append(_text_of(si))
-    return out
-
-
-def _text_of(el) -> str:
-    """Text of a string item / inline string: every <t>, skipping phonetic runs (<rPh>)."""
-    parts = []
-    for child in el:
-        tag = _local(child.tag)
-        if tag == "t":
-            parts.append(child.text or "")
-        elif tag == "r":
-            for t in child:
-                if _local(t.tag) == "t":
-                    parts.append(t.text or "")
-    return "".join(parts)
-
-
-def _read_sheet(title: str, raw: bytes, part: str, strings: list[str]) -> _Sheet:
-    from openpyxl.formula.translate import Translator
-    root = _parse_xml(raw, part)
-    ns = root.tag[:root.tag.index("}") + 1] if root.tag.startswith("{") else ""
-    t_sheetdata, t_row, t_c, t_f, t_v, t_is = (ns + x for x in ("sheetData", "row", "c", "f",
-                                                                 "v", "is"))
-    sheet = _Sheet(title)
-    cells = sheet.cells
-    shared: dict[str, tuple[str, str]] = {}       # si -> (formula, origin coordinate)
-    pending_shared: list[tuple[_Cell, str, str]] = []
-    for sd in root.iter(t_sheetdata):
-        for row_el in sd.iter(t_row):
-            for c in row_el.iter(t_c):
-                ref = c.get("r")
-                if ref is None:
-                    raise RecalcError(f"corrupted workbook: a cell of sheet {title!r} has no "
-                                      "reference (r attribute)")
-                r, col = _split_coord(ref)
-                t = c.get("t", "n")
-                if t == "n" and len(c) == 1 and c[0].tag == t_v:
-                    vtext = c[0].text                # fast path: a plain number
-                    if vtext:
-                        try:
-                            x = float(vtext)
-                        except ValueError:
-                            pass
-                        else:
-                            cells[(r, col)] = _Cell(r, col, x, "n", x, t)
-                            continue
-                f_el = v_el = is_el = None
-                for child in c:
-                    tag = child.tag
-                    if tag == t_f:
-                        f_el = child
-                    elif tag == t_v:
-                        v_el = child
-                    elif tag == t_is:
-                        is_el = child
-                vtext = None if v_el is None else (v_el.text or "")
-                cached = _decode_value(t, vtext, is_el, strings, title, ref)
-                if f_el is not None:
-                    ftype = f_el.get("t", "normal")
-                    text = f_el.text or ""
-                    cell = _Cell(r, col, None, "f", cached, t)
-                    if ftype == "shared":
-                        si = f_el.get("si", "")
-                        if text:
-                            shared[si] = (text, ref)
-                            cell.value = "=" + text
-                        else:
-                            pending_shared.append((cell, si, ref))
-                    elif ftype == "dataTable":
-                        cell.value = "=#REF!"        # what-if tables are not supported
-                    else:
-                        cell.value = "=" + text
-                    cells[(r, col)] = cell
-                else:
-                    if cached is None:
-                        continue
-                    dtype = {"s": "s", "str": "s", "inlineStr": "s", "b": "b",
-                             "e": "e"}.get(t, "n")
-                    cells[(r, col)] = _Cell(r, col, cached, dtype, cached, t)
-    for cell, si, ref in pending_shared:
-        master = shared.get(si)
-        if master is None:
-            raise RecalcError(f"corrupted workbook: shared formula {si} of {title}!{ref} has "
-                              "no master cell")
-        cell.value = Translator("=" + master[0], origin=master[1]).translate_formula(ref)
-    return sheet
-
-
-def _decode_value(t: str, vtext: str | None, is_el, strings: list[str], title: str, ref: str):
-    if t == "inlineStr":
-        return None if is_el is None else _text_of(is_el)
-    if vtext is None:
-        return None
-    if t == "s":
-        try:
-            return strings[int(vtext)]
-        except (ValueError, IndexError):
-            raise RecalcError(f"corrupted workbook: {title}!{ref} points at shared string "
-                              f"{vtext!r}, which does not exist") from None
-    if t in ("str", "e", "d"):
-        return vtext
-    if not vtext.strip():
-        return None
-    if t == "b":
-        return vtext.strip() in ("1", "true")
-    try:
-        return float(vtext)
-    except ValueError:
-        raise RecalcError(f"corrupted workbook: {title}!{ref} holds {vtext!r}, not a number") \
-            from None
+        return open_package(path)
+    except PackageError as exc:
+        raise RecalcError(str(exc)) from None
 
 
 # =============================================================================== reading
@@ -599,7 +210,7 @@ class WorkbookData:
     """What :func:`read_workbook` finds in a swaytune workbook."""
 
     path: Path
-    book: _Book
+    book: Book
     project: Any                       # workbook_builder.project.Project
     typed: dict[str, tuple[Any, str]]  # input name -> (value as typed, unit symbol)
     value_cells: dict[str, tuple[str, str]]   # input name -> (sheet, cell) of the typed value
@@ -610,7 +221,7 @@ class WorkbookData:
     @property
     def design_kwargs(self) -> dict[str, Any]:
         """Keyword arguments of ``functions.design.DesignInputs`` (SI; modal mass from floors)."""
-        from .build import _engine_modal_mass   # noqa: PLC0415 - the builder's own rule
+        from .engine import _engine_modal_mass   # noqa: PLC0415 - the builder's own rule
         return self.project.design_kwargs(_engine_modal_mass(self.project))
 
 
@@ -619,17 +230,19 @@ def _version_tuple(text: str) -> tuple[int, ...]:
     return tuple(int(n) for n in nums[:3]) if nums else (0,)
 
 
-def _workbook_format(book: _Book) -> int | None:
+def _workbook_format(book: Book) -> int | None:
+    """The workbook's format mark (:data:`workbook_builder.build.FORMAT_VERSION`), or None."""
     dn = book.defined_names.get(FORMAT_NAME)
     if dn is None:
         return None
     try:
         return int(float(dn.attr_text.strip().strip('"')))
     except ValueError:
-        return None
+        raise RecalcError(f"format mark {FORMAT_NAME}={dn.attr_text!r} is not a "
+                          "number") from None
 
 
-def _check_generator(book: _Book) -> str:
+def _check_generator(book: Book) -> str:
     from .atomic import MARKER_NAME, MARKER_PROPERTY
     text = book.custom_props.get(MARKER_PROPERTY, "")
     if not text:
@@ -639,13 +252,8 @@ def _check_generator(book: _Book) -> str:
     if not text.startswith("swaytune"):
         raise RecalcError("not a swaytune workbook (no swaytune marker): only workbooks made by "
                           "'swaytune build' can be recalculated")
-    fmt = book.defined_names.get(FORMAT_NAME)
-    if fmt is not None:
-        try:
-            number = int(float(fmt.attr_text.strip().strip('"')))
-        except ValueError:
-            raise RecalcError(f"format mark {FORMAT_NAME}={fmt.attr_text!r} is not a "
-                              "number") from None
+    number = _workbook_format(book)
+    if number is not None:
         current = _current_format()
         if number > current:
             raise RecalcError(f"workbook format {number} is newer than this swaytune "
@@ -658,7 +266,7 @@ def _check_generator(book: _Book) -> str:
     return text
 
 
-def _header_columns(sheet: _Sheet, wanted: Sequence[str]) -> tuple[int, dict[str, int]] | None:
+def _header_columns(sheet: Sheet, wanted: Sequence[str]) -> tuple[int, dict[str, int]] | None:
     """Find a row holding every header in ``wanted``; return (row, {header: column})."""
     rows: dict[int, dict[str, int]] = {}
     for (r, c), cell in sheet.cells.items():
@@ -670,7 +278,7 @@ def _header_columns(sheet: _Sheet, wanted: Sequence[str]) -> tuple[int, dict[str
     return None
 
 
-def _row_with_label(sheet: _Sheet, label: str, column: int = 1) -> int | None:
+def _row_with_label(sheet: Sheet, label: str, column: int = 1) -> int | None:
     for (r, c), cell in sorted(sheet.cells.items()):
         if c == column and cell.data_type == "s" and isinstance(cell.value, str) \
                 and cell.value.strip() == label:
@@ -678,7 +286,7 @@ def _row_with_label(sheet: _Sheet, label: str, column: int = 1) -> int | None:
     return None
 
 
-def _text(cell: _Cell) -> str:
+def _text(cell: Cell) -> str:
     v = cell.value
     if v is None:
         return ""
@@ -687,7 +295,7 @@ def _text(cell: _Cell) -> str:
     return str(v)
 
 
-def _number(book: _Book, cell: _Cell, sheet: str, what: str) -> float:
+def _number(book: Book, cell: Cell, sheet: str, what: str) -> float:
     """Numeric value of a typed cell (a constant, or a formula the user typed there)."""
     v = cell.value
     if cell.data_type == "f":
@@ -800,13 +408,13 @@ def read_workbook(path: str | os.PathLike, *, overrides: Mapping[str, float] | N
         if sheet != "Inputs":
             raise RecalcError(f"defined name {name} points at {sheet}!{coord}, not at the "
                               "Inputs sheet: the layout is damaged")
-        row, _ = _split_coord(coord)
+        row, _ = split_coord(coord)
         vcell = inputs_ws.cell(row, cols["Value"])
         unit_text = _text(inputs_ws.cell(row, cols["Unit"])).strip()
         try:
             unit = unit_for(spec.kind, unit_text)
         except ValueError as exc:
-            raise RecalcError(f"input {spec.name} (Inputs!{_col_letter(cols['Unit'])}{row}): "
+            raise RecalcError(f"input {spec.name} (Inputs!{get_column_letter(cols['Unit'])}{row}): "
                               f"{exc}") from None
         what = f"input {spec.name}"
         if spec.name in overrides:
@@ -884,7 +492,8 @@ def read_workbook(path: str | os.PathLike, *, overrides: Mapping[str, float] | N
     project = Project(source_name=source_name,
                       source_sha256=hashlib.sha256(path.name.encode()).hexdigest(), info=info,
                       units=system, paper="Letter" if system == "US" else "A4", inputs=inputs,
-                      tuning_method=method, floors=floors, case="")
+                      tuning_method=method, floors=floors, case="",
+                      simulation=_simulation_settings(book, issues))
 
     from .calcsheet import mass_ratio_mode
     mode = mass_ratio_mode(project)
@@ -900,7 +509,25 @@ def read_workbook(path: str | os.PathLike, *, overrides: Mapping[str, float] | N
     return WorkbookData(path, book, project, typed, value_cells, generator, template, issues)
 
 
-def _check_layout_method(book: _Book, method: str, mode: str) -> None:
+def _simulation_settings(book: Book, issues: list[Issue]):
+    """The [simulation] table stored by the builder (document property), or None."""
+    from .engine import SIMULATION_PROPERTY, read_simulation_settings
+    text = book.custom_props.get(SIMULATION_PROPERTY)
+    if text is None:
+        if "Nonlinear" in book.sheets:
+            issues.append(Issue("note", "Nonlinear", f"no {SIMULATION_PROPERTY} document "
+                                "property (a workbook of format 1): the Nonlinear sheet's "
+                                "settings are unknown, so its layout is not compared"))
+        return None
+    try:
+        return read_simulation_settings(text)
+    except ValueError as exc:
+        issues.append(Issue("note", SIMULATION_PROPERTY, f"cannot be read ({exc}); the "
+                            "Nonlinear sheet's layout is not compared"))
+        return None
+
+
+def _check_layout_method(book: Book, method: str, mode: str) -> None:
     """Refuse a tuning method whose layout differs from the file's (engine value vs formula)."""
     from .calcsheet import EngineValue, all_steps
     for item in all_steps(method, mode):
@@ -921,7 +548,7 @@ def _check_layout_method(book: _Book, method: str, mode: str) -> None:
 _BRACKET_UNIT_RE = re.compile(r"\[([^\]]+)\]\s*$")
 
 
-def _read_floors(book: _Book, ws: _Sheet):
+def _read_floors(book: Book, ws: Sheet):
     from functions.structure import MODE_SHAPE_EXPONENTS
     from .project import Floors
     from .units import unit_for
@@ -954,7 +581,7 @@ def _read_floors(book: _Book, ws: _Sheet):
 
     def typed_of(name: str) -> float:
         sheet, coord = book.name_cell(name)
-        row, _ = _split_coord(coord)
+        row, _ = split_coord(coord)
         return _number(book, book[sheet].cell(row, 3), sheet, name)
 
     h = typed_of("building_height")
@@ -979,7 +606,7 @@ def _read_floors(book: _Book, ws: _Sheet):
     return Floors(tuple(heights), tuple(masses), hu, mu, h, exponent, stype, level)
 
 
-def _header_columns_prefix(ws: _Sheet, label: str) -> int | None:
+def _header_columns_prefix(ws: Sheet, label: str) -> int | None:
     for (r, c), cell in sorted(ws.cells.items()):
         if c == 1 and cell.data_type == "s" and cell.value == label:
             nxt = ws.cell(r, 3)
@@ -988,7 +615,7 @@ def _header_columns_prefix(ws: _Sheet, label: str) -> int | None:
     return None
 
 
-def _row_with_label_prefix(ws: _Sheet, prefix: str) -> int | None:
+def _row_with_label_prefix(ws: Sheet, prefix: str) -> int | None:
     for (r, c), cell in sorted(ws.cells.items()):
         if c == 1 and cell.data_type == "s" and isinstance(cell.value, str) \
                 and cell.value.startswith(prefix):
@@ -1038,143 +665,58 @@ def read_inputs(path: str | os.PathLike) -> dict[str, Any]:
     return read_workbook(path).design_kwargs
 
 
+
 # =============================================================================== engine values
-def _engine_constants(data: WorkbookData, result) -> tuple[dict[tuple[str, str], float],
-                                                            list[Issue]]:
-    """New values of every engine-only constant cell: (sheet, cell) -> value."""
-    from .calcsheet import INPUT_NAMES, EngineValue, all_steps
+def _engine_constants(data: WorkbookData, result, layout) -> tuple[
+        dict[tuple[str, str], float], list[Issue]]:
+    """New values of the engine-only cells the builder lists (:func:`build.engine_cells`).
+
+    Values of the design chain (``engine``) and of the chart tables (``chart``) are
+    recomputed; the time-domain simulation of the Nonlinear sheet (``simulation``) is not
+    rerun, so those cells, and the snapshots its flag compares, keep their values. A cell
+    the builder fills with an engine value but that holds a formula in the file is reported
+    and kept; a cell whose row is laid out differently (other labels) or that holds text
+    fails the workbook, since the engine values cannot be located.
+    """
+    from .engine import engine_value
+    from .charts import chart_tables
     book = data.book
     out: dict[tuple[str, str], float] = {}
     issues: list[Issue] = []
-    by_defined = {v: k for k, v in INPUT_NAMES.items()}
-
-    def engine_value(name: str) -> float:
-        if hasattr(result, name):
-            return float(getattr(result, name))
-        spec_name = by_defined.get(name)
-        if spec_name == "modal_mass":
-            return float(result.inputs.modal_mass)
-        if spec_name is not None:
-            return float(data.project.si(spec_name))
-        raise RecalcError(f"no engine value for {name!r}")
-
-    steps = all_steps(data.project.tuning_method, _mode(data))
-    for item in steps:
-        if isinstance(item, EngineValue):
-            loc = book.name_cell(item.name)
-            cell = book[loc[0]].get(loc[1])
-            if cell.data_type == "f":
-                issues.append(Issue("formula_added", f"{loc[0]}!{loc[1]}",
-                                    f"engine value {item.name} was replaced by a formula; "
-                                    "kept as it is (not refreshed)", "engine value",
-                                    cell.value))
-                continue
-            out[loc] = engine_value(item.engine)
-
-    # Snapshots of the inputs of each refreshed engine value, read from its flag formula. Only
-    # the flag that follows a refreshed group of engine values is refreshed: a flag guarding
-    # values recalc does not recompute (the Nonlinear sheet's simulation) keeps its snapshots,
-    # so it says "INPUTS CHANGED" when they are stale, never "current".
-    flags = []
-    for name in book.defined_names:
-        if name.startswith("engine_flag_"):
-            loc = book.name_cell(name)
-            cell = book[loc[0]].get(loc[1]) if loc else None
-            if cell is not None and cell.data_type == "f":
-                flags.append((loc[0], _split_coord(loc[1])[0], name, cell))
-    refreshed_groups = []
-    group: list = []
-    for item in steps:
-        if isinstance(item, EngineValue) and group and item.depends_on == group[-1].depends_on:
-            group.append(item)
+    tables = None
+    for ec in layout.engine_cells:
+        if ec.kind == "simulation":
             continue
-        if group:
-            refreshed_groups.append(group)
-        group = [item] if isinstance(item, EngineValue) else []
-    if group:
-        refreshed_groups.append(group)
-    for grp in refreshed_groups:
-        last = book.name_cell(grp[-1].name)
-        if last is None or (last[0], last[1]) not in out:
-            continue                                  # not refreshed (a formula now)
-        last_row = _split_coord(last[1])[0]
-        after = sorted((row, name, cell) for sh, row, name, cell in flags
-                       if sh == last[0] and row > last_row)
-        if not after:
+        ws = book.sheets.get(ec.sheet)
+        where = f"{ec.sheet}!{ec.cell}"
+        if ws is None:
+            raise RecalcError(f"missing sheet {ec.sheet!r}, where the builder writes engine "
+                              "values: the layout is damaged (rebuild it from its project file)")
+        r, c = split_coord(ec.cell)
+        expected = layout.row_labels.get((ec.sheet, r), {})
+        if any(ws.cell(r, col).value != text for col, text in expected.items()):
+            raise RecalcError(f"{where}: row {r} of sheet {ec.sheet!r} is laid out differently "
+                              "from the builder's layout for these inputs (another swaytune "
+                              "version?), so its engine value cannot be located: rebuild the "
+                              "workbook from its project file")
+        cell = ws.cells.get((r, c))
+        if cell is not None and cell.data_type == "f":
+            issues.append(Issue("formula_added", where, "engine value replaced by a formula; "
+                                "kept as it is (not refreshed)", "engine value", cell.value))
             continue
-        _, fname, fcell = after[0]
-        deps = re.findall(r"ABS\(([A-Za-z_][A-Za-z0-9_.]*)-\$?([A-Z]{1,3})\$?(\d+)\)",
-                          fcell.value)
-        if tuple(d for d, _, _ in deps) != tuple(grp[0].depends_on):
-            issues.append(Issue("layout", f"{last[0]}!{fcell.coordinate} ({fname})",
-                                "the flag does not check the inputs its engine values depend "
-                                f"on ({', '.join(grp[0].depends_on)}); snapshots not refreshed"))
-            continue
-        for dep, col, row in deps:
-            snap = book[last[0]].cell(int(row), _col_index(col))
-            if snap.data_type == "f":
-                continue
-            out[(last[0], f"{col}{row}")] = engine_value(dep)
-
-    # Engine column of the cross-checks (Checks sheet).
-    checks = book.sheets.get("Checks")
-    engine_of = {item.name: item.engine for item in steps if item.engine}
-    label_of = {item.label: item.name for item in steps if item.engine}
-    if checks is not None:
-        head = _header_columns(checks, ("Quantity", "Workbook formula", "Engine value"))
-        if head is None:
-            raise RecalcError("the Checks sheet has no cross-check header (Quantity, Workbook "
-                              "formula, Engine value): the layout is damaged")
-        hrow, hc = head
-        r = hrow + 1
-        while True:
-            label = checks.cell(r, hc["Quantity"])
-            if not (isinstance(label.value, str) and label.value in label_of):
-                break
-            name = label_of[label.value]
-            ecell = checks.cell(r, hc["Engine value"])
-            if ecell.data_type == "f":
-                issues.append(Issue("formula_added", f"Checks!{ecell.coordinate}",
-                                    "engine value replaced by a formula; kept as it is",
-                                    "engine value", ecell.value))
-            else:
-                out[("Checks", ecell.coordinate)] = engine_value(engine_of[name])
-            r += 1
-
-    # Chart tables (engine values) on the Charts sheet.
-    charts = book.sheets.get("Charts")
-    if charts is not None:
-        from .charts import chart_tables
-        for table in chart_tables(result).values():
-            found = _find_table(charts, table.headers)
-            if found is None:
-                raise RecalcError(f"the Charts sheet has no table with headers "
-                                  f"{list(table.headers)}: its layout is damaged")
-            r0, c0 = found
-            n_old = 0
-            while charts.cell(r0 + 1 + n_old, c0 + 1).value is not None:
-                n_old += 1
-            if n_old != len(table.rows):
-                raise RecalcError(f"the chart table {table.title!r} needs {len(table.rows)} "
-                                  f"rows for these inputs, the workbook has {n_old}: rebuild "
-                                  "the workbook from its project file")
-            for i, values in enumerate(table.rows):
-                for j, v in enumerate(values):
-                    if isinstance(v, str):
-                        continue
-                    coord = f"{_col_letter(c0 + j)}{r0 + 1 + i}"
-                    if charts.get(coord).data_type == "f":
-                        continue
-                    out[("Charts", coord)] = float(v)
+        if cell is None or cell.data_type != "n":
+            shown = "empty" if cell is None else repr(cell.value)
+            raise RecalcError(f"{where} is {shown} where the builder writes an engine value: "
+                              "the layout differs (another swaytune version?); rebuild the "
+                              "workbook from its project file")
+        if ec.kind == "engine":
+            out[(ec.sheet, ec.cell)] = engine_value(data.project, result, ec.key)
+        else:
+            if tables is None:
+                tables = chart_tables(result)
+            key, i, j = ec.key
+            out[(ec.sheet, ec.cell)] = float(tables[key].rows[i][j])
     return out, issues
-
-
-def _find_table(ws: _Sheet, headers: Sequence[str]) -> tuple[int, int] | None:
-    for (r, c), cell in sorted(ws.cells.items()):
-        if cell.value == headers[0] and all(ws.cell(r, c + j).value == h
-                                            for j, h in enumerate(headers)):
-            return r, c
-    return None
 
 
 def _mode(data: WorkbookData) -> str:
@@ -1183,346 +725,34 @@ def _mode(data: WorkbookData) -> str:
 
 
 # =============================================================================== evaluation
-_PARSE_CACHE: dict[str, Any] = {}
-_CANON_CACHE: dict[tuple[str, str], Any] = {}
+#: Formula text -> syntax tree, shared by the evaluators of a batch (the same formulas in
+#: every workbook; see ``formulas.Evaluator(parse_cache=...)``).
+PARSE_CACHE: dict[str, Any] = {}
 
 
-def _evaluator(book: _Book, sheets: Sequence[str]):
-    from .formulas import Evaluator
-    ev = Evaluator(book, sheets=sheets)
-    # Share parsed formulas between workbooks (same formula texts in every workbook).
-    if isinstance(getattr(ev, "_parsed", None), dict):
-        ev._parsed = _PARSE_CACHE
-    return ev
+def clear_caches() -> None:
+    """Forget the parsed formulas and the builder's layouts (every batch then starts cold)."""
+    from .recalc_layout import clear_caches as clear_layouts
+    PARSE_CACHE.clear()
+    clear_layouts()
 
 
-def _our_sheets(book: _Book) -> list[str]:
+def _our_sheets(book: Book) -> list[str]:
     from .build import SHEETS
     return [s for s in book.sheetnames if s in SHEETS]
 
 
-def _canon(formula: str, sheet: str):
-    """Canonical syntax tree of a formula: names upper case, sheet of references explicit."""
-    key = (formula, sheet)
-    if key in _CANON_CACHE:
-        return _CANON_CACHE[key]
-    from .formulas import FormulaError, parse
-    try:
-        tree = _norm(parse(formula), sheet)
-    except FormulaError:
-        tree = ("text", formula.replace(" ", "").upper())
-    _CANON_CACHE[key] = tree
-    return tree
-
-
-def _norm(node, sheet):
-    kind = node[0]
-    if kind == "ref":
-        return ("ref", node[1] or sheet) + tuple(node[2:])
-    if kind == "name":
-        return ("name", node[1].upper())
-    if kind == "call":
-        return ("call", node[1], tuple(_norm(a, sheet) for a in node[2]))
-    if kind == "un":
-        return ("un", node[1], _norm(node[2], sheet))
-    if kind == "pct":
-        return ("pct", _norm(node[1], sheet))
-    if kind == "bin":
-        return ("bin", node[1], _norm(node[2], sheet), _norm(node[3], sheet))
-    return node
-
-
-# Reference layouts (formula text of every cell the builder writes), cached per layout key.
-_REFERENCE_CACHE: dict[tuple, dict[tuple[str, str], str | None]] = {}
-
-
-def _layout_key(data: WorkbookData) -> tuple:
-    p = data.project
-    fl = p.floors
-    floors = None if fl is None else (len(fl.heights), fl.height_unit.symbol,
-                                      fl.mass_unit.symbol, fl.damper_level)
-    return (__version__, p.tuning_method, _mode(data), p.units, floors,
-            bool(p.info.get("structure")), bool(p.info.get("client")), data.template)
-
-
-def _reference_formulas(data: WorkbookData, result) -> dict[tuple[str, str], Any] | None:
-    """The builder's layout for these inputs, cached per layout key.
-
-    Maps ``(sheet, cell)`` to the formula text (None for a constant) of every non-empty cell,
-    ``("", "names")`` to ``{name: (sheet, cell)}`` and ``("", "labels")`` to
-    ``{sheet: {cell: text}}`` (the text constants: the sheet's labels).
-    """
-    key = _layout_key(data)
-    if key in _REFERENCE_CACHE:
-        return _REFERENCE_CACHE[key]
-    from .build import BuildError, build_workbook
-    try:
-        built = build_workbook(data.project, result=result)
-    except (BuildError, ValueError):
-        return None
-    ref: dict[tuple[str, str], Any] = {}
-    names = {}
-    for name, dn in built.workbook.defined_names.items():
-        dests = list(dn.destinations)
-        if len(dests) == 1 and not name.startswith(("TB_", "SWAYTUNE")):
-            names[name] = (dests[0][0], dests[0][1].replace("$", ""))
-    labels: dict[str, dict[str, str]] = {}
-    for ws in built.workbook.worksheets:
-        if data.template and ws.title == "Summary":
-            continue
-        for row in ws.iter_rows():
-            for c in row:
-                if c.value is None:
-                    continue
-                ref[(ws.title, c.coordinate)] = c.value if c.data_type == "f" else None
-                if isinstance(c.value, str) and c.data_type == "s":
-                    labels.setdefault(ws.title, {})[c.coordinate] = c.value
-    ref[("", "names")] = names
-    ref[("", "labels")] = labels
-    _REFERENCE_CACHE[key] = ref
-    return ref
-
-
-def _comparable_sheets(data: WorkbookData, reference: Mapping) -> tuple[set[str], list[str]]:
-    """Sheets laid out as the builder lays them out now: same names, same labels (>= 90 %).
-
-    A workbook made with project options recalc does not read (a [simulation] table) or by
-    another builder version differs on some sheets only; those are not compared as text.
-    """
-    book = data.book
-    ref_names: dict[str, tuple[str, str]] = reference.get(("", "names"), {})
-    labels: dict[str, dict[str, str]] = reference.get(("", "labels"), {})
-    file_names = {}
-    for name in book.defined_names:
-        loc = book.name_cell(name)
-        if loc is not None and not name.startswith(("TB_", "SWAYTUNE")):
-            file_names[name] = loc
-    ok, skipped = set(), []
-    for sheet in {s for s, _ in reference if s}:
-        if sheet not in book.sheets:
-            continue
-        mine = {n: c for n, (sh, c) in file_names.items() if sh == sheet}
-        theirs = {n: c for n, (sh, c) in ref_names.items() if sh == sheet}
-        texts = labels.get(sheet, {})
-        same = sum(1 for coord, text in texts.items() if book[sheet].get(coord).value == text)
-        if mine == theirs and (not texts or same >= 0.9 * len(texts)):
-            ok.add(sheet)
-        else:
-            skipped.append(sheet)
-    return ok, sorted(skipped)
-
-
-def _formula_issues(data: WorkbookData, reference: Mapping[tuple[str, str], Any],
-                    typed_cells: set[tuple[str, str]]) -> list[Issue]:
-    issues = []
-    book = data.book
-    comparable, skipped = _comparable_sheets(data, reference)
-    if skipped:
-        issues.append(Issue("note", ", ".join(skipped), "laid out differently from the "
-                            "builder's layout for these inputs (another swaytune version, or "
-                            "project options recalc does not read such as [simulation]): "
-                            "formulas on these sheets were checked against the engine only, "
-                            "not compared as text"))
-    for (sheet, coord), expected in reference.items():
-        if sheet not in comparable:
-            continue
-        ws = book.sheets.get(sheet)
-        if ws is None:
-            continue
-        cell = ws.cells.get(_split_coord(coord))
-        if cell is not None and expected is not None and cell.value == expected:
-            continue                          # the same text: the common case, no parsing
-        if cell is None:
-            cell = _Cell(0, 0, None, "n")
-        where = f"{sheet}!{coord}"
-        if expected is None:
-            if cell.data_type == "f" and (sheet, coord) not in typed_cells:
-                issues.append(Issue("formula_added", where, "holds a formula where the builder "
-                                    "writes a value", "(value)", cell.value))
-            continue
-        if cell.data_type != "f":
-            issues.append(Issue("formula_replaced", where, f"the builder's formula "
-                                f"{expected} was replaced by the value {cell.value!r}",
-                                expected, repr(cell.value)))
-        elif _canon(cell.value, sheet) != _canon(expected, sheet):
-            issues.append(Issue("formula_edited", where, f"formula edited: the builder writes "
-                                f"{expected}, the workbook holds {cell.value}", expected,
-                                cell.value))
-    return issues
-
-
 # =============================================================================== writing
-_CELL_RE = re.compile(
-    r"<(?P<p>[A-Za-z_][\w.-]*:)?c\b(?P<attrs>[^>]*?)(?:/>|>(?P<body>.*?)</(?P=p)?c>)", re.S)
-_R_ATTR_RE = re.compile(r'\sr\s*=\s*["\']([A-Z]+[0-9]+)["\']')
-_T_ATTR_RE = re.compile(r'\st\s*=\s*("[^"]*"|\'[^\']*\')')
-
-
-_F_RE_CACHE: dict[str, re.Pattern] = {}
-_VIS_RE_CACHE: dict[str, re.Pattern] = {}
-_BAD_XML_CHARS = re.compile("[\x00-\x08\x0b\x0c\x0e-\x1f\ufffe\uffff]")
-
-
-def _xml_escape(text: str) -> str:
-    return (text.replace("&", "&amp;").replace("<", "&lt;").replace(">", "&gt;")
-            .replace("\r", "&#13;"))
-
-
-def _encode_cached(sheet: str, ref: str, value: Any) -> tuple[str | None, str]:
-    """(t attribute, <v> text) of a cached value; same encoding as workbook_builder.cached."""
-    from .cached import CellError
-    if isinstance(value, CellError):
-        return "e", _xml_escape(str(value))
-    if isinstance(value, bool):
-        return "b", "1" if value else "0"
-    if isinstance(value, str):
-        if _BAD_XML_CHARS.search(value) or len(value) > 32767:
-            raise RecalcError(f"{sheet}!{ref}: text result cannot be stored in a cell")
-        return "str", _xml_escape(value)
-    x = float(value)
-    if not math.isfinite(x):
-        raise RecalcError(f"{sheet}!{ref}: refusing to write {x!r}")
-    return None, repr(x)
-
-
-_CELL_NAME_RE = re.compile(r"(?:[A-Za-z_][\w.-]*:)?c")
-
-
-def _targeted_sub(xml: str, refs: set[str], repl) -> str | None:
-    """Apply ``repl`` to the cell elements of ``refs`` only, found by their ``r`` attribute.
-
-    Cost grows with the number of cells changed, not with the size of the sheet (a sheet of
-    thousands of constants with a few formulas). Returns None when a cell cannot be located
-    this way (the caller then scans every cell).
-    """
-    edits = []
-    pos = 0
-    # Cells are stored row by row, column by column: search forward in that order.
-    for ref in sorted(refs, key=lambda r: _split_coord(r)):
-        i = xml.find(f' r="{ref}"', pos)
-        if i < 0:
-            return None
-        start = xml.rfind("<", 0, i)
-        if start < 0 or not _CELL_NAME_RE.fullmatch(xml, start + 1, i):
-            return None
-        m = _CELL_RE.match(xml, start)
-        if m is None:
-            return None
-        edits.append((start, m.end(), m))
-        pos = m.end()
-    out, pos = [], 0
-    for start, end, m in edits:
-        if start < pos:
-            return None
-        out.append(xml[pos:start])
-        out.append(repl(m))
-        pos = end
-    out.append(xml[pos:])
-    return "".join(out)
-
-
-def _rewrite_cells(xml: str, constants: Mapping[str, float], cached: Mapping[str, Any],
-                   sheet: str) -> str:
-    """One pass over a worksheet part: new constant values and new cached values.
-
-    A constant is written only into a cell without a formula, a cached value only into a
-    formula cell; the formula text and every other attribute and element are kept.
-    """
-    pending_c = set(constants)
-    pending_f = set(cached)
-
-    def repl(m: re.Match) -> str:
-        attrs = m.group("attrs")
-        rm = _R_ATTR_RE.search(attrs)
-        if rm is None:
-            return m.group(0)
-        ref = rm.group(1)
-        in_c, in_f = ref in constants, ref in cached
-        if not (in_c or in_f):
-            return m.group(0)
-        body = m.group("body") or ""
-        p = m.group("p") or ""
-        f_re = _F_RE_CACHE.get(p)
-        if f_re is None:
-            f_re = _F_RE_CACHE[p] = re.compile(
-                rf"<{re.escape(p)}f\b[^>]*?(?:/>|>.*?</{re.escape(p)}f>)", re.S)
-            _VIS_RE_CACHE[p] = re.compile(
-                rf"<{re.escape(p)}(?:v|is)\b[^>]*?(?:/>|>.*?</{re.escape(p)}(?:v|is)>)", re.S)
-        fm = f_re.search(body)
-        new_attrs = _T_ATTR_RE.sub("", attrs)
-        if fm is None:
-            if not in_c:
-                return m.group(0)
-            pending_c.discard(ref)
-            x = float(constants[ref])
-            if not math.isfinite(x):
-                raise RecalcError(f"{sheet}!{ref}: refusing to write {x!r}")
-            return f"<{p}c{new_attrs}><{p}v>{x!r}</{p}v></{p}c>"
-        if not in_f:
-            return m.group(0)                  # never touch a formula's text
-        pending_f.discard(ref)
-        t, text = _encode_cached(sheet, ref, cached[ref])
-        if t is not None:
-            new_attrs += f' t="{t}"'
-        rest = _VIS_RE_CACHE[p].sub("", body[fm.end():])
-        return f"<{p}c{new_attrs}>{body[:fm.end()]}<{p}v>{text}</{p}v>{rest}</{p}c>"
-
-    new = _targeted_sub(xml, set(constants) | set(cached), repl)
-    if new is None:                            # unusual markup: scan every cell
-        pending_c, pending_f = set(constants), set(cached)
-        new = _CELL_RE.sub(repl, xml)
-    if pending_c:
-        raise RecalcError(f"constant cell(s) {sorted(pending_c)[:5]} of sheet {sheet!r} not "
-                          "found in the package (a formula cell, or written by another "
-                          "application?)")
-    if pending_f:
-        raise RecalcError(f"formula cell(s) {sorted(pending_f)[:5]} of sheet {sheet!r} not "
-                          "found in the package")
-    return new
-
-
-_NUMREF_RE = re.compile(
-    r"<(?P<p>[A-Za-z_][\w.-]*:)?numRef>\s*<(?P=p)?f>(?P<f>[^<]*)</(?P=p)?f>"
-    r"(?P<cache>\s*<(?P=p)?numCache>.*?</(?P=p)?numCache>)?\s*</(?P=p)?numRef>", re.S)
-_FORMAT_RE = re.compile(r"<(?:[A-Za-z_][\w.-]*:)?formatCode>([^<]*)</", re.S)
-
-
-def _refresh_chart_xml(xml: str, value_of) -> str:
-    """Rewrite the number caches of chart series from the cells they reference."""
-    import html
-
-    def repl(m: re.Match) -> str:
-        p = m.group("p") or ""
-        ref = html.unescape(m.group("f"))
-        values = value_of(ref)
-        if values is None:
-            return m.group(0)
-        fmt = "General"
-        if m.group("cache"):
-            fm = _FORMAT_RE.search(m.group("cache"))
-            if fm:
-                fmt = fm.group(1)
-        pts = "".join(f'<{p}pt idx="{i}"><{p}v>{float(v)!r}</{p}v></{p}pt>'
-                      for i, v in enumerate(values)
-                      if isinstance(v, (int, float)) and not isinstance(v, bool)
-                      and math.isfinite(v))
-        return (f"<{p}numRef><{p}f>{m.group('f')}</{p}f><{p}numCache><{p}formatCode>{fmt}"
-                f"</{p}formatCode><{p}ptCount val=\"{len(values)}\"/>{pts}</{p}numCache>"
-                f"</{p}numRef>")
-
-    return _NUMREF_RE.sub(repl, xml)
-
-
 def write_results(source: str | os.PathLike, dest: str | os.PathLike, *,
                   constants: Mapping[tuple[str, str], float] | None = None,
                   cached: Mapping[tuple[str, str], Any] | None = None,
-                  chart_values: Mapping[tuple[str, str], Any] | None = None,
-                  mode_from: str | os.PathLike | None = None) -> Path:
+                  chart_values: Mapping[tuple[str, str], Any] | None = None) -> Path:
     """Write an updated copy of a workbook: new constants, cached values, chart caches.
 
     Every other part of the package is copied unchanged (formulas included). The file is
     written next to ``dest`` and moved onto it atomically (:func:`os.replace`); on any error
-    ``dest`` is left as it was and no temporary file remains.
+    ``dest`` is left as it was and no temporary file remains. The output gets the permissions
+    of the file it replaces, or those of a new file (0644 under the usual umask 022).
 
     Parameters
     ----------
@@ -1539,8 +769,6 @@ def write_results(source: str | os.PathLike, dest: str | os.PathLike, *,
     chart_values : mapping, optional
         ``(sheet, "A5") -> value`` of the cells charts plot; their number caches are rebuilt
         from these [-].
-    mode_from : path-like, optional
-        File whose permission bits the output gets (default ``source``) [-].
 
     Returns
     -------
@@ -1553,54 +781,11 @@ def write_results(source: str | os.PathLike, dest: str | os.PathLike, *,
         When a cell to change does not exist (or is a formula cell for ``constants``, a
         value cell for ``cached``), or a value cannot be stored (NaN, inf).
     """
-    from .atomic import atomic_path
-    from .cached import sheet_parts
-
-    src = Path(source)
-    target = Path(dest)
-    by_sheet: dict[str, tuple[dict[str, float], dict[str, Any]]] = {}
-    for which, mapping in ((0, constants or {}), (1, cached or {})):
-        for (sheet, coord), v in mapping.items():
-            by_sheet.setdefault(sheet, ({}, {}))[which][coord.replace("$", "").upper()] = v
-    with zipfile.ZipFile(src) as zin:
-        members = [(info, zin.read(info)) for info in zin.infolist()]
-        parts = sheet_parts(zin)
-    unknown = set(by_sheet) - set(parts)
-    if unknown:
-        raise RecalcError(f"unknown sheet(s) {sorted(unknown)}")
-    part_sheet = {parts[s]: s for s in by_sheet}
-    chart_lookup = None
-    if chart_values:
-        def chart_lookup(ref: str):
-            sheet, _, rng = ref.rpartition("!")
-            sheet = sheet.strip("'").replace("''", "'")
-            m = re.fullmatch(r"\$?([A-Z]{1,3})\$?(\d+)(?::\$?([A-Z]{1,3})\$?(\d+))?", rng)
-            if not m:
-                return None
-            c1, r1 = _col_index(m.group(1)), int(m.group(2))
-            c2, r2 = (_col_index(m.group(3)), int(m.group(4))) if m.group(3) else (c1, r1)
-            keys = [(sheet, f"{_col_letter(c)}{r}") for r in range(r1, r2 + 1)
-                    for c in range(c1, c2 + 1)]
-            if not all(k in chart_values for k in keys):
-                return None
-            return [chart_values[k] for k in keys]
-    with atomic_path(target) as tmp:
-        with zipfile.ZipFile(tmp, "w") as zout:
-            for info, raw in members:
-                sheet = part_sheet.get(info.filename)
-                if sheet is not None:
-                    consts, values = by_sheet[sheet]
-                    raw = _rewrite_cells(raw.decode("utf-8"), consts, values, sheet) \
-                        .encode("utf-8")
-                elif chart_lookup is not None and info.filename.startswith("xl/charts/") \
-                        and info.filename.endswith(".xml"):
-                    raw = _refresh_chart_xml(raw.decode("utf-8"), chart_lookup).encode("utf-8")
-                zout.writestr(info, raw, compresslevel=1)   # fast; still deflate
-        try:
-            shutil.copymode(mode_from or src, tmp)
-        except OSError:
-            pass
-    return target
+    try:
+        return write_package(source, dest, constants=constants, cached=cached,
+                             chart_values=chart_values)
+    except PackageError as exc:
+        raise RecalcError(str(exc)) from None
 
 
 # =============================================================================== recalculation
@@ -1744,9 +929,9 @@ def _same_file(a: Path, b: Path) -> bool:
 
 def _recalc(res: RecalcResult, path: Path, dest: Path | None, in_place: bool, backup: bool,
             overrides, compare_layout: bool, force: bool) -> None:
-    from .build import run_engine
+    from .engine import run_engine
     from .calcsheet import CROSS_CHECK_TOLERANCE, all_steps, design_checks
-    from .formulas import FormulaError, is_error
+    from .formulas import Evaluator, FormulaError, is_error
 
     data = read_workbook(path, overrides=overrides)
     book = data.book
@@ -1784,18 +969,23 @@ def _recalc(res: RecalcResult, path: Path, dest: Path | None, in_place: bool, ba
                         raise RecalcError(f"input {spec_name} ({sheet}!{coord}) holds a "
                                           "formula; an override would replace it")
                     constants[(sheet, coord)] = new
-    engine_consts, engine_issues = _engine_constants(data, result)
+    from .recalc_layout import formula_issues, reference_layout
+    layout = reference_layout(data, result)
+    if layout is None:
+        raise RecalcError("the builder cannot lay out a workbook for these inputs, so the "
+                          "engine values of this one cannot be located; check the inputs")
+    engine_consts, engine_issues = _engine_constants(data, result, layout)
     res.issues.extend(engine_issues)
     constants.update(engine_consts)
     for (sheet, coord), v in constants.items():
-        r, c = _split_coord(coord)
+        r, c = split_coord(coord)
         old = book[sheet].cells.get((r, c))
-        book[sheet].cells[(r, c)] = _Cell(r, c, float(v), "n", float(v),
+        book[sheet].cells[(r, c)] = Cell(r, c, float(v), "n", float(v),
                                           old.cached_type if old else "n")
 
     # Evaluate every formula of swaytune's sheets, as written in the file.
     sheets = _our_sheets(book)
-    ev = _evaluator(book, sheets)
+    ev = Evaluator(book, sheets=sheets, parse_cache=PARSE_CACHE)
     try:
         values = ev.values()
     except (FormulaError, RecursionError) as exc:
@@ -1910,30 +1100,30 @@ def _recalc(res: RecalcResult, path: Path, dest: Path | None, in_place: bool, ba
         if not current:
             loc = named[n]
             res.issues.append(Issue("stale_engine_value", f"{loc[0]}!{loc[1]} ({n})",
-                                    "engine values that recalc does not recompute (e.g. the "
-                                    "Nonlinear sheet's time-domain simulation) were computed "
-                                    "for other inputs: rebuild the workbook from its project "
-                                    "file", "current", str(res.results[n])))
+                                    "REBUILD NEEDED: engine values that recalc does not "
+                                    "recompute were computed for other inputs (the Nonlinear "
+                                    "sheet's time-domain simulation: recalc does not rerun it, "
+                                    "its layout depends on the result); rebuild the workbook "
+                                    "from its project file (swaytune build)", "current",
+                                    str(res.results[n])))
     if any(i.kind == "engine_mismatch" for i in res.issues) and \
             ("Workbook formulas agree with the engine", "OK") in res.checks:
         res.checks.append(("Every result formula agrees with the engine", "NOT OK"))
 
+    # Format: an older layout is reported (a newer one was refused when reading).
+    fmt = _workbook_format(book)
+    if fmt is None or fmt < _current_format():
+        shown = "has no format mark (format 1)" if fmt is None else f"has format {fmt}"
+        res.issues.append(Issue("note", "format", f"the workbook {shown}, older than the "
+                                f"current builder's format {_current_format()}: formula "
+                                "differences reported below may come from the builder, not "
+                                "from a hand edit; rebuild from the project file to update "
+                                "the layout", str(_current_format()), str(fmt or 1)))
+
     # Hand edits: every formula against the builder's for the same layout.
     if compare_layout:
-        fmt = _workbook_format(book)
-        if fmt is not None and fmt < _current_format():
-            res.issues.append(Issue("note", "format", f"workbook format {fmt} is older than "
-                                    f"the current builder's ({_current_format()}): formula "
-                                    "differences below may come from the builder, not from a "
-                                    "hand edit; rebuild from the project file to update the "
-                                    "layout"))
-        reference = _reference_formulas(data, result)
-        if reference is None:
-            res.issues.append(Issue("note", "layout", "the builder's layout could not be "
-                                    "made for these inputs; formulas were not compared"))
-        else:
-            typed_cells = set(data.value_cells.values())
-            res.issues.extend(_formula_issues(data, reference, typed_cells))
+        typed_cells = set(data.value_cells.values())
+        res.issues.extend(formula_issues(data, layout, typed_cells))
 
     # Write.
     if dest is None:
@@ -1950,8 +1140,9 @@ def _recalc(res: RecalcResult, path: Path, dest: Path | None, in_place: bool, ba
         shutil.copy2(path, bpath)
         res.backup = bpath
     write_results(path, dest, constants=constants, cached=cached,
-                  chart_values=chart_values or None, mode_from=path)
+                  chart_values=chart_values or None)
     res.output = dest
+
 
 
 # =============================================================================== batches
@@ -2151,194 +1342,10 @@ def _tasks_path(tasks, i: int) -> Path:
     return Path("?")
 
 
-# =============================================================================== summary
-_KEY_INPUTS = ("frequency", "modal_mass", "structural_damping", "acceleration",
-               "acceleration_limit", "clearance", "tuning_method")
-_KEY_RESULTS = ("required_damping", "mass_ratio", "damper_mass", "damper_frequency",
-                "damper_damping", "effective_damping", "acceleration_with_damper", "stroke",
-                "pendulum_length", "swing_angle_deg", "detuning")
-_UNITS = {"frequency": "Hz", "modal_mass": "kg", "structural_damping": "-",
-          "acceleration": "m/s^2", "acceleration_limit": "m/s^2", "clearance": "m",
-          "tuning_method": "", "required_damping": "-", "mass_ratio": "-", "damper_mass": "kg",
-          "damper_frequency": "Hz", "damper_damping": "-", "effective_damping": "-",
-          "acceleration_with_damper": "m/s^2", "stroke": "m", "pendulum_length": "m",
-          "swing_angle_deg": "deg", "detuning": "-"}
-
-
-def _fmt_value(v: Any) -> str:
-    if v is None:
-        return "(none)"
-    if isinstance(v, float):
-        return f"{v:.10g}"
-    return str(v)
-
-
-def _check_columns() -> list[str]:
-    from .calcsheet import design_checks
-    return [c.label for c in design_checks()] + [
-        "Workbook formulas agree with the engine", "Pendulum fixed point converged",
-        "Engine values current"]
-
-
-def _summary_row(r: RecalcResult) -> dict[str, Any]:
-    row: dict[str, Any] = {"workbook": str(r.path), "status": r.status,
-                           "reason": r.error or "",
-                           "output": "" if r.output is None else str(r.output)}
-    for k in _KEY_INPUTS:
-        row[f"{k} [{_UNITS[k]}]" if _UNITS[k] else k] = r.inputs.get(k, "")
-    for k in _KEY_RESULTS:
-        row[f"{k} [{_UNITS[k]}]"] = r.results.get(k, "")
-    verdicts = dict(r.checks)
-    for label in _check_columns():
-        if label == "Engine values current":
-            flags = [v for k, v in r.checks if k.startswith("Engine value current")]
-            row[label] = "" if r.failed else ("OK" if all(v == "OK" for v in flags) else
-                                              "NOT OK")
-        else:
-            row[label] = verdicts.get(label, "")
-    row["changes"] = "; ".join(f"{n}: {_fmt_value(o)} -> {_fmt_value(v)}"
-                               for n, o, v in r.changes)
-    row["issues"] = "; ".join(str(i) for i in r.issues)
-    row["seconds"] = round(r.seconds, 4)
-    return row
-
-
-def _csv_safe(v: Any) -> Any:
-    """Text that a spreadsheet would read as a formula gets a leading apostrophe."""
-    if isinstance(v, str) and v[:1] in ("=", "+", "-", "@", "\t", "\r"):
-        return "'" + v
-    return v
-
-
-def write_summary(batch: BatchSummary, base: str | os.PathLike) -> tuple[Path, Path]:
-    """Write the batch summary as ``base.xlsx`` and ``base.csv``; return both paths.
-
-    The workbook has a sheet per view: Workbooks (one row each: status, reason, key inputs and
-    results, every check verdict, changes, issues), Changes (old and new value of every named
-    cell that changed), Issues, Cautions. Every text is written as text, never as a formula.
-    """
-    from openpyxl import Workbook
-    from openpyxl.styles import Font, PatternFill
-
-    from .atomic import atomic_path
-    from .build import CAUTIONS
-
-    base = Path(base)
-    base.parent.mkdir(parents=True, exist_ok=True)
-    rows = batch.table()
-    headers = list(rows[0]) if rows else list(_summary_row(RecalcResult(Path("-"))))
-    csv_path = base.with_name(base.name + ".csv")
-    xlsx_path = base.with_name(base.name + ".xlsx")
-    with atomic_path(csv_path) as tmp:
-        with open(tmp, "w", newline="", encoding="utf-8") as fh:
-            w = csv.writer(fh)
-            w.writerow(headers)
-            for row in rows:
-                w.writerow([_csv_safe(row.get(h, "")) for h in headers])
-
-    wb = Workbook()
-    ws = wb.active
-    ws.title = "Workbooks"
-    bold = Font(bold=True)
-    bad = PatternFill("solid", fgColor="FFC7CE")
-    good = PatternFill("solid", fgColor="C6EFCE")
-
-    def put(sheet, r, c, v):
-        cell = sheet.cell(r, c)
-        if isinstance(v, str):
-            cell.value = v
-            cell.data_type = "s"
-        elif isinstance(v, float) and not math.isfinite(v):
-            cell.value = str(v)
-            cell.data_type = "s"
-        else:
-            cell.value = v
-        return cell
-
-    for j, h in enumerate(headers, start=1):
-        put(ws, 1, j, h).font = bold
-    for i, row in enumerate(rows, start=2):
-        for j, h in enumerate(headers, start=1):
-            c = put(ws, i, j, row.get(h, ""))
-            if row.get(h) in ("OK", "NOT OK", "FAILED"):
-                c.fill = good if row[h] == "OK" else bad
-    ws.freeze_panes = "B2"
-    ch = wb.create_sheet("Changes")
-    for j, h in enumerate(("workbook", "quantity (defined name)", "old value", "new value"), 1):
-        put(ch, 1, j, h).font = bold
-    r = 2
-    for res in batch.results:
-        for name, old, new in res.changes:
-            for j, v in enumerate((str(res.path), name, "(none)" if old is None else old,
-                                   new), 1):
-                put(ch, r, j, v)
-            r += 1
-    iss = wb.create_sheet("Issues")
-    for j, h in enumerate(("workbook", "kind", "where", "message", "builder / engine",
-                           "workbook"), 1):
-        put(iss, 1, j, h).font = bold
-    r = 2
-    for res in batch.results:
-        if res.failed:
-            for j, v in enumerate((str(res.path), "FAILED", "", res.error, "", ""), 1):
-                put(iss, r, j, v)
-            r += 1
-        for i in res.issues:
-            for j, v in enumerate((str(res.path), i.kind, i.where, i.message, i.old, i.new), 1):
-                put(iss, r, j, v)
-            r += 1
-    cau = wb.create_sheet("Cautions")
-    for i, text in enumerate(CAUTIONS, start=1):
-        put(cau, i, 1, text)
-    for sheet in (ws, ch, iss):
-        sheet.column_dimensions["A"].width = 40
-    wb.properties.creator = f"swaytune {__version__} (recalc summary)"
-    with atomic_path(xlsx_path) as tmp:
-        wb.save(tmp)
-    return xlsx_path, csv_path
-
 
 # =============================================================================== command line
-def _print_report(batch: BatchSummary, stream=None) -> None:
-    stream = stream or sys.stdout
-    for r in batch.results:
-        if r.failed:
-            print(f"FAILED  {r.path}: {r.error}", file=stream)
-            continue
-        bad = [label for label, v in r.checks if v != "OK"]
-        line = f"{r.status:<7} {r.path}"
-        if r.output is not None:
-            line += f" -> {r.output}"
-        print(line, file=stream)
-        if bad:
-            print(f"        NOT OK: {'; '.join(bad)}", file=stream)
-        for i in r.issues:
-            print(f"        {i.kind}: {i}", file=stream)
-        if r.changes:
-            shown = ", ".join(f"{n} {_fmt_value(o)} -> {_fmt_value(v)}"
-                              for n, o, v in r.changes[:6])
-            more = f" (+{len(r.changes) - 6} more)" if len(r.changes) > 6 else ""
-            print(f"        changed: {shown}{more}", file=stream)
-    n = len(batch.results)
-    print(f"\n{n} workbook(s): {n - len(batch.failed) - len(batch.not_ok)} OK, "
-          f"{len(batch.not_ok)} NOT OK, {len(batch.failed)} failed "
-          f"({batch.seconds:.1f} s)", file=stream)
-    if batch.summary_xlsx:
-        print(f"summary: {batch.summary_xlsx} and {batch.summary_csv}", file=stream)
-
-
-def main_recalc(argv: Sequence[str] | None = None) -> int:
-    """``recalc PATH... [-o OUTDIR] [--in-place] [--jobs N]``; return the exit status.
-
-    0: every workbook recalculated and every check OK; 1: a workbook failed or a check is
-    NOT OK; 2: usage error; 130: interrupted (Ctrl-C).
-    """
-    import argparse
-    parser = argparse.ArgumentParser(
-        prog="swaytune recalc",
-        description="Recalculate swaytune workbooks with the engine: fresh cached values, "
-                    "refreshed engine values, formulas untouched; a summary workbook and CSV. "
-                    "A preliminary design aid; results must be checked by a licensed engineer.")
+def add_recalc_arguments(parser) -> None:
+    """Add the ``recalc`` options to an argparse parser (``swaytune recalc`` and main_recalc)."""
     parser.add_argument("paths", nargs="+", metavar="PATH", help="workbooks and folders")
     parser.add_argument("-o", "--outdir", help="output folder (required unless --in-place)")
     parser.add_argument("--in-place", action="store_true",
@@ -2355,28 +1362,57 @@ def main_recalc(argv: Sequence[str] | None = None) -> int:
                         help="do not compare formulas with the builder's text (faster on "
                              "batches of many different layouts; results are still checked "
                              "against the engine)")
-    try:
-        args = parser.parse_args(argv)
-    except SystemExit as exc:
-        return int(exc.code or 0)
+
+
+#: Description of the command (``swaytune recalc --help``).
+RECALC_DESCRIPTION = ("Recalculate swaytune workbooks with the engine: fresh cached values, "
+                      "refreshed engine values, formulas untouched; a summary workbook and CSV. "
+                      "Exit status 0: all OK; 1: a workbook failed or a check is NOT OK; 2: "
+                      "usage; 130: interrupted. A preliminary design aid; results must be "
+                      "checked by a licensed engineer.")
+
+
+def run_recalc(args) -> int:
+    """Run ``recalc`` for parsed arguments (:func:`add_recalc_arguments`); the exit status.
+
+    Prints the report (not the cautions: the caller prints them, as for every command).
+    """
     if args.in_place == (args.outdir is not None):
         print("error: give -o OUTDIR or --in-place (exactly one)", file=sys.stderr)
         return 2
     if args.jobs < 1:
         print(f"error: --jobs {args.jobs} must be >= 1", file=sys.stderr)
         return 2
-    from .build import CAUTIONS
     batch = recalc_many(args.paths, outdir=args.outdir, jobs=args.jobs,
                         progress=not args.no_progress, in_place=args.in_place,
                         backup=not args.no_backup, summary=args.summary, force=args.force,
                         compare_layout=not args.no_layout_check)
-    _print_report(batch)
+    print_report(batch)
     if not batch.results:
         print("error: no workbooks (*.xlsx) found in " + ", ".join(args.paths), file=sys.stderr)
-    print("\nCAUTION - preliminary design aid:")
-    for text in CAUTIONS[:5]:
-        print(f"  * {text}")
-    return batch.exit_status if batch.results else 1
+        return 1
+    return batch.exit_status
+
+
+def main_recalc(argv: Sequence[str] | None = None) -> int:
+    """``recalc PATH... [-o OUTDIR] [--in-place] [--jobs N]``; return the exit status.
+
+    0: every workbook recalculated and every check OK; 1: a workbook failed or a check is
+    NOT OK; 2: usage error; 130: interrupted (Ctrl-C). The same as ``swaytune recalc``
+    (:mod:`workbook_builder.cli`), cautions included.
+    """
+    import argparse
+
+    from .cli import print_cautions
+    parser = argparse.ArgumentParser(prog="swaytune recalc", description=RECALC_DESCRIPTION)
+    add_recalc_arguments(parser)
+    try:
+        args = parser.parse_args(argv)
+    except SystemExit as exc:
+        return int(exc.code or 0)
+    status = run_recalc(args)
+    print_cautions()
+    return status
 
 
 if __name__ == "__main__":  # pragma: no cover
