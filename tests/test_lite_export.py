@@ -1,0 +1,201 @@
+# SPDX-License-Identifier: MIT
+"""The xlwings Lite export: one main.py that imports on its own and computes as the engine."""
+from __future__ import annotations
+
+import json
+import subprocess
+import sys
+import sysconfig
+import textwrap
+from pathlib import Path
+
+import numpy as np
+import pytest
+
+from functions import catalogue, udf
+from functions.catalogue import FUNCTIONS
+from workbook_builder import lite_export
+
+ROOT = Path(__file__).resolve().parent.parent
+
+
+def _site_packages() -> list[str]:
+    """Folders holding numpy, scipy (and xlwings): nothing else of this environment."""
+    import numpy
+    import scipy
+    return sorted({str(Path(m.__file__).resolve().parent.parent) for m in (numpy, scipy)})
+
+
+def _stdlib() -> list[str]:
+    paths = sysconfig.get_paths()
+    return [paths["stdlib"], paths["platstdlib"], str(Path(paths["stdlib"]) / "lib-dynload")]
+
+
+# Inputs for the subprocess: each function's example, and a column whose first cell is the
+# example value, the second empty and the third bad (for functions with a NUMBER argument).
+def _cases():
+    cases = []
+    for fn in FUNCTIONS:
+        if fn.name == "SWAY_SIMULATION_SUMMARY":      # seconds per call; covered in-process
+            continue
+        cases.append((fn.python_name, list(fn.example)))
+        numeric = [i for i, a in enumerate(fn.arguments[:len(fn.example)])
+                   if a.kind == catalogue.NUMBER]
+        if numeric and fn.kind == catalogue.ELEMENTWISE:
+            i = numeric[0]
+            args = list(fn.example)
+            args[i] = [[fn.example[i]], [None], ["bad"]]
+            cases.append((fn.python_name, args))
+    return cases
+
+
+RUNNER = textwrap.dedent("""
+    import json, sys
+    sys.path[:] = json.loads(sys.argv[1])
+    block_xlwings = sys.argv[3] == "block"
+    if block_xlwings:
+        sys.modules["xlwings"] = None          # as if xlwings were not installed
+    import main
+    cases = json.loads(sys.argv[2])
+    out = {"results": [getattr(main, name)(*args) for name, args in cases]}
+    out["all"] = sorted(main.__all__)
+    out["origins"] = sorted({getattr(m, "__file__", None) or "" for m in list(sys.modules.values())
+                             if getattr(m, "__name__", "").startswith(("functions", "swaytune"))})
+    out["engine_module"] = main.sway_exact_period.__module__
+    print(json.dumps(out))
+""")
+
+
+@pytest.fixture(scope="module")
+def exported(tmp_path_factory):
+    out = tmp_path_factory.mktemp("lite")
+    paths = lite_export.export_lite(out)
+    return out, paths
+
+
+def _run(export_dir: Path, mode: str) -> dict:
+    path = [str(export_dir)] + _stdlib() + _site_packages()
+    assert not any(str(ROOT) == p for p in path)
+    proc = subprocess.run(
+        [sys.executable, "-I", "-S", "-c", RUNNER, json.dumps(path), json.dumps(_cases()), mode],
+        capture_output=True, text=True, timeout=300, cwd=str(export_dir.parent))
+    assert proc.returncode == 0, proc.stderr[-3000:]
+    return json.loads(proc.stdout)
+
+
+def test_files_written(exported):
+    out, paths = exported
+    assert [p.name for p in paths] == ["main.py", "requirements.txt"]
+    assert (out / "requirements.txt").read_text().split() == ["numpy", "scipy"]
+    text = (out / "main.py").read_text()
+    assert "from xlwings import" not in text.split("_SOURCES")[0]   # only inside udf's source
+    assert " ".join(lite_export.CAUTION.split()) in " ".join(text.split())
+    compile(text, "main.py", "exec")
+
+
+def test_embedded_sources_are_exact(exported):
+    """Every module of functions/ is embedded verbatim, except the renamed package imports."""
+    out, _ = exported
+    namespace: dict = {}
+    text = (out / "main.py").read_text()
+    head = text.split("\nclass _EmbeddedModules")[0]
+    exec(compile(head, "main.py", "exec"), namespace)
+    sources = namespace["_SOURCES"]
+    for path in (ROOT / "functions").glob("*.py"):
+        name = "swaytune_engine" + ("" if path.stem == "__init__" else "." + path.stem)
+        original = path.read_text(encoding="utf-8")
+        assert sources[name].replace("swaytune_engine", "functions") == original, name
+
+
+@pytest.mark.parametrize("mode", ["xlwings", "block"])
+def test_exported_main_imports_alone_and_matches_the_engine(exported, mode):
+    out, _ = exported
+    got = _run(out, mode)
+    assert got["all"] == sorted(fn.python_name for fn in FUNCTIONS)
+    assert got["engine_module"] == "swaytune_engine.udf"
+    assert all(not o.startswith(str(ROOT)) for o in got["origins"]), got["origins"]
+    for (name, args), result in zip(_cases(), got["results"]):
+        expected = getattr(udf, name)(*args)
+        _assert_same(result, expected, name)
+
+
+def _assert_same(result, expected, name):
+    if isinstance(expected, list):
+        assert isinstance(result, list) and len(result) == len(expected), name
+        for r, e in zip(result, expected):
+            _assert_same(r, e, name)
+    elif isinstance(expected, float):
+        # the numerical optima may differ in the last bits with the batch (see test_udf.RTOL)
+        assert np.isclose(result, expected, rtol=1e-10, atol=0.0), (name, result, expected)
+    else:
+        assert result == expected, name
+
+
+def test_examples_match_the_engine_directly(exported):
+    """The exported code's values equal the engine's own (not only the in-process wrapper's)."""
+    out, _ = exported
+    got = _run(out, "xlwings")
+    from functions.pendulum import exact_period
+    from functions.damper import optimal_tuning
+    by_case = {(n, json.dumps(a)): r for (n, a), r in zip(_cases(), got["results"])}
+    assert by_case[("sway_exact_period", json.dumps([10.0, 15.0]))] == exact_period(10.0, 15.0)
+    f, z = optimal_tuning(0.02, "h2", 0.01)
+    assert np.isclose(by_case[("sway_optimal_tuning_ratio", json.dumps([0.02, "h2", 0.01]))],
+                      f, rtol=1e-10)
+    assert np.isclose(by_case[("sway_optimal_damper_damping", json.dumps([0.02, "h2", 0.01]))],
+                      z, rtol=1e-10)
+
+
+def test_reimport_replaces_the_embedded_modules(exported):
+    """xlwings Lite runs main.py again after each edit: the second run must start afresh."""
+    out, _ = exported
+    code = textwrap.dedent("""
+        import json, runpy, sys
+        sys.path[:] = json.loads(sys.argv[1])
+        first = runpy.run_path("main.py")
+        second = runpy.run_path("main.py")
+        hooks = [f for f in sys.meta_path if getattr(f, "swaytune_embedded", False)]
+        print(len(hooks), first["sway_exact_period"](2.0) == second["sway_exact_period"](2.0))
+    """)
+    path = [str(out)] + _stdlib() + _site_packages()
+    proc = subprocess.run([sys.executable, "-I", "-S", "-c", code, json.dumps(path)],
+                          capture_output=True, text=True, timeout=300, cwd=str(out))
+    assert proc.returncode == 0, proc.stderr[-3000:]
+    assert proc.stdout.split() == ["1", "True"]
+
+
+def test_literal_round_trip_of_awkward_sources():
+    for source in ["a = '''x'''\n", "b = 1  \\\n", "c = r'\\d'\n", "", "x = '\\r'\r\n"]:
+        literal = lite_export._literal(source)
+        assert eval(literal) == source, source                     # noqa: S307 - test only
+
+
+def test_cli_writes_the_files(tmp_path, capsys):
+    assert lite_export.main_lite_export(["--out", str(tmp_path / "x")]) == 0
+    printed = capsys.readouterr().out
+    assert "CAUTION" in printed and "main.py" in printed
+    assert (tmp_path / "x" / "main.py").exists() and (tmp_path / "x" / "requirements.txt").exists()
+
+
+def test_docs_check_and_update(tmp_path, capsys):
+    doc = tmp_path / "guide.md"
+    doc.write_text(f"intro\n{lite_export.BEGIN_MARK}\nold\n{lite_export.END_MARK}\nend\n")
+    assert lite_export.main_function_reference([str(doc), "--check"]) == 1
+    assert lite_export.main_function_reference([str(doc)]) == 0
+    assert lite_export.main_function_reference([str(doc), "--check"]) == 0
+    text = doc.read_text()
+    assert text.startswith("intro\n") and text.endswith(f"{lite_export.END_MARK}\nend\n")
+    assert "#### SWAY_EXACT_PERIOD" in text
+    bad = tmp_path / "none.md"
+    bad.write_text("no markers\n")
+    with pytest.raises(ValueError, match="reference markers not found"):
+        lite_export.update_reference(bad)
+
+
+def test_guide_gives_both_set_ups_and_the_export_command():
+    guide = (ROOT / "docs" / "spreadsheet_functions.md").read_text(encoding="utf-8")
+    assert "python -m workbook_builder.lite_export --out swaytune_lite" in guide
+    assert "*UDF Modules*: `functions.udf`" in guide          # the classic add-in's module
+    assert "xlwings addin install" in guide and "Import Functions" in guide
+    assert "requirements.txt" in guide and "numpy\nscipy" in guide
+    assert "CAUTION" in guide

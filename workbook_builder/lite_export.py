@@ -1,0 +1,231 @@
+# SPDX-License-Identifier: MIT
+"""Export the spreadsheet functions for xlwings Lite, and regenerate their reference.
+
+xlwings Lite runs Python inside Excel (Windows, macOS, the web) from the code in its editor's
+``main.py`` tab and installs the packages listed in its ``requirements.txt`` tab; numpy and scipy
+are built for its in-browser Python (Pyodide), so nothing has to be installed locally.
+
+:func:`export_lite` writes
+
+* ``main.py`` — every module of the engine package (``functions/*.py``: the engine, the
+  catalogue and the wrappers of :mod:`functions.udf`) embedded as text, loaded at run time as the
+  package ``swaytune_engine`` by a small import hook, followed by the import of every worksheet
+  function (``sway_*``) into ``main``'s namespace, where xlwings Lite registers them;
+* ``requirements.txt`` — ``numpy`` and ``scipy``, unpinned (Pyodide ties their versions).
+
+The embedded package is renamed from ``functions`` to ``swaytune_engine`` so that it cannot
+clash with another module of the workbook.
+
+Command line (``python -m workbook_builder.lite_export --help``)::
+
+    python -m workbook_builder.lite_export --out swaytune_lite
+    python -m workbook_builder.lite_export --docs docs/spreadsheet_functions.md
+"""
+from __future__ import annotations
+
+import argparse
+import ast
+import re
+import sys
+import textwrap
+from pathlib import Path
+
+__all__ = [
+    "EXPORT_PACKAGE", "CAUTION", "engine_sources", "build_main_py", "build_requirements",
+    "export_lite", "reference_section", "update_reference", "main_lite_export",
+    "main_function_reference",
+]
+
+#: Package name of the engine inside the exported main.py.
+EXPORT_PACKAGE = "swaytune_engine"
+
+CAUTION = ("CAUTION: swaytune is a preliminary design aid. Results must be checked by a "
+           "licensed engineer against local codes, wind-tunnel data and the manufacturer's "
+           "design.")
+
+_ENGINE_DIR = Path(__file__).resolve().parent.parent / "functions"
+_IMPORT = re.compile(r"^(\s*)(from|import)(\s+)functions(?=[\s.])", re.MULTILINE)
+
+BEGIN_MARK = ("<!-- BEGIN FUNCTION REFERENCE (generated: python -m workbook_builder.lite_export "
+              "--docs) -->")
+END_MARK = "<!-- END FUNCTION REFERENCE -->"
+
+
+def engine_sources(engine_dir: Path | None = None) -> dict[str, str]:
+    """Module name (under :data:`EXPORT_PACKAGE`) -> source, imports of ``functions`` renamed."""
+    engine_dir = Path(engine_dir or _ENGINE_DIR)
+    out: dict[str, str] = {}
+    for path in sorted(engine_dir.glob("*.py")):
+        source = path.read_text(encoding="utf-8")
+        source = _IMPORT.sub(lambda m: f"{m[1]}{m[2]}{m[3]}{EXPORT_PACKAGE}", source)
+        name = EXPORT_PACKAGE if path.stem == "__init__" else f"{EXPORT_PACKAGE}.{path.stem}"
+        out[name] = source
+    if EXPORT_PACKAGE not in out:
+        out[EXPORT_PACKAGE] = ""
+    return out
+
+
+def _literal(source: str) -> str:
+    """A readable Python literal that evaluates to ``source`` exactly."""
+    if "'''" not in source and not source.endswith("\\") and "\r" not in source:
+        literal = "r'''" + source + "'''"
+        try:
+            if ast.literal_eval(literal) == source:
+                return literal
+        except (SyntaxError, ValueError):
+            pass
+    lines = source.splitlines(keepends=True) or [""]
+    return "(\n" + "".join(f"    {line!r}\n" for line in lines) + ")"
+
+
+_LOADER = '''
+
+class _EmbeddedModules(importlib.abc.MetaPathFinder, importlib.abc.Loader):
+    """Import hook that serves the modules embedded above."""
+
+    swaytune_embedded = True
+
+    def find_spec(self, name, path=None, target=None):
+        if name not in _SOURCES:
+            return None
+        return importlib.util.spec_from_loader(name, self, is_package=name == _PACKAGE)
+
+    def create_module(self, spec):
+        return None
+
+    def exec_module(self, module):
+        name = module.__name__
+        filename = "<" + name + ">"
+        source = _SOURCES[name]
+        linecache.cache[filename] = (len(source), None, source.splitlines(True), filename)
+        exec(compile(source, filename, "exec"), module.__dict__)
+
+
+def _install():
+    """(Re)install the hook; xlwings Lite runs this file again after every edit."""
+    for name in list(sys.modules):
+        if name == _PACKAGE or name.startswith(_PACKAGE + "."):
+            del sys.modules[name]
+    sys.meta_path[:] = [f for f in sys.meta_path if not getattr(f, "swaytune_embedded", False)]
+    sys.meta_path.insert(0, _EmbeddedModules())
+
+
+_install()
+'''
+
+
+def build_main_py(engine_dir: Path | None = None) -> str:
+    """Text of the exported ``main.py``."""
+    from functions.catalogue import FUNCTIONS
+
+    sources = engine_sources(engine_dir)
+    names = [fn.python_name for fn in FUNCTIONS]
+    parts = [
+        "# SPDX-License-Identifier: MIT\n",
+        '"""swaytune spreadsheet functions for xlwings Lite.\n\n',
+        textwrap.fill(CAUTION, 96) + "\n\n",
+        "Generated by ``python -m workbook_builder.lite_export``: do not edit, export again.\n",
+        f"The engine is embedded below as text and imported as the package ``{EXPORT_PACKAGE}``;\n",
+        "the worksheet functions are the ``sway_*`` names imported at the end of this file.\n",
+        "Reference: docs/spreadsheet_functions.md in the swaytune repository.\n",
+        '"""\n',
+        "import importlib.abc\nimport importlib.util\nimport linecache\nimport sys\n\n",
+        f"_PACKAGE = {EXPORT_PACKAGE!r}\n_SOURCES = {{}}\n",
+    ]
+    for name, source in sources.items():
+        parts.append(f"\n_SOURCES[{name!r}] = {_literal(source)}\n")
+    parts.append(_LOADER)
+    parts.append(f"\nfrom {EXPORT_PACKAGE}.udf import (  # noqa: E402  the worksheet functions\n")
+    parts += [f"    {n},\n" for n in names]
+    parts.append(")\n\n__all__ = [\n" + "".join(f"    {n!r},\n" for n in names) + "]\n")
+    return "".join(parts)
+
+
+def build_requirements() -> str:
+    """Text of the exported ``requirements.txt`` (versions are Pyodide's: never pinned)."""
+    return "numpy\nscipy\n"
+
+
+def export_lite(out_dir: str | Path, engine_dir: Path | None = None) -> list[Path]:
+    """Write ``main.py`` and ``requirements.txt`` for xlwings Lite into ``out_dir``."""
+    out = Path(out_dir)
+    out.mkdir(parents=True, exist_ok=True)
+    main_py = out / "main.py"
+    requirements = out / "requirements.txt"
+    text = build_main_py(engine_dir)
+    compile(text, str(main_py), "exec")          # refuse to write a file that does not parse
+    main_py.write_text(text, encoding="utf-8")
+    requirements.write_text(build_requirements(), encoding="utf-8")
+    return [main_py, requirements]
+
+
+# --- function reference in docs/spreadsheet_functions.md --------------------------------------
+
+def reference_section() -> str:
+    """The generated part of the guide: reference of every function and the messages."""
+    from functions import udf
+    from functions.catalogue import reference_markdown
+
+    return reference_markdown(lambda fn, args: udf.evaluate(fn.name, *args))
+
+
+def update_reference(path: str | Path, check: bool = False) -> bool:
+    """Replace the text between the reference markers of ``path``; True if it changed.
+
+    With ``check=True`` nothing is written.
+    """
+    path = Path(path)
+    text = path.read_text(encoding="utf-8")
+    start, end = text.find(BEGIN_MARK), text.find(END_MARK)
+    if start < 0 or end < start:
+        raise ValueError(f"{path}: reference markers not found ({BEGIN_MARK!r} ... {END_MARK!r})")
+    new = text[: start + len(BEGIN_MARK)] + "\n\n" + reference_section() + "\n" + text[end:]
+    if new != text and not check:
+        path.write_text(new, encoding="utf-8")
+    return new != text
+
+
+# --- command line -----------------------------------------------------------------------------
+
+def main_lite_export(argv: list[str] | None = None, cautions: bool = True) -> int:
+    """Command ``lite-export``: write main.py and requirements.txt for xlwings Lite.
+
+    ``cautions=False`` leaves the caution out of the output (for a caller that prints it).
+    """
+    parser = argparse.ArgumentParser(
+        prog="swaytune lite-export",
+        description="Write main.py and requirements.txt that make the SWAY_ worksheet functions "
+                    "work in xlwings Lite (no local Python needed).")
+    parser.add_argument("--out", default="swaytune_lite",
+                        help="folder to write into (created if missing; default: swaytune_lite)")
+    args = parser.parse_args(argv)
+    paths = export_lite(args.out)
+    if cautions:
+        print(CAUTION)
+    for p in paths:
+        print(f"wrote {p}")
+    print("Next: in Excel open the xlwings Lite task pane; replace the content of its main.py tab "
+          "with the exported main.py; add the lines of requirements.txt to its requirements.txt "
+          "tab (keep the xlwings line there). See docs/spreadsheet_functions.md.")
+    return 0
+
+
+def main_function_reference(argv: list[str] | None = None) -> int:
+    """Regenerate (or with --check, verify) the function reference in the guide."""
+    parser = argparse.ArgumentParser(prog="swaytune function-docs")
+    parser.add_argument("path", nargs="?", default="docs/spreadsheet_functions.md")
+    parser.add_argument("--check", action="store_true",
+                        help="exit 1 if the reference is out of date, write nothing")
+    args = parser.parse_args(argv)
+    changed = update_reference(args.path, check=args.check)
+    if args.check:
+        print(f"{args.path}: {'out of date' if changed else 'current'}")
+        return 1 if changed else 0
+    print(f"{args.path}: {'updated' if changed else 'already current'}")
+    return 0
+
+
+if __name__ == "__main__":  # pragma: no cover
+    if len(sys.argv) > 1 and sys.argv[1] == "--docs":
+        sys.exit(main_function_reference(sys.argv[2:]))
+    sys.exit(main_lite_export(sys.argv[1:]))
