@@ -183,7 +183,18 @@ def _parser() -> argparse.ArgumentParser:
                        description=RECALC_DESCRIPTION)
     add_recalc_arguments(r)
     r.set_defaults(func=run_recalc)
+
+    x = sub.add_parser("lite-export", help="write main.py and requirements.txt that make the "
+                                           "SWAY_ worksheet functions work in xlwings Lite")
+    x.add_argument("--out", default="swaytune_lite",
+                   help="folder to write into (created if missing; default: swaytune_lite)")
+    x.set_defaults(func=_cmd_lite_export)
     return parser
+
+
+def _cmd_lite_export(args) -> int:
+    from .lite_export import main_lite_export
+    return main_lite_export(["--out", args.out], cautions=False)
 
 
 def main(argv: Sequence[str] | None = None) -> int:
