@@ -1104,7 +1104,9 @@ def _recalc(res: RecalcResult, path: Path, dest: Path | None, in_place: bool, ba
                                     "recompute were computed for other inputs (the Nonlinear "
                                     "sheet's time-domain simulation: recalc does not rerun it, "
                                     "its layout depends on the result); rebuild the workbook "
-                                    "from its project file (swaytune build)", "current",
+                                    "from its project file with the new inputs (swaytune "
+                                    "build PROJECT.toml -o NEW.xlsx; replacing this file "
+                                    "needs --force because its inputs were edited)", "current",
                                     str(res.results[n])))
     if any(i.kind == "engine_mismatch" for i in res.issues) and \
             ("Workbook formulas agree with the engine", "OK") in res.checks:
