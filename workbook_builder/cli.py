@@ -131,10 +131,40 @@ def _cmd_examples(args) -> int:
         project = load_project(source)
         out = source.with_suffix(".xlsx")
         args.template = None
-        rows.append((out.name, _build_one(project, out, args)))
+        rows.append((out.name, _build_example(project, out, args)))
     print()
     print(summary_table(rows))
     return 0
+
+
+def _build_example(project, out: Path, args) -> object:
+    """Rebuild an example; leave the file untouched when only timestamps would change.
+
+    Keeps a clean working tree after the README's main command when the code has not changed.
+    """
+    import os
+    import shutil
+    import tempfile
+
+    from .atomic import guard_overwrite
+    from .build import guard_hand_edits, write_workbook
+    from .compare import compare_workbooks
+    if not out.exists():
+        return _build_one(project, out, args)
+    guard_overwrite(out, force=args.force)
+    guard_hand_edits(out, force=args.force)
+    scratch = Path(tempfile.mkdtemp(prefix=".swaytune-", dir=out.parent))
+    try:
+        tmp = scratch / out.name            # a new file: normal permissions
+        built = write_workbook(project, tmp, force=True)
+        if compare_workbooks(out, tmp):
+            os.replace(tmp, out)
+            print(f"wrote {out}")
+        else:
+            print(f"up to date {out}")
+    finally:
+        shutil.rmtree(scratch, ignore_errors=True)
+    return built
 
 
 def _cmd_pdf(args) -> int:
