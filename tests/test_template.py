@@ -16,7 +16,7 @@ from workbook_builder import office
 from workbook_builder.template import (TITLE_BLOCK_NAMES, add_default_title_block, open_template,
                                        template_fields, unfilled_fields)
 
-FIRM = "Harrow & Pell Consulting Engineers (invented)"
+FIRM = "Example Structures Office (invented)"
 FIELDS = {"project_number": "P-4711", "title": "Invented tower: pendulum damper",
           "calculated_by": "A.B.", "checked_by": "C.D.", "date": dt.date(2026, 3, 14),
           "revision": "B"}
