@@ -21,7 +21,8 @@ Targets (issue 6): at least 10x faster than LibreOffice; identical values to 1e-
 
 Run: ``python benchmarks/bench_recalc.py [N] [--jobs 1,2] [--keep DIR]`` (the machine this was
 written on has 2 cores; LibreOffice converts in one process, our command is timed with one
-process and with ``--jobs 2``).
+process and with ``--jobs 2``). ``--no-libreoffice`` times our command only (no ratio, no
+comparison), for iterating on speed; the default is the full comparison.
 """
 from __future__ import annotations
 
@@ -145,6 +146,9 @@ def main(argv: list[str] | None = None) -> int:
                     help="comma-separated worker counts to time our command with (default 1,2)")
     ap.add_argument("--keep", help="keep the generated files in this folder")
     ap.add_argument("--timeout", type=float, default=3600.0, help="LibreOffice timeout [s]")
+    ap.add_argument("--no-libreoffice", action="store_true",
+                    help="time our command only (no LibreOffice pass, no comparison); for "
+                         "iterating on speed")
     args = ap.parse_args(argv)
     if args.n < 1:
         ap.error("n must be >= 1")
@@ -171,6 +175,13 @@ def main(argv: list[str] | None = None) -> int:
                 return 1
             if jobs != args.jobs[0]:
                 shutil.rmtree(out, ignore_errors=True)
+
+        if args.no_libreoffice:
+            for jobs, t_ours in timings.items():
+                print(f"swaytune recalc --jobs {jobs}:  {t_ours:8.2f} s "
+                      f"({t_ours / len(files) * 1e3:6.1f} ms per workbook)")
+            print("LibreOffice skipped (--no-libreoffice): no ratio, no comparison")
+            return 0
 
         # LibreOffice recalculates OUR outputs: same formulas, same engine values (LibreOffice
         # cannot refresh engine-only values), so every formula value must agree.

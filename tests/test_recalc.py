@@ -149,6 +149,51 @@ def test_entity_expansion_is_refused(built, tmp_path):
     assert not (tmp_path / "out" / "bomb.xlsx").exists()
 
 
+def test_dtd_is_refused_even_when_the_sheet_is_already_cached(built, tmp_path):
+    # The part cache of a batch must never bypass the DTD check of a later file.
+    src = built["den_hartog"]
+    recalc.clear_caches()
+    assert recalc_workbook(src, outdir=tmp_path / "ok").status in ("OK", "NOT OK")
+    with zipfile.ZipFile(src) as zin:
+        sheet = next(n for n in zin.namelist() if n.startswith("xl/worksheets/sheet"))
+        body = zin.read(sheet)
+    evil = body.replace(b"<worksheet", b'<!DOCTYPE worksheet [<!ENTITY e "x">]><worksheet', 1)
+    bad = tmp_path / "dtd.xlsx"
+    with zipfile.ZipFile(src) as zin, zipfile.ZipFile(bad, "w") as zout:
+        for info in zin.infolist():
+            zout.writestr(info, evil if info.filename == sheet else zin.read(info))
+    res = recalc_workbook(bad, outdir=tmp_path / "out")
+    assert res.status == "FAILED" and "refused" in res.error
+    assert not (tmp_path / "out" / "dtd.xlsx").exists()
+
+
+def test_reading_with_and_without_the_part_cache_agree(built):
+    path = built["residential_tower"]
+    plain = xlsx_package.open_package(Path(path))
+    cache = xlsx_package.PartCache()
+    first = xlsx_package.open_package(Path(path), cache=cache)
+    second = xlsx_package.open_package(Path(path), cache=cache)
+    def content(book):
+        return {title: {key: (c.value, c.data_type) for key, c in sheet.cells.items()}
+                for title, sheet in book.sheets.items()}
+    assert content(first) == content(plain) == content(second)
+    # each read owns its cells: changing one does not leak into the next read
+    title = next(iter(first.sheets))
+    first.sheets[title].cells.clear()
+    assert content(xlsx_package.open_package(Path(path), cache=cache)) == content(plain)
+
+
+def test_garbage_collector_restored_after_success_and_failure(built, tmp_path):
+    import gc
+    assert gc.isenabled()
+    recalc_workbook(built["den_hartog"], outdir=tmp_path / "a")
+    assert gc.isenabled()
+    junk = tmp_path / "junk.xlsx"
+    junk.write_bytes(b"not a zip")
+    assert recalc_workbook(junk, outdir=tmp_path / "b").status == "FAILED"
+    assert gc.isenabled()
+
+
 # ----------------------------------------------------------------------------- reading
 def test_read_inputs_si_and_units(built):
     # residential_tower.toml: 24,000 t, 1.2 %, 21 and 13 milli-g (g_n = 9.80665, 3rd CGPM 1901).

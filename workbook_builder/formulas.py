@@ -344,9 +344,12 @@ class _Array:
 
 def _map(fn: Callable, *args):
     """Apply ``fn`` elementwise when any argument is an array (broadcasting scalars)."""
-    arrays = [a for a in args if isinstance(a, _Array)]
-    if not arrays:
+    for a in args:
+        if isinstance(a, _Array):
+            break
+    else:
         return fn(*args)
+    arrays = [a for a in args if isinstance(a, _Array)]
     shape = arrays[0].shape
     for a in arrays:
         if a.shape != shape:
@@ -486,6 +489,15 @@ def _round(x: float, digits: float) -> float:
     return math.copysign(r / factor, x) if r else 0.0
 
 
+#: One-argument worksheet functions (built once, not at every call).
+_UNARY = {
+    "SQRT": _math1(_sqrt), "SIN": _math1(math.sin), "COS": _math1(math.cos),
+    "ASIN": _math1(math.asin), "RADIANS": _math1(math.radians),
+    "DEGREES": _math1(math.degrees), "LN": _math1(_ln), "EXP": _math1(math.exp),
+    "ABS": _math1(abs),
+}
+
+
 class Evaluator:
     """Evaluate worksheet formulas of an openpyxl workbook (cached values).
 
@@ -533,10 +545,14 @@ class Evaluator:
         for title in self.sheets:
             ws = self.wb[title]
             sheet_values = {}
-            for row in ws.iter_rows():
-                for cell in row:
-                    if isinstance(cell.value, str) and cell.data_type == "f":
-                        sheet_values[cell.coordinate] = self.cell(title, cell.row, cell.column)
+            cells = getattr(ws, "cells", None)
+            if isinstance(cells, dict):           # xlsx_package.Sheet: (row, column) -> cell
+                ordered = [cells[k] for k in sorted(cells)]
+            else:
+                ordered = [cell for row in ws.iter_rows() for cell in row]
+            for cell in ordered:
+                if isinstance(cell.value, str) and cell.data_type == "f":
+                    sheet_values[cell.coordinate] = self.cell(title, cell.row, cell.column)
             out[title] = sheet_values
         return out
 
@@ -622,12 +638,7 @@ class Evaluator:
     def _call(self, fname: str, args: list, sheet: str) -> Any:
         ev = lambda a: self._eval(a, sheet)  # noqa: E731
         n = len(args)
-        unary = {
-            "SQRT": _math1(_sqrt), "SIN": _math1(math.sin), "COS": _math1(math.cos),
-            "ASIN": _math1(math.asin), "RADIANS": _math1(math.radians),
-            "DEGREES": _math1(math.degrees), "LN": _math1(_ln), "EXP": _math1(math.exp),
-            "ABS": _math1(abs),
-        }
+        unary = _UNARY
         if fname in unary and n == 1:
             return _map(unary[fname], ev(args[0]))
         if fname == "PI" and n == 0:

@@ -199,13 +199,16 @@ def formula_issues(data, layout: Layout, typed_cells: set[tuple[str, str]]) -> l
                             f"builder's layout for these inputs ({why}): formulas on these "
                             "sheets were checked against the engine only, not compared as "
                             "text"))
-    for (sheet, coord), expected in layout.formulas.items():
+    rcs = layout.__dict__.get("_rc")
+    if rcs is None or len(rcs) != len(layout.formulas):   # once per layout: (row, column)
+        rcs = layout.__dict__["_rc"] = [split_coord(coord) for _, coord in layout.formulas]
+    for ((sheet, coord), expected), rc in zip(layout.formulas.items(), rcs):
         if sheet not in comparable:
             continue
         ws = book.sheets.get(sheet)
         if ws is None:
             continue
-        cell = ws.cells.get(split_coord(coord))
+        cell = ws.cells.get(rc)
         if cell is not None and expected is not None and cell.value == expected:
             continue                          # the same text: the common case, no parsing
         if cell is None:

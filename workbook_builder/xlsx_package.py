@@ -22,6 +22,7 @@ Every problem raises :class:`PackageError` (a ``ValueError``) with a reason fit 
 """
 from __future__ import annotations
 
+import functools
 import math
 import numbers
 import os
@@ -35,7 +36,7 @@ from typing import Any, Iterable, Mapping
 import numpy as np
 from openpyxl.utils import column_index_from_string, get_column_letter
 
-__all__ = ["PackageError", "CellError", "Book", "Sheet", "Cell", "open_package",
+__all__ = ["PackageError", "CellError", "Book", "Sheet", "Cell", "open_package", "PartCache",
            "write_package", "rewrite_cells", "encode_value", "sheet_parts", "split_coord",
            "MAX_MEMBER_BYTES", "MAX_PACKAGE_BYTES", "MAX_RATIO"]
 
@@ -93,6 +94,11 @@ def encode_value(key: tuple[str, str], value: Any) -> tuple[str | None, str]:
     PackageError
         For NaN, inf, control characters, text over 32767 characters, other types.
     """
+    if type(value) is float:                 # the common case (same result as below)
+        if not math.isfinite(value):
+            raise PackageError(f"cached value for {key[0]}!{key[1]} is {value!r}; NaN and "
+                               "inf cannot be stored in a cell")
+        return None, repr(value)
     if isinstance(value, CellError):
         return "e", _escape(str(value))
     if isinstance(value, (bool, np.bool_)):
@@ -278,8 +284,67 @@ def _parse_xml(data: bytes, part: str):
             from None
 
 
-def open_package(path: Path) -> Book:
-    """Read a .xlsx package safely; raise PackageError with a clear reason otherwise."""
+class PartCache:
+    """Parsed worksheets and shared strings of earlier packages, keyed by their exact bytes.
+
+    A batch of variants of one workbook holds many byte-identical parts (a Nonlinear sheet of
+    thousands of engine values, sheets whose cached values have not been refreshed yet):
+    :func:`open_package` with ``cache=`` parses such a part once. The key is the part's full
+    bytes (with the sheet title and the shared strings' bytes), so a hit is a part that
+    already parsed and passed every check; failures are never stored. A hit returns a new
+    :class:`Sheet` whose cell dictionary is a copy (the :class:`Cell` objects are shared: the
+    caller must replace cells, never change them in place, as the recalculation does). At
+    most ``max_bytes`` of part bytes are kept (oldest forgotten first).
+    """
+
+    def __init__(self, max_bytes: int = 16 * 1024 * 1024):
+        self.max_bytes = int(max_bytes)
+        self._items: dict[tuple, tuple[Any, int]] = {}
+        self._bytes = 0
+
+    def clear(self) -> None:
+        self._items.clear()
+        self._bytes = 0
+
+    def __len__(self) -> int:
+        return len(self._items)
+
+    def get(self, key: tuple):
+        hit = self._items.get(key)
+        return None if hit is None else hit[0]
+
+    def put(self, key: tuple, value: Any, size: int) -> None:
+        """Keep ``value`` for ``key`` (``size`` bytes of part); parts over a quarter of the
+        budget are not kept."""
+        if size > self.max_bytes // 4 or key in self._items:
+            return
+        while self._items and self._bytes + size > self.max_bytes:
+            del_key = next(iter(self._items))
+            self._bytes -= self._items.pop(del_key)[1]
+        self._items[key] = (value, size)
+        self._bytes += size
+
+
+def _cached_sheet(cache: PartCache | None, title: str, raw: bytes, part: str,
+                  strings: list[str], strings_raw: bytes) -> Sheet:
+    if cache is None:
+        return _read_sheet(title, raw, part, strings)
+    key = ("sheet", title, raw, strings_raw)
+    hit = cache.get(key)
+    if hit is None:
+        hit = _read_sheet(title, raw, part, strings)
+        cache.put(key, hit, len(raw))
+    sheet = Sheet(title)
+    sheet.cells = dict(hit.cells)
+    return sheet
+
+
+def open_package(path: Path, *, cache: PartCache | None = None) -> Book:
+    """Read a .xlsx package safely; raise PackageError with a clear reason otherwise.
+
+    ``cache`` (a :class:`PartCache`) lets a batch parse byte-identical parts only once; the
+    package is still checked in full (limits, DTDs) every time.
+    """
     try:
         with open(path, "rb") as fh:
             head = fh.read(8)
@@ -331,11 +396,22 @@ def open_package(path: Path) -> Book:
                           f"({type(exc).__name__}: {exc})") from None
     data = {info.filename: raw for info, raw in book.members}
     _read_workbook_part(book, data)
-    strings = _read_shared_strings(data)
+    strings_raw = data.get("xl/sharedStrings.xml", b"")
+    strings = None
+    if cache is not None:
+        skey = ("strings", strings_raw)
+        strings = cache.get(skey)
+    if strings is None:
+        strings = _read_shared_strings(data)
+        if cache is not None:
+            cache.put(skey, strings, len(strings_raw))
     for title, part in book.sheet_parts.items():
         if part not in data:
             raise PackageError(f"corrupted workbook: sheet {title!r} part {part} is missing")
-        book.sheets[title] = _read_sheet(title, data[part], part, strings)
+        raw = data[part]
+        if cache is not None and (b"<!DOCTYPE" in raw or b"<!ENTITY" in raw):
+            _parse_xml(raw, part)            # refused, whatever the cache holds
+        book.sheets[title] = _cached_sheet(cache, title, raw, part, strings, strings_raw)
     if "docProps/custom.xml" in data:
         root = _parse_xml(data["docProps/custom.xml"], "docProps/custom.xml")
         for prop in root:
@@ -611,7 +687,7 @@ def rewrite_cells(xml: str, sheet: str, constants: Mapping[str, float] | None = 
                 missing.append(ref)
             return m.group(0)
         fm = f_re.search(body)
-        new_attrs = _T_ATTR_RE.sub("", attrs)
+        new_attrs = _T_ATTR_RE.sub("", attrs) if "t" in attrs else attrs
         if fm is None:
             if not in_c:
                 return m.group(0)
@@ -626,7 +702,12 @@ def rewrite_cells(xml: str, sheet: str, constants: Mapping[str, float] | None = 
         t, text = encoded[ref]
         if t is not None:
             new_attrs += f' t="{t}"'
-        rest = _VIS_RE_CACHE[p].sub("", body[fm.end():])
+        rest = body[fm.end():]
+        if rest and not (not p and rest.startswith("<v>") and rest.endswith("</v>")
+                         and rest.count("<") == 2):   # one plain <v> (the usual): dropped
+            rest = _VIS_RE_CACHE[p].sub("", rest)
+        else:
+            rest = ""
         return f"<{p}c{new_attrs}>{body[:fm.end()]}<{p}v>{text}</{p}v>{rest}</{p}c>"
 
     new = None if require_all else _targeted_sub(xml, set(constants) | set(encoded), repl)
@@ -679,6 +760,19 @@ def _refresh_chart_xml(xml: str, value_of) -> str:
     return _NUMREF_RE.sub(repl, xml)
 
 
+@functools.lru_cache(maxsize=1024)
+def _range_keys(sheet: str, rng: str) -> tuple[tuple[str, str], ...] | None:
+    """``(sheet, "A5")`` of every cell of a chart's range, row by row, or None."""
+    m = re.fullmatch(r"\$?([A-Z]{1,3})\$?(\d+)(?::\$?([A-Z]{1,3})\$?(\d+))?", rng)
+    if not m:
+        return None
+    c1, r1 = column_index_from_string(m.group(1)), int(m.group(2))
+    c2, r2 = ((column_index_from_string(m.group(3)), int(m.group(4))) if m.group(3)
+              else (c1, r1))
+    return tuple((sheet, f"{get_column_letter(c)}{r}") for r in range(r1, r2 + 1)
+                 for c in range(c1, c2 + 1))
+
+
 def write_package(source: str | os.PathLike, dest: str | os.PathLike, *,
                   constants: Mapping[tuple[str, str], float] | None = None,
                   cached: Mapping[tuple[str, str], Any] | None = None,
@@ -723,14 +817,9 @@ def write_package(source: str | os.PathLike, dest: str | os.PathLike, *,
         def chart_lookup(ref: str):
             sheet, _, rng = ref.rpartition("!")
             sheet = sheet.strip("'").replace("''", "'")
-            m = re.fullmatch(r"\$?([A-Z]{1,3})\$?(\d+)(?::\$?([A-Z]{1,3})\$?(\d+))?", rng)
-            if not m:
+            keys = _range_keys(sheet, rng)
+            if keys is None:
                 return None
-            c1, r1 = column_index_from_string(m.group(1)), int(m.group(2))
-            c2, r2 = ((column_index_from_string(m.group(3)), int(m.group(4))) if m.group(3)
-                      else (c1, r1))
-            keys = [(sheet, f"{get_column_letter(c)}{r}") for r in range(r1, r2 + 1)
-                    for c in range(c1, c2 + 1)]
             if not all(k in chart_values for k in keys):
                 return None
             return [chart_values[k] for k in keys]
