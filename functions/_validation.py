@@ -13,7 +13,7 @@ from typing import Any
 
 import numpy as np
 
-__all__ = ["as_array", "check_range", "scalar_or_array", "interval_text"]
+__all__ = ["as_array", "broadcast", "check_range", "scalar_or_array", "interval_text"]
 
 
 def _first_bad(values: np.ndarray, bad: np.ndarray) -> Any:
@@ -94,6 +94,25 @@ def check_range(name: str, value: Any, low: float = -math.inf, high: float = mat
         raise ValueError(f"{name}={_first_bad(arr, bad)!r} must be in "
                          f"{interval_text(low, high, low_open, high_open)}{suffix}")
     return arr
+
+
+def broadcast(**arrays: Any) -> list[np.ndarray]:
+    """Broadcast named arrays together or raise a ValueError naming them and their shapes.
+
+    Examples
+    --------
+    >>> [a.shape for a in broadcast(length=np.ones(3), g=9.8)]
+    [(3,), (3,)]
+    >>> broadcast(length=np.ones(3), g=np.ones(2))
+    Traceback (most recent call last):
+    ...
+    ValueError: arrays do not broadcast together: length(3,), g(2,)
+    """
+    try:
+        return list(np.broadcast_arrays(*arrays.values()))
+    except ValueError:
+        shapes = ", ".join(f"{k}{tuple(np.shape(v))}" for k, v in arrays.items())
+        raise ValueError(f"arrays do not broadcast together: {shapes}") from None
 
 
 def scalar_or_array(x: np.ndarray) -> float | np.ndarray:

@@ -45,7 +45,7 @@ import math
 import numpy as np
 from scipy.optimize import brentq
 
-from functions._validation import check_range, scalar_or_array
+from functions._validation import broadcast, check_range, scalar_or_array
 
 __all__ = [
     "OPTIMAL_TUNING_METHODS",
@@ -85,13 +85,6 @@ _EULER_GAMMA = 0.5772156649015329
 # --------------------------------------------------------------------------------------------
 # argument handling
 # --------------------------------------------------------------------------------------------
-def _broadcast(**arrays: np.ndarray) -> list[np.ndarray]:
-    """Broadcast named arrays together or raise a ValueError naming them and their shapes."""
-    try:
-        return list(np.broadcast_arrays(*arrays.values()))
-    except ValueError:
-        shapes = ", ".join(f"{k}{tuple(np.shape(v))}" for k, v in arrays.items())
-        raise ValueError(f"arrays do not broadcast together: {shapes}") from None
 
 
 def _mass_ratio(mass_ratio, high: float = math.inf) -> np.ndarray:
@@ -109,7 +102,7 @@ def _system(mass_ratio, tuning_ratio, damper_damping, structural_damping):
     f = check_range("tuning_ratio", tuning_ratio, 0.0, low_open=True, unit="-")
     zd = check_range("damper_damping", damper_damping, 0.0, unit="-")
     zs = _structural_damping(structural_damping)
-    return _broadcast(mass_ratio=mu, tuning_ratio=f, damper_damping=zd,
+    return broadcast(mass_ratio=mu, tuning_ratio=f, damper_damping=zd,
                       structural_damping=zs)
 
 
@@ -182,7 +175,7 @@ def damper_mass_ratio(damper_mass, modal_mass):
     """
     md = check_range("damper_mass", damper_mass, 0.0, low_open=True, unit="kg")
     mm = check_range("modal_mass", modal_mass, 0.0, low_open=True, unit="kg")
-    md, mm = _broadcast(damper_mass=md, modal_mass=mm)
+    md, mm = broadcast(damper_mass=md, modal_mass=mm)
     return scalar_or_array(md / mm)
 
 
@@ -527,7 +520,7 @@ def optimal_tuning(mass_ratio, method="den_hartog", structural_damping=0.0):
                          low_open=True, high_open=base, unit="-")
     zs = _structural_damping(structural_damping,
                              MAX_NUMERICAL_STRUCTURAL_DAMPING if numerical else 1.0)
-    mu, zs = _broadcast(mass_ratio=mu, structural_damping=zs)
+    mu, zs = broadcast(mass_ratio=mu, structural_damping=zs)
     if not numerical:
         if np.any(zs > 0.0):
             raise ValueError(
@@ -819,7 +812,7 @@ def required_damping(acceleration, acceleration_limit, structural_damping):
                       unit="m/s^2")
     zs = check_range("structural_damping", structural_damping, 0.0, 1.0, low_open=True,
                      high_open=True, unit="-")
-    a, lim, zs = _broadcast(acceleration=a, acceleration_limit=lim, structural_damping=zs)
+    a, lim, zs = broadcast(acceleration=a, acceleration_limit=lim, structural_damping=zs)
     return scalar_or_array(zs * (a / lim) ** 2)
 
 
@@ -875,7 +868,7 @@ def required_mass_ratio(total_damping, structural_damping=0.0):
     tot = check_range("total_damping", total_damping, 0.0, 1.0, low_open=True, high_open=True,
                       unit="-")
     zs = _structural_damping(structural_damping, MAX_NUMERICAL_STRUCTURAL_DAMPING)
-    tot, zs = _broadcast(total_damping=tot, structural_damping=zs)
+    tot, zs = broadcast(total_damping=tot, structural_damping=zs)
     out = np.zeros(tot.shape)
     lo, hi = MIN_NUMERICAL_MASS_RATIO, MAX_NUMERICAL_MASS_RATIO
     for idx in np.ndindex(tot.shape):
@@ -938,7 +931,7 @@ def peak_factor(frequency, duration=600.0):
     """
     nu = check_range("frequency", frequency, 0.0, low_open=True, unit="Hz")
     t = check_range("duration", duration, 0.0, low_open=True, unit="s")
-    nu, t = _broadcast(frequency=nu, duration=t)
+    nu, t = broadcast(frequency=nu, duration=t)
     n = nu * t
     if np.any(n <= math.e):
         bad = float(n[n <= math.e].flat[0])
@@ -1001,7 +994,7 @@ def frequency_response(frequency_ratio, mass_ratio=0.0, tuning_ratio=1.0, damper
     f = check_range("tuning_ratio", tuning_ratio, 0.0, low_open=True, unit="-")
     zd = check_range("damper_damping", damper_damping, 0.0, unit="-")
     zs = _structural_damping(structural_damping)
-    r, mu, f, zd, zs = _broadcast(frequency_ratio=r, mass_ratio=mu, tuning_ratio=f,
+    r, mu, f, zd, zs = broadcast(frequency_ratio=r, mass_ratio=mu, tuning_ratio=f,
                                   damper_damping=zd, structural_damping=zs)
     s = 1j * r
     d = s * s + 2.0 * zd * f * s + f * f

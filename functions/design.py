@@ -18,7 +18,7 @@ from typing import Any, NamedTuple
 
 import numpy as np
 
-from functions._validation import check_range, scalar_or_array
+from functions._validation import broadcast, check_range, scalar_or_array
 from functions.damper import (
     CLOSED_FORM_METHODS,
     OPTIMAL_TUNING_METHODS,
@@ -196,11 +196,7 @@ def pendulum_length(frequency, stroke, g=STANDARD_GRAVITY):
     f = check_range("frequency", frequency, 0.0, low_open=True, unit="Hz")
     x = check_range("stroke", stroke, 0.0, unit="m")
     gg = check_range("g", g, 0.0, low_open=True, unit="m/s^2")
-    try:
-        f, x, gg = np.broadcast_arrays(f, x, gg)
-    except ValueError:
-        raise ValueError(f"arrays do not broadcast together: frequency{f.shape}, "
-                         f"stroke{x.shape}, g{gg.shape}") from None
+    f, x, gg = broadcast(frequency=f, stroke=x, g=gg)
     length = np.asarray(equivalent_length(f, 0.0, gg), dtype=float)
     l0 = length.copy()
     for _ in range(10000):

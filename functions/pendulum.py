@@ -17,7 +17,7 @@ import math
 import numpy as np
 from scipy.special import ellipe, ellipj, ellipkm1
 
-from functions._validation import as_array, check_range, scalar_or_array
+from functions._validation import as_array, broadcast, check_range, scalar_or_array
 
 __all__ = [
     "STANDARD_GRAVITY",
@@ -457,7 +457,7 @@ def compound_pendulum_length(inertia_about_pivot, mass, pivot_to_centre):
                           unit="kg m^2")
     m = check_range("mass", mass, 0.0, low_open=True, unit="kg")
     d = check_range("pivot_to_centre", pivot_to_centre, 0.0, low_open=True, unit="m")
-    inertia, m, d = np.broadcast_arrays(inertia, m, d)
+    inertia, m, d = broadcast(inertia_about_pivot=inertia, mass=m, pivot_to_centre=d)
     bad = inertia < m * d * d * (1.0 - 1e-12)
     if bad.any():
         i = np.flatnonzero(bad.ravel())[0]
@@ -624,7 +624,7 @@ def swing_angle(stroke, length):
     """
     x = check_range("stroke", stroke, 0.0, unit="m")
     L = _length(length)
-    x, L = np.broadcast_arrays(x, L)
+    x, L = broadcast(stroke=x, length=L)
     bad = x > L
     if bad.any():
         i = np.flatnonzero(bad.ravel())[0]

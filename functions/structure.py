@@ -14,7 +14,7 @@ import operator
 
 import numpy as np
 
-from functions._validation import as_array, check_range, scalar_or_array
+from functions._validation import as_array, broadcast, check_range, scalar_or_array
 
 __all__ = [
     "MODE_SHAPE_EXPONENTS",
@@ -99,11 +99,7 @@ def modal_mass(floor_masses, mode_shape, damper_level=-1):
     phi = as_array("mode_shape", mode_shape)
     if m.ndim == 0 or phi.ndim == 0:
         raise ValueError("floor_masses and mode_shape must list the levels on their last axis")
-    try:
-        m, phi = np.broadcast_arrays(m, phi)
-    except ValueError:
-        raise ValueError(f"arrays do not broadcast together: floor_masses{m.shape}, "
-                         f"mode_shape{phi.shape}") from None
+    m, phi = broadcast(floor_masses=m, mode_shape=phi)
     n = m.shape[-1]
     try:
         level = operator.index(damper_level)
@@ -163,11 +159,7 @@ def power_law_mode_shape(height, building_height, exponent):
     z = check_range("height", height, 0.0, unit="m")
     h = check_range("building_height", building_height, 0.0, low_open=True, unit="m")
     e = check_range("exponent", exponent, 0.0, low_open=True, unit="-")
-    try:
-        z, h, e = np.broadcast_arrays(z, h, e)
-    except ValueError:
-        raise ValueError(f"arrays do not broadcast together: height{z.shape}, "
-                         f"building_height{h.shape}, exponent{e.shape}") from None
+    z, h, e = broadcast(height=z, building_height=h, exponent=e)
     if np.any(z > h):
         i = int(np.flatnonzero((z > h).ravel())[0])
         raise ValueError(f"height={z.ravel()[i].item()!r} must be in [0, building_height] = "
@@ -218,11 +210,7 @@ def power_law_modal_mass(mass_per_height, building_height, exponent):
     m = check_range("mass_per_height", mass_per_height, 0.0, low_open=True, unit="kg/m")
     h = check_range("building_height", building_height, 0.0, low_open=True, unit="m")
     e = check_range("exponent", exponent, 0.0, low_open=True, unit="-")
-    try:
-        m, h, e = np.broadcast_arrays(m, h, e)
-    except ValueError:
-        raise ValueError(f"arrays do not broadcast together: mass_per_height{m.shape}, "
-                         f"building_height{h.shape}, exponent{e.shape}") from None
+    m, h, e = broadcast(mass_per_height=m, building_height=h, exponent=e)
     return scalar_or_array(m * h / (2.0 * e + 1.0))
 
 

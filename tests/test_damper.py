@@ -223,7 +223,7 @@ WARBURTON = {
 
 @pytest.mark.parametrize("method", sorted(WARBURTON))
 @pytest.mark.parametrize("mu", [0.005, 0.02, 0.1, 0.5])
-def test_warburton_transcription(method, mu):
+def test_warburton_closed_forms_match_engine(method, mu):
     f, zd = optimal_tuning(mu, method)
     assert (f, zd) == pytest.approx(WARBURTON[method](mu), rel=1e-14)
 
