@@ -46,10 +46,12 @@ import numpy as np
 from scipy.optimize import brentq
 
 from functions._validation import broadcast, check_range, scalar_or_array
+from functions.worksheet import twin
 
 __all__ = [
     "OPTIMAL_TUNING_METHODS",
     "CLOSED_FORM_METHODS",
+    "CLOSED_FORMS",
     "damper_mass_ratio",
     "optimal_tuning",
     "displacement_variance_ratio",
@@ -179,26 +181,69 @@ def damper_mass_ratio(damper_mass, modal_mass):
     return scalar_or_array(md / mm)
 
 
+def _form(formula: str, expression: str, source: str, compute):
+    return twin(formula, compute, expression, source)
+
+
+_DEN_HARTOG = "Den Hartog (1956) §3.3, damping referred to the damper's own frequency"
+_WARBURTON_HB = "Warburton (1982), harmonic base acceleration"
+_WARBURTON_WF = "Warburton (1982), white-noise force"
+_WARBURTON_WB = "Warburton (1982), white-noise base acceleration"
+_NISHIHARA_ASAMI = "Nishihara & Asami (2002), exact H-infinity optimum"
+
+#: Closed-form optima as (tuning ratio, damper damping) twins: numpy functions of the mass
+#: ratio carrying their native worksheet formula (:func:`functions.worksheet.twin`). Den
+#: Hartog prints the damping on the structure's frequency, sqrt(3 mu / (8 (1+mu)^3)); divided
+#: by f = 1/(1+mu) it is referred to the damper's own frequency.
+CLOSED_FORMS: dict[str, tuple] = {
+    "den_hartog": (
+        _form("=1/(1+mass_ratio)", "1 / (1 + mu)", _DEN_HARTOG,
+              lambda mass_ratio: 1.0 / (1.0 + mass_ratio)),
+        _form("=SQRT(3*mass_ratio/(8*(1+mass_ratio)))", "sqrt(3 mu / (8 (1 + mu)))",
+              _DEN_HARTOG,
+              lambda mass_ratio: np.sqrt(3.0 * mass_ratio / (8.0 * (1.0 + mass_ratio))))),
+    "harmonic_base": (
+        _form("=SQRT(1-mass_ratio/2)/(1+mass_ratio)", "sqrt(1 - mu/2) / (1 + mu)",
+              _WARBURTON_HB,
+              lambda mass_ratio: np.sqrt(1.0 - mass_ratio / 2.0) / (1.0 + mass_ratio)),
+        _form("=SQRT(3*mass_ratio/(8*(1+mass_ratio)*(1-mass_ratio/2)))",
+              "sqrt(3 mu / (8 (1 + mu)(1 - mu/2)))", _WARBURTON_HB,
+              lambda mass_ratio: np.sqrt(3.0 * mass_ratio / (
+                  8.0 * (1.0 + mass_ratio) * (1.0 - mass_ratio / 2.0))))),
+    "white_noise_force": (
+        _form("=SQRT(1+mass_ratio/2)/(1+mass_ratio)", "sqrt(1 + mu/2) / (1 + mu)",
+              _WARBURTON_WF,
+              lambda mass_ratio: np.sqrt(1.0 + mass_ratio / 2.0) / (1.0 + mass_ratio)),
+        _form("=SQRT(mass_ratio*(1+3*mass_ratio/4)/(4*(1+mass_ratio)*(1+mass_ratio/2)))",
+              "sqrt(mu (1 + 3 mu/4) / (4 (1 + mu)(1 + mu/2)))", _WARBURTON_WF,
+              lambda mass_ratio: np.sqrt(mass_ratio * (1.0 + 3.0 * mass_ratio / 4.0) / (
+                  4.0 * (1.0 + mass_ratio) * (1.0 + mass_ratio / 2.0))))),
+    "white_noise_base": (
+        _form("=SQRT(1-mass_ratio/2)/(1+mass_ratio)", "sqrt(1 - mu/2) / (1 + mu)",
+              _WARBURTON_WB,
+              lambda mass_ratio: np.sqrt(1.0 - mass_ratio / 2.0) / (1.0 + mass_ratio)),
+        _form("=SQRT(mass_ratio*(1-mass_ratio/4)/(4*(1+mass_ratio)*(1-mass_ratio/2)))",
+              "sqrt(mu (1 - mu/4) / (4 (1 + mu)(1 - mu/2)))", _WARBURTON_WB,
+              lambda mass_ratio: np.sqrt(mass_ratio * (1.0 - mass_ratio / 4.0) / (
+                  4.0 * (1.0 + mass_ratio) * (1.0 - mass_ratio / 2.0))))),
+    "nishihara_asami": (
+        _form("=SQRT(8*(5+3*mass_ratio+2*SQRT(4+3*mass_ratio))/(3*(16+9*mass_ratio+"
+              "4*SQRT(4+3*mass_ratio))*(1+mass_ratio)^2))",
+              "sqrt(8 (5 + 3 mu + 2 s) / (3 (16 + 9 mu + 4 s)(1 + mu)^2)), s = sqrt(4 + 3 mu)",
+              _NISHIHARA_ASAMI,
+              lambda mass_ratio: np.sqrt(8.0 * (5.0 + 3.0 * mass_ratio + 2.0 * np.sqrt(
+                  4.0 + 3.0 * mass_ratio)) / (3.0 * (16.0 + 9.0 * mass_ratio + 4.0 * np.sqrt(
+                      4.0 + 3.0 * mass_ratio)) * (1.0 + mass_ratio) ** 2))),
+        _form("=SQRT((8+9*mass_ratio-4*SQRT(4+3*mass_ratio))/(1+mass_ratio))/4",
+              "sqrt((8 + 9 mu - 4 s) / (1 + mu)) / 4", _NISHIHARA_ASAMI,
+              lambda mass_ratio: 0.25 * np.sqrt((8.0 + 9.0 * mass_ratio - 4.0 * np.sqrt(
+                  4.0 + 3.0 * mass_ratio)) / (1.0 + mass_ratio)))),
+}
+
+
 def _closed_form(mu: np.ndarray, method: str) -> tuple[np.ndarray, np.ndarray]:
-    if method == "den_hartog":
-        f = 1.0 / (1.0 + mu)
-        # Den Hartog's c/(2 m_d omega_s) = sqrt(3 mu / (8 (1+mu)^3)); divided by f -> own frequency
-        zd = np.sqrt(3.0 * mu / (8.0 * (1.0 + mu)))
-    elif method == "harmonic_base":
-        f = np.sqrt(1.0 - mu / 2.0) / (1.0 + mu)
-        zd = np.sqrt(3.0 * mu / (8.0 * (1.0 + mu) * (1.0 - mu / 2.0)))
-    elif method == "white_noise_force":
-        f = np.sqrt(1.0 + mu / 2.0) / (1.0 + mu)
-        zd = np.sqrt(mu * (1.0 + 3.0 * mu / 4.0) / (4.0 * (1.0 + mu) * (1.0 + mu / 2.0)))
-    elif method == "white_noise_base":
-        f = np.sqrt(1.0 - mu / 2.0) / (1.0 + mu)
-        zd = np.sqrt(mu * (1.0 - mu / 4.0) / (4.0 * (1.0 + mu) * (1.0 - mu / 2.0)))
-    else:  # nishihara_asami
-        s = np.sqrt(4.0 + 3.0 * mu)
-        zd = 0.25 * np.sqrt((8.0 + 9.0 * mu - 4.0 * s) / (1.0 + mu))
-        f = np.sqrt(8.0 * (5.0 + 3.0 * mu + 2.0 * s)
-                    / (3.0 * (16.0 + 9.0 * mu + 4.0 * s) * (1.0 + mu) ** 2))
-    return f, zd
+    tuning, damping = CLOSED_FORMS[method]
+    return tuning(mu), damping(mu)
 
 
 # --- numerical optima ------------------------------------------------------------------------

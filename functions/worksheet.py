@@ -1,0 +1,110 @@
+# SPDX-License-Identifier: MIT
+"""Closed forms written twice: as numpy and as a native worksheet formula, side by side.
+
+A workbook shows every closed form of the design as a native formula over defined names, so a
+checking engineer can read and follow it; the engine computes the same closed form with numpy.
+:func:`twin` attaches the worksheet formula to the numpy function that the engine calls, in the
+place where that function is declared, so the two are read, changed and tested together::
+
+    required_damping = twin("=structural_damping*(acceleration/acceleration_limit)^2",
+                            lambda structural_damping, acceleration, acceleration_limit:
+                            structural_damping * (acceleration / acceleration_limit) ** 2)
+
+The function's parameters are the defined names its formula reads (checked when the twin is
+made). ``tests/test_worksheet_twins.py`` evaluates every formula with the workbook builder's
+formula evaluator over the valid range of its inputs and compares it with the numpy result.
+Nothing here imports a spreadsheet library.
+"""
+from __future__ import annotations
+
+import inspect
+import re
+from dataclasses import dataclass
+from typing import Any, Callable
+
+__all__ = ["WorksheetForm", "twin", "formula_names", "form_of"]
+
+# Strings, numbers (with exponents) and names; a name followed by "(" is a function.
+_TOKEN = re.compile(r'"(?:[^"]|"")*"|\d+(?:\.\d*)?(?:[Ee][+-]?\d+)?|\.\d+(?:[Ee][+-]?\d+)?'
+                    r"|[A-Za-z_][A-Za-z0-9_.]*(?:\s*\()?")
+_CELL = re.compile(r"^\$?[A-Za-z]{1,3}\$?\d+$")
+
+
+@dataclass(frozen=True)
+class WorksheetForm:
+    """The worksheet side of a twin: formula text, the names it reads, how it reads, source."""
+
+    formula: str
+    names: tuple[str, ...]
+    expression: str = ""
+    source: str = ""
+
+
+def formula_names(formula: str) -> tuple[str, ...]:
+    """Defined names a worksheet formula reads, in order of first use.
+
+    Examples
+    --------
+    >>> formula_names("=SQRT(structural_damping/effective_damping)*acceleration")
+    ('structural_damping', 'effective_damping', 'acceleration')
+    >>> formula_names('=IF(stroke<=clearance*(1+1E-9),"OK","NOT OK")')
+    ('stroke', 'clearance')
+    """
+    names: list[str] = []
+    for token in _TOKEN.findall(formula):
+        if token.startswith('"') or token[0].isdigit() or token[0] == ".":
+            continue
+        if token.rstrip().endswith("("):
+            continue                                  # a worksheet function
+        if token.upper() in ("TRUE", "FALSE") or _CELL.match(token):
+            continue
+        if token not in names:
+            names.append(token)
+    return tuple(names)
+
+
+def twin(formula: str, compute: Callable[..., Any], expression: str = "",
+         source: str = "") -> Callable[..., Any]:
+    """Attach a worksheet formula to the numpy function that computes the same closed form.
+
+    Parameters
+    ----------
+    formula : str
+        Native worksheet formula, starting with ``=``, over defined names [-].
+    compute : callable
+        Numpy function whose parameters are exactly the names ``formula`` reads [-].
+    expression : str, optional
+        The formula as an engineer writes it, e.g. ``zeta_s (a / a_lim)^2`` [-].
+    source : str, optional
+        Where the closed form comes from [-].
+
+    Returns
+    -------
+    compute : callable
+        The same function, with the attribute ``worksheet`` (:class:`WorksheetForm`) [-].
+
+    Raises
+    ------
+    TypeError
+        When the formula does not start with ``=`` or its names differ from the parameters.
+
+    Examples
+    --------
+    >>> f = twin("=1/(1+mass_ratio)", lambda mass_ratio: 1.0 / (1.0 + mass_ratio))
+    >>> f(0.02), f.worksheet.names
+    (0.9803921568627451, ('mass_ratio',))
+    """
+    if not formula.startswith("="):
+        raise TypeError(f"formula={formula!r} must start with '='")
+    params = tuple(inspect.signature(compute).parameters)
+    names = formula_names(formula)
+    if set(params) != set(names):
+        raise TypeError(f"formula={formula!r} reads {sorted(names)} but its numpy twin takes "
+                        f"{sorted(params)}")
+    compute.worksheet = WorksheetForm(formula, params, expression, source)  # type: ignore
+    return compute
+
+
+def form_of(compute: Callable[..., Any]) -> WorksheetForm | None:
+    """The :class:`WorksheetForm` of a twin, or None for a function without one."""
+    return getattr(compute, "worksheet", None)
