@@ -29,7 +29,7 @@ import math
 from dataclasses import dataclass
 from typing import Any, Callable
 
-from functions import damper, design, pendulum, simulation, structure
+from functions import damper, design, pendulum, quantities, simulation, structure
 
 __all__ = [
     "PREFIX", "CATEGORY", "NUMBER", "ROWS", "TEXT", "FLAG", "ELEMENTWISE", "ROW_REDUCE", "LISTS",
@@ -552,72 +552,63 @@ SIMULATION: tuple[SheetFunction, ...] = (
 
 
 def _design_fields() -> tuple[tuple[str, str, str], ...]:
-    out = [(n, design.QUANTITIES[n].unit, design.QUANTITIES[n].description)
-           for n in design.RESULT_NAMES]
-    out += [(n, "-", q.description + " (1 yes, 0 no)")
-            for n, q in design.QUANTITIES.items() if n.endswith("_ok")]
+    """Numbers returned by SWAY_DESIGN: every result of the chain, then the check verdicts."""
+    out = [(q.name, q.unit, q.description) for q in quantities.design_results()]
+    out += [(f"{rule.name}_ok", "-", f"{rule.label} (1 yes, 0 no)")
+            for rule in design.CHECK_RULES]
+    out.append(("all_ok", "-", "Every design check passes (1 yes, 0 no)"))
     return tuple(out)
+
+
+def _design_arguments() -> tuple[Argument, ...]:
+    """Arguments of SWAY_DESIGN, one per design input, from :mod:`functions.quantities`."""
+    args = []
+    for q in quantities.design_inputs():
+        default = _REQUIRED if q.required else (None if q.optional else q.default)
+        args.append(Argument(q.name, q.help_text(), q.unit or "-", default=default,
+                             kind=TEXT if q.kind == "choice" else NUMBER, choices=q.choices,
+                             fraction=q.kind == "fraction" and q.high <= 1.0))
+    # required first (a worksheet function lists them before the optional ones)
+    return tuple(sorted(args, key=lambda a: a.optional))
+
+
+def design_sheet_functions() -> tuple[SheetFunction, ...]:
+    """SWAY_PENDULUM_LENGTH, SWAY_DESIGN and SWAY_DESIGN_FIELDS from the current declarations."""
+    fields = _design_fields()
+    return (
+        SheetFunction(
+            "SWAY_PENDULUM_LENGTH", pendulum.pendulum_length,
+            "Pendulum length in tune at the swing its own stroke causes: L = equivalent length "
+            "of f_d at asin(stroke / L) [m].",
+            "Pendulum length", "m",
+            (Argument("frequency", "Damper frequency the pendulum must have at its design "
+                      "swing, > 0 [Hz].", "Hz"),
+             Argument("stroke", "Peak horizontal stroke of the mass, >= 0 [m].", "m"),
+             GRAVITY),
+            "design", example=(0.15, 0.95)),
+        SheetFunction(
+            "SWAY_DESIGN", design.design_damper,
+            "Whole damper design chain for one mode: mass, tuning, damping, stroke, pendulum "
+            "length, stiffness, dashpot and checks, as a column; labels: SWAY_DESIGN_FIELDS() "
+            "[-].",
+            "Column of design results and check verdicts", "-", _design_arguments(), "design",
+            kind=SUMMARY, fields=fields, signature_of=design.DesignInputs,
+            example=(0.15, 2.0e7, 0.015, 0.25, 0.15, 1.2),
+            notes="Check verdicts are 1 (passes) or 0 (fails). A row of cases gives one column "
+                  "per case, a column of cases one row per case."),
+        SheetFunction(
+            "SWAY_DESIGN_FIELDS", design.design_damper,
+            "Names and units of the numbers of SWAY_DESIGN, as a column of texts (put it beside "
+            "the design) [-].",
+            "Column of labels", "-", (), "design", kind=FIELDS, fields=fields,
+            signature_of=design.DesignInputs),
+    )
 
 
 #: Numbers returned by SWAY_DESIGN: every result of the chain, then the check verdicts.
 DESIGN_FIELDS = _design_fields()
 
-_DESIGN_ARGS = (
-    Argument("frequency", "Natural frequency of the structure's mode, > 0 [Hz].", "Hz"),
-    Argument("modal_mass", "Generalised mass of the mode, normalised to 1 at the damper, > 0 "
-             "[kg].", "kg"),
-    Argument("structural_damping", "Damping ratio of the mode without the damper, > 0 to 0.3 "
-             "(0.015 for 1.5 %) [-].", "-", fraction=True),
-    Argument("acceleration", "Peak acceleration without the damper, > 0 [m/s^2].", "m/s^2"),
-    Argument("acceleration_limit", "Acceptable peak acceleration, > 0 [m/s^2].", "m/s^2"),
-    Argument("clearance", "Available peak stroke of the damper, one side, > 0 [m].", "m"),
-    Argument("damper_mass", "Damper mass if chosen, > 0 [kg]. Empty: the required mass "
-             "ratio is used (or mass_ratio). Give at most one of the two [kg].", "kg",
-             default=None),
-    Argument("mass_ratio", "Mass ratio if chosen, > 0 (0.02 for 2 %) [-]. Empty: the required "
-             "mass ratio (or damper_mass).", "-", default=None, fraction=True),
-    Argument("tuning_method", "Optimal tuning method: h2, hinf, den_hartog, harmonic_base, "
-             "white_noise_force, white_noise_base or nishihara_asami [-]. Empty: h2.", "-",
-             default="h2", kind=TEXT, choices=damper.OPTIMAL_TUNING_METHODS),
-    Argument("max_swing_deg", "Largest accepted swing angle, > 0 and < 90 [deg]. Empty: 15.",
-             "deg", default=15.0),
-    Argument("max_detuning", "Largest accepted |detuning| between small and design swing, "
-             "> 0 and < 1 [-]. Empty: 0.01.", "-", default=0.01, fraction=True),
-    Argument("mass_ratio_min", "Smallest practical mass ratio, > 0 [-] (common practice, no "
-             "source). Empty: 0.005.", "-", default=0.005, fraction=True),
-    Argument("mass_ratio_max", "Largest practical mass ratio, >= mass_ratio_min [-] (common "
-             "practice, no source). Empty: 0.05.", "-", default=0.05, fraction=True),
-    Argument("g", "Acceleration of gravity, > 0 [m/s^2]. Empty: 9.80665 [m/s^2].", "m/s^2",
-             default=_G),
-)
-
-DESIGN: tuple[SheetFunction, ...] = (
-    SheetFunction(
-        "SWAY_PENDULUM_LENGTH", design.pendulum_length,
-        "Pendulum length in tune at the swing its own stroke causes: L = equivalent length of "
-        "f_d at asin(stroke / L) [m].",
-        "Pendulum length", "m",
-        (Argument("frequency", "Damper frequency the pendulum must have at its design swing, > 0 "
-                  "[Hz].", "Hz"),
-         Argument("stroke", "Peak horizontal stroke of the mass, >= 0 [m].", "m"),
-         GRAVITY),
-        "design", example=(0.15, 0.95)),
-    SheetFunction(
-        "SWAY_DESIGN", design.design_damper,
-        "Whole damper design chain for one mode: mass, tuning, damping, stroke, pendulum "
-        "length, stiffness, dashpot and checks, as a column; labels: SWAY_DESIGN_FIELDS() [-].",
-        "Column of design results and check verdicts", "-", _DESIGN_ARGS, "design",
-        kind=SUMMARY, fields=DESIGN_FIELDS, signature_of=design.DesignInputs,
-        example=(0.15, 2.0e7, 0.015, 0.25, 0.15, 1.2),
-        notes="Check verdicts are 1 (passes) or 0 (fails). A row of cases gives one column per "
-              "case, a column of cases one row per case."),
-    SheetFunction(
-        "SWAY_DESIGN_FIELDS", design.design_damper,
-        "Names and units of the numbers of SWAY_DESIGN, as a column of texts (put it beside "
-        "the design) [-].",
-        "Column of labels", "-", (), "design", kind=FIELDS, fields=DESIGN_FIELDS,
-        signature_of=design.DesignInputs),
-)
+DESIGN: tuple[SheetFunction, ...] = design_sheet_functions()
 
 #: Every worksheet function, in documentation order.
 FUNCTIONS: tuple[SheetFunction, ...] = (PENDULUM + STRUCTURE + DAMPER + SIMULATION
@@ -628,6 +619,9 @@ BY_NAME: dict[str, SheetFunction] = {f.name: f for f in FUNCTIONS}
 
 #: Public engine functions with no worksheet function of their own, and why.
 COVERED_ELSEWHERE: dict[str, str] = {
+    "functions.design.design_tuning":
+        "the optimum as the design chain applies it; SWAY_OPTIMAL_TUNING_RATIO and "
+        "SWAY_OPTIMAL_DAMPER_DAMPING give it (structural_damping 0 for a closed form)",
     "functions.simulation.simulate":
         "returns time histories and result objects; SWAY_SIMULATION_SUMMARY gives its key "
         "numbers",

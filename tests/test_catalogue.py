@@ -186,11 +186,12 @@ def test_summary_fields_are_the_engine_fields():
     assert catalogue.BY_NAME["SWAY_SIMULATION_SUMMARY"].fields == simulation.SUMMARY_FIELDS
     names = [f[0] for f in catalogue.BY_NAME["SWAY_RANDOM_RESPONSE_THEORY"].fields]
     assert names == [f.name for f in dataclasses.fields(simulation.RandomTheory)]
-    from functions import design
+    from functions import design, quantities
     names = [f[0] for f in catalogue.BY_NAME["SWAY_DESIGN"].fields]
-    assert names == list(design.RESULT_NAMES) + [n for n in design.QUANTITIES if n.endswith("_ok")]
+    results = quantities.by_name(quantities.DESIGN_RESULTS)
+    assert names == list(results) + [f"{n}_ok" for n in design.CHECK_NAMES] + ["all_ok"]
     for name, unit, _text in catalogue.BY_NAME["SWAY_DESIGN"].fields:
-        assert unit == (design.QUANTITIES[name].unit or "-")
+        assert unit == (results[name].unit if name in results else "-")
     for fn in FUNCTIONS:
         if fn.kind in (catalogue.SUMMARY, catalogue.FIELDS):
             assert fn.fields and all(len(f) == 3 for f in fn.fields)
@@ -199,7 +200,10 @@ def test_summary_fields_are_the_engine_fields():
 
 
 def _engine_modules():
-    skip = {"functions._validation", "functions.udf", "functions.catalogue"}
+    # validation helpers, declarations (quantities, worksheet twins, the chain's steps) and the
+    # spreadsheet layer itself are not engine functions
+    skip = {"functions._validation", "functions.udf", "functions.catalogue",
+            "functions.quantities", "functions.worksheet", "functions.chain"}
     for info in pkgutil.iter_modules(functions.__path__, "functions."):
         if info.name not in skip:
             yield importlib.import_module(info.name)

@@ -19,16 +19,17 @@ from functions.damper import OPTIMAL_TUNING_METHODS, optimal_tuning
 from functions.design import (
     CAUTION,
     CHECK_NAMES,
-    INPUT_NAMES,
-    QUANTITIES,
-    RESULT_NAMES,
+    CHECK_RULES,
     Check,
     DesignInputs,
-    DesignResult,
     design_damper,
-    pendulum_length,
+    design_tuning,
 )
-from functions.pendulum import STANDARD_GRAVITY
+from functions.pendulum import STANDARD_GRAVITY, pendulum_length
+from functions.quantities import DESIGN_INPUTS, DESIGN_RESULTS
+
+INPUT_NAMES = tuple(q.name for q in DESIGN_INPUTS)
+RESULT_NAMES = tuple(q.name for q in DESIGN_RESULTS)
 
 BASE = dict(frequency=0.15, modal_mass=2.0e7, structural_damping=0.015, acceleration=0.25,
             acceleration_limit=0.15, clearance=1.2)
@@ -146,7 +147,7 @@ def test_design_with_given_damper_mass_or_mass_ratio():
 def test_design_replace_fields():
     base = DesignInputs(**BASE)
     r1 = design_damper(base, tuning_method="hinf")
-    r2 = design_damper(dataclasses.replace(base, tuning_method="hinf"))
+    r2 = design_damper(base.replace(tuning_method="hinf"))
     assert r1.tuning_ratio == r2.tuning_ratio
     assert r1.inputs.tuning_method == "hinf"
 
@@ -185,20 +186,41 @@ def test_failing_checks():
 # ---------------------------------------------------------------------------------------------
 # metadata
 # ---------------------------------------------------------------------------------------------
-def test_quantities_cover_to_dict():
+def test_to_dict_covers_inputs_results_and_verdicts():
     d = design_damper(**BASE).to_dict()
-    assert list(d) == list(QUANTITIES)
-    assert set(RESULT_NAMES) <= set(d)
-    assert set(INPUT_NAMES) - {"damper_mass", "mass_ratio"} <= set(d)
-    assert {f"{n}_ok" for n in CHECK_NAMES} | {"all_ok"} <= set(d)
-    for name, q in QUANTITIES.items():
-        assert q.description, name
-        if name in RESULT_NAMES or name in INPUT_NAMES and name != "tuning_method":
-            assert q.unit in {"-", "Hz", "kg", "m", "m/s^2", "deg", "N/m", "N s/m"}, name
-    # field order of the result follows the contract (engineer's checking order)
-    fields = [f.name for f in dataclasses.fields(DesignResult)]
-    assert fields == ["inputs", *RESULT_NAMES, "checks"]
-    assert list(RESULT_NAMES) == [n for n in QUANTITIES if n in RESULT_NAMES]
+    inputs = [n for n in INPUT_NAMES if n not in RESULT_NAMES]
+    verdicts = [f"{n}_ok" for n in CHECK_NAMES] + ["all_ok"]
+    assert list(d) == inputs + list(RESULT_NAMES) + verdicts
+    for q in DESIGN_RESULTS:
+        assert q.description and q.symbol, q.name
+        assert q.unit in {"-", "Hz", "kg", "m", "m/s^2", "deg", "N/m", "N s/m"}, q.name
+    r = design_damper(**BASE)
+    for name in RESULT_NAMES:
+        assert getattr(r, name) == d[name]
+
+
+def test_result_cells_hold_every_step_and_input():
+    r = design_damper(**BASE, tuning_method="hinf")
+    assert r.cells["structure_frequency"] == 0.15 and r.cells["gravity"] == STANDARD_GRAVITY
+    assert r.cells["effective_damping"] == pytest.approx(
+        r.cells["var_d"] / r.cells["var_n"], rel=1e-15)
+    assert (r.method, r.mode) == ("hinf", "required")
+    with pytest.raises(AttributeError, match="no result 'nonsense'"):
+        r.nonsense
+
+
+def test_verdict_formula_is_the_engine_rule():
+    acc = CHECK_RULES[0]
+    assert acc.verdict_formula == ('=IF(acceleration_with_damper<=acceleration_limit*(1+1E-09),'
+                                   '"OK","NOT OK")')
+    mass = CHECK_RULES[-1]
+    assert mass.verdict_formula == ('=IF(AND(mass_ratio>=mass_ratio_min,mass_ratio<='
+                                    'mass_ratio_max),"OK","NOT OK")')
+
+
+def test_design_tuning_ignores_structural_damping_for_closed_forms():
+    assert design_tuning(0.02, "den_hartog", 0.01) == optimal_tuning(0.02, "den_hartog")
+    assert design_tuning(0.02, "h2", 0.01) == optimal_tuning(0.02, "h2", 0.01)
 
 
 def test_caution_text():
@@ -208,6 +230,9 @@ def test_caution_text():
 def test_inputs_frozen_and_floats():
     p = DesignInputs(**{**BASE, "frequency": np.float64(0.15)})
     assert type(p.frequency) is float
+    assert p.mass_ratio is None and p.max_swing_deg == 15.0 and p.replace(mass_ratio=0.02) != p
+    with pytest.raises(TypeError, match="unexpected field"):
+        DesignInputs(**BASE, swing=3.0)
     with pytest.raises(dataclasses.FrozenInstanceError):
         p.frequency = 0.2  # type: ignore[misc]
     assert isinstance(design_damper(p).checks[0], Check)
@@ -217,22 +242,23 @@ def test_inputs_frozen_and_floats():
 # validation
 # ---------------------------------------------------------------------------------------------
 @pytest.mark.parametrize("change, match", [
-    ({"frequency": 0.0}, r"frequency=0\.0 must be in \(0, inf\) \[Hz\]"),
-    ({"modal_mass": -1.0}, r"modal_mass=-1\.0 must be in \(0, inf\) \[kg\]"),
-    ({"structural_damping": 0.0}, r"structural_damping=0\.0 must be in \(0, 0\.3\]"),
-    ({"structural_damping": 1.0}, r"structural_damping=1\.0 must be in \(0, 0\.3\]"),
-    ({"acceleration": -0.1}, r"acceleration=-0\.1 must be in \(0, inf\) \[m/s\^2\]"),
-    ({"acceleration_limit": 0.0}, r"acceleration_limit=0\.0 must be in \(0, inf\)"),
-    ({"damper_mass": 0.0}, r"damper_mass=0\.0 must be in \(0, inf\) \[kg\]"),
-    ({"mass_ratio": -0.01}, r"mass_ratio=-0\.01 must be in \(0, inf\)"),
+    ({"frequency": 0.0}, r"frequency=0\.0 must be in \[0\.01, 20\] \[Hz\]"),
+    ({"frequency": 25.0}, r"frequency=25\.0 must be in \[0\.01, 20\] \[Hz\]"),
+    ({"modal_mass": -1.0}, r"modal_mass=-1\.0 must be in \(0, 1e\+11\] \[kg\]"),
+    ({"structural_damping": 0.0}, r"structural_damping=0\.0 must be in \(0, 0\.2\]"),
+    ({"structural_damping": 1.0}, r"structural_damping=1\.0 must be in \(0, 0\.2\]"),
+    ({"acceleration": -0.1}, r"acceleration=-0\.1 must be in \(0, 10\] \[m/s\^2\]"),
+    ({"acceleration_limit": 0.0}, r"acceleration_limit=0\.0 must be in \(0, 10\]"),
+    ({"damper_mass": 0.0}, r"damper_mass=0\.0 must be in \(0, 1e\+10\] \[kg\]"),
+    ({"mass_ratio": -0.01}, r"mass_ratio=-0\.01 must be in \(0, 0\.2\]"),
     ({"mass_ratio": 0.01, "damper_mass": 1e5}, r"give at most one of them"),
     ({"tuning_method": "fast"}, r"tuning_method='fast' must be one of"),
-    ({"clearance": 0.0}, r"clearance=0\.0 must be in \(0, inf\) \[m\]"),
-    ({"max_swing_deg": 90.0}, r"max_swing_deg=90\.0 must be in \(0, 90\) \[deg\]"),
-    ({"max_detuning": 0.0}, r"max_detuning=0\.0 must be in \(0, 1\)"),
-    ({"mass_ratio_min": 0.0}, r"mass_ratio_min=0\.0 must be in \(0, inf\)"),
-    ({"mass_ratio_max": 0.001}, r"mass_ratio_max=0\.001 must be in \(0\.005, inf\)"),
-    ({"g": -9.8}, r"g=-9\.8 must be in \(0, inf\)"),
+    ({"clearance": 0.0}, r"clearance=0\.0 must be in \(0, 100\] \[m\]"),
+    ({"max_swing_deg": 90.0}, r"max_swing_deg=90\.0 must be in \(0, 45\] \[deg\]"),
+    ({"max_detuning": 0.0}, r"max_detuning=0\.0 must be in \(0, 0\.2\]"),
+    ({"mass_ratio_min": -0.001}, r"mass_ratio_min=-0\.001 must be in \[0, 0\.2\]"),
+    ({"mass_ratio_max": 0.001}, r"mass_ratio_max=0\.001 must be above mass_ratio_min=0\.005"),
+    ({"g": 9.6}, r"g=9\.6 must be in \[9\.7, 9\.9\]"),
     ({"frequency": [0.1, 0.2]}, r"frequency=\[0\.1, 0\.2\] must be a single number"),
     ({"frequency": "fast"}, r"frequency='fast' must be a finite number"),
 ])
@@ -264,5 +290,11 @@ def test_requirement_out_of_reach():
 def test_stroke_out_of_reach():
     # an absurdly soft, lightly damped design: the stroke exceeds what a pendulum can swing
     with pytest.raises(ValueError, match=r"too large for a pendulum"):
-        design_damper(frequency=0.5, modal_mass=1e6, structural_damping=0.01,
-                      acceleration=20.0, acceleration_limit=1.0, clearance=5.0, mass_ratio=1e-3)
+        design_damper(frequency=2.0, modal_mass=1e6, structural_damping=0.01,
+                      acceleration=10.0, acceleration_limit=1.0, clearance=5.0, mass_ratio=1e-3)
+
+
+def test_mass_ratio_min_zero_means_no_lower_end():
+    # the project file and the engine accept the same range [0, 0.2] (functions.quantities)
+    r = design_damper(**BASE, mass_ratio=0.002, mass_ratio_min=0.0)
+    assert r.check("mass_ratio").ok and r.check("mass_ratio").lower == 0.0

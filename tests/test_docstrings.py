@@ -1,7 +1,7 @@
 # SPDX-License-Identifier: MIT
 """Every public engine function documents each parameter and return with its unit.
 
-The template (GUIDE.md): summary line under 64 characters ending with a period, a ``.. math::``
+The template (DEVELOPERS.md, "Adding an engine function"): summary line under 64 characters ending with a period, a ``.. math::``
 block, ``Parameters`` and ``Returns`` whose entries end with a unit in brackets, ``Raises``,
 ``Examples`` with a doctest and numbered ``References``.
 """
@@ -16,10 +16,11 @@ import pytest
 
 import functions
 
-# Modules of the engine whose public functions follow the template. The validation helpers and
-# the spreadsheet layer (udf, catalogue: thin wrappers documented for the function wizard) are not
-# engine functions.
-SKIP_MODULES = {"functions._validation", "functions.udf", "functions.catalogue"}
+# Modules of the engine whose public functions follow the template. The validation helpers, the
+# declarations (quantities, worksheet twins, the chain's steps) and the spreadsheet layer (udf,
+# catalogue: thin wrappers documented for the function wizard) are not engine functions.
+SKIP_MODULES = {"functions._validation", "functions.udf", "functions.catalogue",
+                "functions.quantities", "functions.worksheet", "functions.chain"}
 
 UNIT = re.compile(r"\[[^\[\]]+\]\.?$")
 ENTRY = re.compile(r"^(\*{0,2}[A-Za-z_][A-Za-z0-9_]*)\s*:\s*(.+)$")

@@ -1,0 +1,304 @@
+# SPDX-License-Identifier: MIT
+"""The design chain as declared steps, each closed form beside its worksheet formula.
+
+A :class:`Step` computes one cell of the calculation, named by the quantity it computes
+(:mod:`functions.quantities`; the name is the workbook's defined name), from cells computed
+before it. Most steps are closed forms: their ``compute`` is a numpy twin carrying the native
+worksheet formula the workbook writes (:func:`functions.worksheet.twin`), so the engine
+(:func:`functions.design.design_damper`) and the workbook evaluate one declaration. Where no
+closed form exists (the required mass ratio, the numerical h2 and hinf optima) the step is an
+engine value: the workbook shows the engine's number and flags it when its inputs change. Two
+steps run through helper cells of the Pendulum sheet in a workbook (the pendulum length's fixed
+point and the AGM of the swing); their ``formula`` names that helper and the engine computes
+them exactly (:func:`functions.pendulum.pendulum_length`,
+:func:`functions.pendulum.small_angle_error`).
+
+Steps are in the order an engineer checks the design: required damping, mass ratio, damper
+mass, optimal tuning and damping, damper frequency, effective damping, acceleration with the
+damper, displacement and stroke, pendulum length with the swing correction, swing angle,
+small-angle error, detuning, spring stiffness and dashpot constant. :func:`sections` gives them
+for a tuning method and a way of setting the mass ratio (:data:`MASS_RATIO_MODES`).
+"""
+from __future__ import annotations
+
+import functools
+import inspect
+from dataclasses import dataclass
+from typing import Any, Callable
+
+import numpy as np
+
+from functions.damper import (CLOSED_FORMS, OPTIMAL_TUNING_METHODS, optimal_tuning,
+                              required_mass_ratio)
+from functions.pendulum import pendulum_length, small_angle_error
+from functions.worksheet import form_of, twin
+
+__all__ = ["Step", "Section", "MASS_RATIO_MODES", "mass_ratio_mode", "sections", "steps",
+           "all_variants", "VARIANCE_SOURCE"]
+
+#: How the mass ratio is set: a chosen ratio, a chosen damper mass, or the required ratio.
+MASS_RATIO_MODES = ("chosen_mass_ratio", "chosen_damper_mass", "required")
+
+#: Source of the white-noise variance steps.
+VARIANCE_SOURCE = "I4 integral (Newland 1993, App. 1), regrouped: no cancellation"
+
+
+@dataclass(frozen=True)
+class Step:
+    """One cell of the calculation.
+
+    ``compute`` takes the cells it reads as keyword arguments (its parameter names are defined
+    names) and returns the cell's value. When it is a twin (:func:`functions.worksheet.twin`)
+    its worksheet formula is the step's formula; otherwise ``formula`` names the workbook's
+    helper cells that compute the same value (``""``: an engine value, no worksheet formula).
+    """
+
+    name: str
+    compute: Callable[..., Any]
+    expression: str = ""
+    source: str = ""
+    formula_via_helpers: str = ""
+
+    @property
+    def reads(self) -> tuple[str, ...]:
+        """The cells this step reads (the parameters of ``compute``)."""
+        return tuple(inspect.signature(self.compute).parameters)
+
+    @property
+    def formula(self) -> str:
+        """The worksheet formula of the cell ('' for an engine value)."""
+        form = form_of(self.compute)
+        return form.formula if form is not None else self.formula_via_helpers
+
+    @property
+    def is_engine_value(self) -> bool:
+        """True when the workbook shows the engine's number (no closed form)."""
+        return not self.formula
+
+    @property
+    def is_twin(self) -> bool:
+        """True when the worksheet formula and the numpy function are one closed form."""
+        return form_of(self.compute) is not None
+
+    def evaluate(self, cells: dict[str, Any]) -> float:
+        """The step's value from the cells computed before it."""
+        return float(self.compute(**{name: cells[name] for name in self.reads}))
+
+
+@dataclass(frozen=True)
+class Section:
+    """A titled group of steps with a note for the reader."""
+
+    title: str
+    steps: tuple[Step, ...]
+    note: str = ""
+
+
+def mass_ratio_mode(mass_ratio_given: bool, damper_mass_given: bool) -> str:
+    """One of :data:`MASS_RATIO_MODES` from which of the two optional inputs is given."""
+    if mass_ratio_given:
+        return "chosen_mass_ratio"
+    if damper_mass_given:
+        return "chosen_damper_mass"
+    return "required"
+
+
+def _step(name: str, formula: str, compute: Callable[..., Any], expression: str,
+          source: str = "") -> Step:
+    return Step(name, twin(formula, compute, expression, source), expression, source)
+
+
+_TWO_PI = 2.0 * np.pi
+
+
+def _mass_steps(mode: str) -> tuple[Step, ...]:
+    if mode == "chosen_mass_ratio":
+        return (
+            _step("mass_ratio", "=chosen_mass_ratio", lambda chosen_mass_ratio:
+                  chosen_mass_ratio, "mu (chosen)", "Project input"),
+            _step("damper_mass", "=mass_ratio*modal_mass", lambda mass_ratio, modal_mass:
+                  mass_ratio * modal_mass, "mu M*"),
+        )
+    if mode == "chosen_damper_mass":
+        return (
+            _step("damper_mass", "=chosen_damper_mass", lambda chosen_damper_mass:
+                  chosen_damper_mass, "m_d (chosen)", "Project input"),
+            _step("mass_ratio", "=damper_mass/modal_mass", lambda damper_mass, modal_mass:
+                  damper_mass / modal_mass, "m_d / M*"),
+        )
+    if mode != "required":
+        raise ValueError(f"mode={mode!r} must be one of {', '.join(MASS_RATIO_MODES)}")
+    return (
+        Step("mass_ratio",
+             lambda required_damping, structural_damping:
+             required_mass_ratio(required_damping, structural_damping),
+             "zeta_eff(mu, f_opt, zeta_opt, zeta_s) = zeta_req",
+             "Root of zeta_eff(mu) = zeta_req for the h2-optimal damper (brentq); "
+             "functions.damper.required_mass_ratio"),
+        _step("damper_mass", "=mass_ratio*modal_mass", lambda mass_ratio, modal_mass:
+              mass_ratio * modal_mass, "mu M*"),
+    )
+
+
+@functools.lru_cache(maxsize=1024)
+def _optimum(mass_ratio: float, method: str, structural_damping: float) -> tuple[float, float]:
+    """One numerical optimum, computed once for the two steps that read it (pure: cached)."""
+    f, zd = optimal_tuning(mass_ratio, method, structural_damping)
+    return float(f), float(zd)
+
+
+def _tuning_steps(method: str) -> tuple[Step, ...]:
+    if method in CLOSED_FORMS:
+        tuning, damping = CLOSED_FORMS[method]
+        return (Step("tuning_ratio", tuning, tuning.worksheet.expression,
+                     tuning.worksheet.source),
+                Step("damper_damping", damping, damping.worksheet.expression,
+                     damping.worksheet.source))
+    what = ("minimum displacement variance under white-noise force" if method == "h2"
+            else "minimum peak response under harmonic force")
+    source = (f"functions.damper.optimal_tuning(method='{method}'): {what}; numerical, no "
+              "closed form for a damped structure")
+    wf_tuning, wf_damping = CLOSED_FORMS["white_noise_force"]
+    return (
+        Step("tuning_ratio", lambda mass_ratio, structural_damping:
+             _optimum(float(mass_ratio), method, float(structural_damping))[0],
+             "numerical optimum", source),
+        Step("damper_damping", lambda mass_ratio, structural_damping:
+             _optimum(float(mass_ratio), method, float(structural_damping))[1],
+             "numerical optimum", source),
+        Step("warburton_tuning_ratio", wf_tuning, wf_tuning.worksheet.expression,
+             "Warburton (1982); not used further"),
+        Step("warburton_damper_damping", wf_damping, wf_damping.worksheet.expression,
+             "Warburton (1982); not used further"),
+    )
+
+
+def sections(method: str, mode: str) -> tuple[Section, ...]:
+    """The calculation's sections for a tuning ``method`` and mass-ratio ``mode``.
+
+    Parameters
+    ----------
+    method : str
+        Tuning method, one of ``functions.damper.OPTIMAL_TUNING_METHODS`` [-].
+    mode : str
+        One of :data:`MASS_RATIO_MODES` [-].
+
+    Returns
+    -------
+    sections : tuple of Section
+        In the engineer's checking order [-].
+
+    Raises
+    ------
+    ValueError
+        For an unknown method or mode.
+    """
+    if method not in OPTIMAL_TUNING_METHODS:
+        raise ValueError(f"method={method!r} must be one of {', '.join(OPTIMAL_TUNING_METHODS)}")
+    v = VARIANCE_SOURCE
+    return (
+        Section("1  Damping required", (
+            _step("required_damping", "=structural_damping*(acceleration/acceleration_limit)^2",
+                  lambda structural_damping, acceleration, acceleration_limit:
+                  structural_damping * (acceleration / acceleration_limit) ** 2,
+                  "zeta_s (a / a_lim)^2",
+                  "Resonant response ~ 1/sqrt(zeta): EN 1991-1-4:2005 Annex B, B.2(6)"),
+        ), "Preliminary rule for the resonant part of the response; the background part is "
+           "not reduced by a damper."),
+        Section("2  Mass ratio and damper mass", _mass_steps(mode),
+                "M* is the generalised mass of the mode normalised to 1 at the damper."),
+        Section("3  Optimal tuning and damping", _tuning_steps(method) + (
+            _step("damper_frequency", "=tuning_ratio*structure_frequency",
+                  lambda tuning_ratio, structure_frequency: tuning_ratio * structure_frequency,
+                  "f f_s"),
+        ), "Tuning ratio f = f_d / f_s; damper damping zeta_d = c_d / (2 m_d omega_d) on the "
+           "damper's own frequency."),
+        Section("4  Effective damping and response with the damper", (
+            _step("var_w", "=tuning_ratio^2", lambda tuning_ratio: tuning_ratio ** 2, "f^2", v),
+            _step("var_g", "=damper_damping*tuning_ratio", lambda damper_damping, tuning_ratio:
+                  damper_damping * tuning_ratio, "zeta_d f", v),
+            _step("var_x", "=structural_damping*var_w+var_g",
+                  lambda structural_damping, var_w, var_g: structural_damping * var_w + var_g,
+                  "zeta_s w + g", v),
+            _step("var_y", "=var_g*(1+mass_ratio)+structural_damping",
+                  lambda var_g, mass_ratio, structural_damping:
+                  var_g * (1.0 + mass_ratio) + structural_damping, "g (1 + mu) + zeta_s", v),
+            _step("var_t", "=(1+mass_ratio)*var_w-1", lambda mass_ratio, var_w:
+                  (1.0 + mass_ratio) * var_w - 1.0, "(1 + mu) w - 1", v),
+            _step("var_n", "=var_g*(var_t^2+mass_ratio*var_w)+4*var_g*var_x*var_y"
+                           "+structural_damping*mass_ratio*var_w^2",
+                  lambda var_g, var_t, mass_ratio, var_w, var_x, var_y, structural_damping:
+                  var_g * (var_t * var_t + mass_ratio * var_w) + 4.0 * var_g * var_x * var_y
+                  + structural_damping * mass_ratio * var_w * var_w,
+                  "g (t^2 + mu w) + 4 g X Y + zeta_s mu w^2", v),
+            _step("var_d", "=mass_ratio*var_g*var_x+structural_damping*mass_ratio*var_w^2*var_y"
+                           "+structural_damping*var_g*(var_w-1)*var_t"
+                           "+4*structural_damping*var_g*var_x*var_y",
+                  lambda mass_ratio, var_g, var_x, structural_damping, var_w, var_y, var_t:
+                  mass_ratio * var_g * var_x + structural_damping * mass_ratio * var_w * var_w
+                  * var_y + structural_damping * var_g * (var_w - 1.0) * var_t
+                  + 4.0 * structural_damping * var_g * var_x * var_y,
+                  "mu g X + zeta_s mu w^2 Y + zeta_s g (w - 1) t + 4 zeta_s g X Y", v),
+            _step("effective_damping", "=var_d/var_n", lambda var_d, var_n: var_d / var_n,
+                  "D / N", "functions.damper.effective_damping (same regrouped closed form)"),
+            _step("acceleration_with_damper",
+                  "=acceleration*SQRT(structural_damping/effective_damping)",
+                  lambda acceleration, structural_damping, effective_damping:
+                  acceleration * np.sqrt(structural_damping / effective_damping),
+                  "a sqrt(zeta_s / zeta_eff)", "Resonant rule, as for zeta_req"),
+            _step("structure_displacement",
+                  "=acceleration_with_damper/(2*PI()*structure_frequency)^2",
+                  lambda acceleration_with_damper, structure_frequency:
+                  acceleration_with_damper / (_TWO_PI * structure_frequency) ** 2,
+                  "a_d / (2 pi f_s)^2", "Harmonic at the mode's frequency"),
+            _step("stroke_ratio", "=SQRT(var_x/var_n)", lambda var_x, var_n:
+                  np.sqrt(var_x / var_n), "sqrt(X / N)",
+                  "functions.damper.stroke_ratio (same regrouped closed form)"),
+            _step("stroke", "=stroke_ratio*structure_displacement",
+                  lambda stroke_ratio, structure_displacement:
+                  stroke_ratio * structure_displacement, "(x_d/x_s) x_s",
+                  "Equal peak factors"),
+        ), "Variance-equivalent damping of the structure with its damper under white-noise "
+           "force (closed form, functions.damper)."),
+        Section("5  Pendulum length, swing and detuning", (
+            _step("small_angle_length", "=gravity/(2*PI()*damper_frequency)^2",
+                  lambda gravity, damper_frequency:
+                  gravity / (_TWO_PI * damper_frequency) ** 2, "g / (2 pi f_d)^2",
+                  "Simple pendulum, small swings"),
+            Step("pendulum_length", lambda damper_frequency, stroke, gravity:
+                 pendulum_length(damper_frequency, stroke, gravity),
+                 "L = L_0 AGM(1, cos(theta/2))^2, theta = asin(x_d / L)",
+                 "Exact period T = T_0 / AGM(1, cos(theta/2)) (A&S 17.6; Villarino 2012); "
+                 "fixed point on the Pendulum sheet", "=fixed_point_length"),
+            _step("swing_angle_deg", "=DEGREES(ASIN(stroke/pendulum_length))",
+                  lambda stroke, pendulum_length:
+                  np.degrees(np.arcsin(stroke / pendulum_length)), "asin(x_d / L)"),
+            Step("small_angle_error", lambda swing_angle_deg: small_angle_error(swing_angle_deg),
+                 "T / T_0 - 1 = 1 / AGM(1, cos(theta/2)) - 1", "A&S 17.6; Pendulum sheet",
+                 "=1/agm_at_swing-1"),
+            _step("detuning", "=-small_angle_error/(1+small_angle_error)",
+                  lambda small_angle_error: -small_angle_error / (1.0 + small_angle_error),
+                  "1 / (1 + e) - 1 = -e / (1 + e)", "Frequency ratio = period ratio^-1"),
+        ), "A pendulum cut to L_0 runs slow at a finite swing; L is shorter so that it is in "
+           "tune at the design swing (and runs fast at smaller swings)."),
+        Section("6  Spring and dashpot equivalents", (
+            _step("stiffness", "=damper_mass*(2*PI()*damper_frequency)^2",
+                  lambda damper_mass, damper_frequency:
+                  damper_mass * (_TWO_PI * damper_frequency) ** 2, "m_d (2 pi f_d)^2"),
+            _step("dashpot", "=2*damper_mass*2*PI()*damper_frequency*damper_damping",
+                  lambda damper_mass, damper_frequency, damper_damping:
+                  2.0 * damper_mass * _TWO_PI * damper_frequency * damper_damping,
+                  "2 m_d (2 pi f_d) zeta_d"),
+        )),
+    )
+
+
+def steps(method: str, mode: str) -> list[Step]:
+    """Every step of :func:`sections`, in order."""
+    return [step for section in sections(method, mode) for step in section.steps]
+
+
+def all_variants() -> list[tuple[str, str, list[Step]]]:
+    """``(method, mode, steps)`` for every tuning method and mass-ratio mode."""
+    return [(method, mode, steps(method, mode)) for method in OPTIMAL_TUNING_METHODS
+            for mode in MASS_RATIO_MODES]

@@ -1,0 +1,454 @@
+# SPDX-License-Identifier: MIT
+"""Every quantity of the design, declared once.
+
+A :class:`Quantity` holds what every medium needs to know about one quantity: its glossary name
+(the engine's argument or result name), symbol, label, SI unit and the kind of unit it is given
+in (for display conversion), valid range with open or closed ends, default, display number
+format, the name of its cell in a workbook, the table and key of the project file that sets it,
+and a short note on where the value usually comes from. Everything else is derived from these
+declarations and nowhere else:
+
+* the engine's input validation (:class:`functions.design.DesignInputs` calls
+  :meth:`Quantity.validate`);
+* the project-file schema (``workbook_builder.project.schema``: keys, tables, accepted units);
+* the spreadsheet function ``SWAY_DESIGN`` (argument names, help, ranges, defaults);
+* the workbook's input rows (label, symbol, unit, data validation, note) and defined names,
+  the Calculation sheet's labels, symbols, units and number formats;
+* the batch-recalculation summary's columns and units;
+* the reference tables in ``docs/``.
+
+Groups, in the order the workbook shows them: :data:`DESIGN_INPUTS` (the design chain's
+inputs), :data:`DESIGN_RESULTS` (its results, in the engineer's checking order),
+:data:`HELPERS` (intermediate cells of the worksheet formulas), :data:`SIMULATION_SETTINGS`
+(the optional time-domain check) and :data:`FLOOR_TABLE` (the modal mass from floor masses).
+
+Ranges are those of a building or tower mode and a pendulum damper, wide enough for any real
+case and narrow enough to catch a value in the wrong unit; where a range is a rule of the trade
+rather than a limit of a method, its note says so.
+"""
+from __future__ import annotations
+
+import inspect
+import math
+from dataclasses import dataclass
+from typing import Any, Iterable, Mapping
+
+from functions._validation import check_range, interval_text
+from functions.damper import OPTIMAL_TUNING_METHODS
+from functions.pendulum import STANDARD_GRAVITY
+
+__all__ = [
+    "Quantity", "REQUIRED", "OPTIONAL", "DESIGN_INPUTS", "DESIGN_RESULTS", "HELPERS",
+    "SIMULATION_SETTINGS", "FLOOR_TABLE", "UNIT_KINDS", "quantity", "by_name",
+    "design_inputs", "design_results", "input_relation_errors", "design_signature",
+]
+
+INF = math.inf
+
+
+class _Marker:
+    def __init__(self, text: str) -> None:
+        self.text = text
+
+    def __repr__(self) -> str:
+        return self.text
+
+
+#: Default of a quantity that must be given.
+REQUIRED = _Marker("REQUIRED")
+#: Default of a quantity that may be left out (no value: the engine decides, see its note).
+OPTIONAL = _Marker("OPTIONAL")
+
+#: Kinds of unit, with the SI unit of each: a project file or a workbook may give a quantity in
+#: any unit of its kind (``workbook_builder.project.units``).
+UNIT_KINDS: dict[str, str] = {
+    "frequency": "Hz", "mass": "kg", "fraction": "-", "acceleration": "m/s^2", "length": "m",
+    "angle": "deg", "stiffness": "N/m", "dashpot": "N s/m", "time": "s", "force": "N",
+    "count": "-", "choice": "", "flag": "",
+}
+
+
+@dataclass(frozen=True)
+class Quantity:
+    """Declaration of one quantity.
+
+    ``name`` is the glossary name (engine argument or result field); ``defined_name`` the name
+    of its cell in a workbook when that differs (names must not read as worksheet functions or
+    cell addresses, e.g. ``FREQUENCY``); ``section`` and ``key`` place an input in the project
+    file (``[section] key = ...``). ``low``/``high`` with ``low_open``/``high_open`` give the
+    valid range in SI units. ``default`` is :data:`REQUIRED`, :data:`OPTIONAL` or the SI value
+    used when the quantity is not given. ``fmt`` is the number format a workbook shows the SI
+    value with; ``note`` says where an input usually comes from, ``description`` what a result
+    means. ``choices`` lists the accepted texts of a ``choice``; ``summary`` marks the
+    quantities of the batch-recalculation summary.
+    """
+
+    name: str
+    symbol: str
+    label: str
+    unit: str
+    kind: str
+    low: float = -INF
+    high: float = INF
+    low_open: bool = False
+    high_open: bool = False
+    default: Any = REQUIRED
+    fmt: str = "General"
+    note: str = ""
+    description: str = ""
+    defined_name: str = ""
+    section: str = ""
+    key: str = ""
+    choices: tuple[str, ...] = ()
+    summary: bool = False
+
+    def __post_init__(self) -> None:
+        if self.kind not in UNIT_KINDS:
+            raise ValueError(f"kind={self.kind!r} of {self.name} must be one of "
+                             f"{', '.join(UNIT_KINDS)}")
+
+    # names ---------------------------------------------------------------------------------
+    @property
+    def cell_name(self) -> str:
+        """Defined name of the quantity's (SI) cell in a workbook."""
+        return self.defined_name or self.name
+
+    @property
+    def file_key(self) -> str:
+        """Dotted key in a project file, e.g. ``mode.frequency`` ('' when not an input)."""
+        return f"{self.section}.{self.key or self.name}" if self.section else ""
+
+    @property
+    def required(self) -> bool:
+        return self.default is REQUIRED
+
+    @property
+    def optional(self) -> bool:
+        return self.default is OPTIONAL
+
+    @property
+    def has_default(self) -> bool:
+        return not (self.required or self.optional)
+
+    # range ---------------------------------------------------------------------------------
+    def interval(self, factor: float = 1.0) -> str:
+        """Valid range in a unit with ``factor`` to SI, e.g. ``(0, 20]``.
+
+        Examples
+        --------
+        >>> quantity("structural_damping").interval(0.01)
+        '(0, 20]'
+        """
+        def scaled(x: float) -> float:
+            return x if math.isinf(x) else float(f"{x / factor:.12g}")
+        return interval_text(scaled(self.low), scaled(self.high), self.low_open,
+                             self.high_open)
+
+    def contains(self, si: float) -> bool:
+        """True when the SI value ``si`` lies in the valid range (NaN never does)."""
+        lo = si > self.low if self.low_open or math.isinf(self.low) else si >= self.low
+        hi = si < self.high if self.high_open or math.isinf(self.high) else si <= self.high
+        return bool(lo and hi)
+
+    def validate(self, value: Any) -> Any:
+        """The value as the engine takes it, or ValueError naming quantity, value and range.
+
+        A number becomes a Python float (a ``count`` an int), a ``choice`` must be one of
+        ``choices``, a ``flag`` a bool.
+
+        Examples
+        --------
+        >>> quantity("frequency").validate(0.2)
+        0.2
+        >>> quantity("frequency").validate(0.0)
+        Traceback (most recent call last):
+        ...
+        ValueError: frequency=0.0 must be in [0.01, 20] [Hz]
+        """
+        if self.kind == "choice":
+            if value not in self.choices:
+                raise ValueError(f"{self.name}={value!r} must be one of "
+                                 f"{', '.join(self.choices)}")
+            return value
+        if self.kind == "flag":
+            if not isinstance(value, bool):
+                raise ValueError(f"{self.name}={value!r} must be true or false")
+            return value
+        if self.kind == "count" and (isinstance(value, bool) or not isinstance(value, int)):
+            raise ValueError(f"{self.name}={value!r} must be a whole number in "
+                             f"{self.interval()}")
+        arr = check_range(self.name, value, self.low, self.high, low_open=self.low_open,
+                          high_open=self.high_open, unit=self.unit if self.unit != "-" else "-")
+        if arr.ndim:
+            raise ValueError(f"{self.name}={value!r} must be a single number")
+        return int(value) if self.kind == "count" else float(arr)
+
+    def help_text(self) -> str:
+        """One line for a spreadsheet function's argument help (<= 255 characters)."""
+        what = (self.description or self.label).rstrip(".")
+        if self.kind == "choice":
+            text = f"{what}: {', '.join(self.choices)} [-]."
+        else:
+            text = f"{what}, {self.interval()} [{self.unit}]."
+        if self.optional:
+            text += " Empty: not given."
+        elif self.has_default:
+            text += f" Empty: {self.default:g}." if isinstance(self.default, float) else \
+                f" Empty: {self.default}."
+        return text[:255]
+
+
+def _q(*args: Any, **kwargs: Any) -> Quantity:
+    return Quantity(*args, **kwargs)
+
+
+_PRACTICE = "Common practice, no source."
+
+#: Inputs of the design chain (``functions.design.DesignInputs``), in the order of the
+#: workbook's Inputs sheet.
+DESIGN_INPUTS: tuple[Quantity, ...] = (
+    _q("frequency", "f_s", "Frequency of the mode", "Hz", "frequency", 0.01, 20.0,
+       fmt="0.00000", defined_name="structure_frequency", section="mode", summary=True,
+       description="Natural frequency of the structure's mode",
+       note="Modal analysis of the structure; EN 1991-1-4 Annex F (F.2) 46/h as a first "
+            "estimate; confirm by measurement on the finished structure."),
+    _q("modal_mass", "M*", "Generalised mass of the mode (mode = 1 at the damper)", "kg",
+       "mass", 0.0, 1e11, low_open=True, fmt="#,##0", section="mode", summary=True,
+       description="Generalised mass of the mode, normalised to 1 at the damper",
+       note="Modal analysis: sum of m_i phi_i^2 with the mode normalised to 1 at the damper "
+            "level (or from the floor table)."),
+    _q("structural_damping", "zeta_s", "Inherent damping of the structure", "-", "fraction",
+       0.0, 0.2, low_open=True, fmt="0.000000", section="mode", summary=True,
+       description="Damping ratio of the mode without the damper",
+       note="EN 1991-1-4 Table F.2 log decrement / (2 pi); measured values scatter widely, "
+            "use a cautious value."),
+    _q("acceleration", "a", "Peak acceleration without damper", "m/s^2", "acceleration",
+       0.0, 10.0, low_open=True, fmt="0.00000", section="wind", summary=True,
+       description="Peak acceleration without the damper",
+       note="Wind-tunnel study or code calculation (EN 1991-1-4 Annex B/C) at the comfort "
+            "return period."),
+    _q("acceleration_limit", "a_lim", "Accepted peak acceleration", "m/s^2", "acceleration",
+       0.0, 10.0, low_open=True, fmt="0.00000", section="wind", summary=True,
+       description="Acceptable peak acceleration",
+       note="Comfort criterion agreed for the project (e.g. ISO 10137 Annex D; Melbourne & "
+            "Palmer 1992)."),
+    _q("damper_mass", "m_d", "Damper mass chosen (optional)", "kg", "mass", 0.0, 1e10,
+       low_open=True, default=OPTIONAL, fmt="#,##0", defined_name="chosen_damper_mass",
+       section="damper", description="Damper mass if chosen (else from the mass ratio)",
+       note="Moving mass of the pendulum (without hangers and frame)."),
+    _q("mass_ratio", "mu", "Mass ratio chosen (optional)", "-", "fraction", 0.0, 0.2,
+       low_open=True, default=OPTIONAL, fmt="0.000000", defined_name="chosen_mass_ratio",
+       section="damper", description="Mass ratio if chosen (else the required one)",
+       note="Give the mass ratio or the damper mass, or neither (the required mass ratio is "
+            "used)."),
+    _q("tuning_method", "", "Tuning method", "", "choice", default="h2",
+       choices=OPTIMAL_TUNING_METHODS, section="damper", summary=True,
+       description="Optimal tuning method",
+       note="h2 and hinf hold for a damped structure; the closed forms are derived for an "
+            "undamped one. The Calculation sheet is laid out for the method (rebuild to "
+            "change it)."),
+    _q("clearance", "x_max", "Available peak stroke (one side)", "m", "length", 0.0, 100.0,
+       low_open=True, fmt="0.0000", section="damper", summary=True,
+       description="Available peak stroke of the damper, one side",
+       note="Free travel of the mass to the nearest obstruction or buffer."),
+    _q("max_swing_deg", "theta_max", "Accepted swing angle", "deg", "angle", 0.0, 45.0,
+       low_open=True, default=15.0, fmt="0.000", section="damper", key="max_swing",
+       description="Largest accepted swing angle",
+       note="Small-angle period good to about 15 deg (common practice, no source)."),
+    _q("max_detuning", "|df/f|_max", "Accepted detuning at the design swing", "-", "fraction",
+       0.0, 0.2, low_open=True, default=0.01, fmt="0.000000", section="damper",
+       description="Largest accepted |detuning| between small and design swing",
+       note="The damper's tuning tolerance. " + _PRACTICE),
+    _q("mass_ratio_min", "mu_min", "Practical mass ratio, lower end", "-", "fraction", 0.0,
+       0.2, default=0.005, fmt="0.000000", section="damper",
+       description="Smallest practical mass ratio (0: no lower end)", note=_PRACTICE),
+    _q("mass_ratio_max", "mu_max", "Practical mass ratio, upper end", "-", "fraction", 0.0,
+       0.2, low_open=True, default=0.05, fmt="0.000000", section="damper",
+       description="Largest practical mass ratio, above the lower end", note=_PRACTICE),
+    _q("g", "g", "Acceleration of gravity", "m/s^2", "acceleration", 9.7, 9.9,
+       default=STANDARD_GRAVITY, fmt="0.00000", defined_name="gravity", section="site",
+       key="gravity", description="Acceleration of gravity at the site",
+       note="Standard gravity 9.80665 m/s^2 (3rd CGPM 1901) unless a local value is known; "
+            "9.78 at the equator to 9.83 at the poles."),
+)
+
+#: Results of the design chain (``functions.design.DesignResult``), in checking order.
+DESIGN_RESULTS: tuple[Quantity, ...] = (
+    _q("required_damping", "zeta_req", "Total damping needed to meet the limit", "-",
+       "fraction", fmt="0.000000", summary=True,
+       description="Total damping ratio that brings the resonant response to the limit, "
+                   "zeta_s (a/a_lim)^2"),
+    _q("mass_ratio", "mu", "Mass ratio", "-", "fraction", fmt="0.000000", summary=True,
+       description="Damper mass over modal mass"),
+    _q("damper_mass", "m_d", "Damper mass", "kg", "mass", fmt="#,##0", summary=True,
+       description="Moving mass of the damper"),
+    _q("tuning_ratio", "f", "Optimal tuning ratio", "-", "fraction", fmt="0.000000",
+       description="Damper frequency over structure frequency"),
+    _q("damper_damping", "zeta_d", "Optimal damper damping (own frequency)", "-", "fraction",
+       fmt="0.000000", summary=True,
+       description="Damper damping ratio on the damper's own frequency"),
+    _q("damper_frequency", "f_d", "Damper frequency", "Hz", "frequency", fmt="0.00000",
+       summary=True, description="Natural frequency of the damper"),
+    _q("small_angle_length", "L_0", "Small-angle pendulum length", "m", "length",
+       fmt="0.0000", description="Pendulum length tuned to f_d at small swings, "
+                                 "g/(2 pi f_d)^2"),
+    _q("effective_damping", "zeta_eff", "Effective damping (equal displacement variance)",
+       "-", "fraction", fmt="0.000000", summary=True,
+       description="Total damping of the structure with its damper, equivalent in "
+                   "displacement variance under white-noise force"),
+    _q("acceleration_with_damper", "a_d", "Peak acceleration with the damper", "m/s^2",
+       "acceleration", fmt="0.00000", summary=True,
+       description="Peak acceleration with the damper, a sqrt(zeta_s/zeta_eff) (resonant "
+                   "response)"),
+    _q("structure_displacement", "x_s", "Peak displacement of the structure", "m", "length",
+       fmt="0.0000", description="Peak displacement of the structure with the damper, "
+                                 "a_d/(2 pi f_s)^2"),
+    _q("stroke_ratio", "x_d/x_s", "Stroke ratio (RMS relative / RMS structure)", "-",
+       "fraction", fmt="0.000000",
+       description="RMS damper displacement relative to the structure over RMS structure "
+                   "displacement"),
+    _q("stroke", "x_d", "Peak stroke of the damper (relative)", "m", "length", fmt="0.0000",
+       summary=True, description="Peak damper displacement relative to the structure"),
+    _q("pendulum_length", "L", "Pendulum length in tune at the design swing", "m", "length",
+       fmt="0.0000", summary=True, description="Pendulum length in tune at its design swing"),
+    _q("swing_angle_deg", "theta", "Swing angle at the design stroke", "deg", "angle",
+       fmt="0.000", summary=True, description="Design swing angle, asin(x_d/L)"),
+    _q("small_angle_error", "e", "Small-angle period error at that swing", "-", "fraction",
+       fmt="0.000000", description="Exact period over small-angle period minus 1 at the "
+                                   "swing"),
+    _q("detuning", "df/f", "Detuning at that swing (f(theta)/f(0) - 1)", "-", "fraction",
+       fmt="0.000000", summary=True,
+       description="Frequency at the design swing over frequency at small swings, minus 1"),
+    _q("stiffness", "k_d", "Equivalent spring stiffness", "N/m", "stiffness", fmt="#,##0",
+       description="Equivalent stiffness of the damper, m_d (2 pi f_d)^2"),
+    _q("dashpot", "c_d", "Dashpot constant", "N s/m", "dashpot", fmt="#,##0",
+       description="Damping coefficient of the damper, 2 m_d (2 pi f_d) zeta_d"),
+)
+
+_VARIANCE = "Helper of the white-noise variance"
+
+#: Intermediate cells of the worksheet formulas (not results of the engine's chain).
+HELPERS: tuple[Quantity, ...] = (
+    _q("var_w", "w", "Helper: w = f^2", "-", "fraction", description=_VARIANCE),
+    _q("var_g", "g", "Helper: g = zeta_d f", "-", "fraction", description=_VARIANCE),
+    _q("var_x", "X", "Helper: X = zeta_s w + g", "-", "fraction", description=_VARIANCE),
+    _q("var_y", "Y", "Helper: Y = g (1 + mu) + zeta_s", "-", "fraction",
+       description=_VARIANCE),
+    _q("var_t", "t", "Helper: t = (1 + mu) w - 1", "-", "fraction", description=_VARIANCE),
+    _q("var_n", "N", "Helper: N (variance numerator)", "-", "fraction",
+       description=_VARIANCE),
+    _q("var_d", "D", "Helper: D (variance denominator)", "-", "fraction",
+       description=_VARIANCE),
+    _q("warburton_tuning_ratio", "f_W", "For comparison: Warburton white-noise-force tuning "
+       "(undamped structure)", "-", "fraction", fmt="0.000000",
+       description="Warburton's white-noise-force optimum, shown beside a numerical one"),
+    _q("warburton_damper_damping", "zeta_W", "For comparison: Warburton white-noise-force "
+       "damping (undamped structure)", "-", "fraction", fmt="0.000000",
+       description="Warburton's white-noise-force optimum, shown beside a numerical one"),
+)
+
+#: Settings of the optional time-domain check (project file table ``[simulation]``).
+SIMULATION_SETTINGS: tuple[Quantity, ...] = (
+    _q("enabled", "", "Simulation switched on", "", "flag", default=True,
+       section="simulation", description="Build the Nonlinear sheet"),
+    _q("load", "", "Load of the simulation", "", "choice", default="random",
+       choices=("random", "harmonic"), section="simulation",
+       description="random (wind-like) or harmonic (at the mode's frequency)"),
+    _q("duration", "T", "Record length simulated", "s", "time", 60.0, 3600.0, default=600.0,
+       fmt="0.0", section="simulation", description="Record length kept after the warm-up"),
+    _q("seed", "", "Seed of the random record", "-", "count", 0, 2 ** 63, high_open=True,
+       default=1, section="simulation", description="Same seed, same random record"),
+    _q("tolerance", "", "Accepted departure, nonlinear against linearised", "-", "fraction",
+       0.0, 1.0, low_open=True, default=0.05, fmt="0.000", section="simulation",
+       description="Accepted relative departure of the nonlinear RMS response from the "
+                   "linearised one"),
+    _q("load_factor", "", "Load factor", "-", "fraction", 0.0, 10.0, low_open=True,
+       default=1.0, fmt="0.00", section="simulation",
+       description="Force over the force that reproduces the wind input (2: a storm beyond "
+                   "the design wind)"),
+)
+
+#: The modal mass from floor masses and a power-law mode shape (project table
+#: ``[mode.floors]``); the floor heights and masses themselves are lists > 0.
+FLOOR_TABLE: tuple[Quantity, ...] = (
+    _q("building_height", "h", "Building height (floor table)", "m", "length", 0.0, 1000.0,
+       low_open=True, fmt="0.0000", section="mode.floors",
+       description="Height h of the power-law mode shape (z/h)^k"),
+    _q("exponent", "k", "Mode shape exponent (floor table)", "-", "fraction", 0.0, 5.0,
+       low_open=True, defined_name="mode_exponent", section="mode.floors",
+       description="Exponent k of the mode shape (z/h)^k, EN 1991-1-4 Annex F (F.3)"),
+    _q("damper_level", "", "Damper at floor (1-based)", "-", "count", 1, 10000,
+       section="mode.floors", description="Number of the floor carrying the damper, from "
+                                          "the bottom (default: the top floor)"),
+)
+
+def by_name(group: Iterable[Quantity]) -> dict[str, Quantity]:
+    """Glossary name -> declaration, for one group."""
+    return {q.name: q for q in group}
+
+
+def quantity(name: str) -> Quantity:
+    """A design input, result or helper by its defined name, or an input by glossary name.
+
+    Defined names are unique (the chosen mass ratio is ``chosen_mass_ratio``, the result
+    ``mass_ratio``); an input's glossary name (``frequency``) is accepted where it is not a
+    defined name.
+
+    Raises
+    ------
+    KeyError
+        When no quantity has that name.
+
+    Examples
+    --------
+    >>> quantity("structure_frequency").name, quantity("frequency").cell_name
+    ('frequency', 'structure_frequency')
+    """
+    for q in design_inputs() + design_results() + HELPERS:
+        if q.cell_name == name:
+            return q
+    for q in design_inputs():
+        if q.name == name:
+            return q
+    raise KeyError(name)
+
+
+def design_inputs() -> tuple[Quantity, ...]:
+    """The design chain's inputs as declared now (read at call time, never cached)."""
+    return DESIGN_INPUTS
+
+
+def design_results() -> tuple[Quantity, ...]:
+    """The design chain's results as declared now (read at call time, never cached)."""
+    return DESIGN_RESULTS
+
+
+def input_relation_errors(values: Mapping[str, Any]) -> list[tuple[str, str]]:
+    """Rules between inputs, as ``(input name, message)`` for each one broken.
+
+    ``values`` maps glossary names to SI values (None: not given). The project-file reader
+    and :class:`DesignInputs` apply the same rules.
+
+    Examples
+    --------
+    >>> input_relation_errors({"mass_ratio": 0.02, "damper_mass": 1e5})
+    [('damper_mass', 'damper_mass=100000.0 and mass_ratio=0.02: give at most one of them')]
+    """
+    errors = []
+    if values.get("damper_mass") is not None and values.get("mass_ratio") is not None:
+        errors.append(("damper_mass", f"damper_mass={values['damper_mass']!r} and mass_ratio="
+                                      f"{values['mass_ratio']!r}: give at most one of them"))
+    lo, hi = values.get("mass_ratio_min"), values.get("mass_ratio_max")
+    if lo is not None and hi is not None and not hi > lo:
+        errors.append(("mass_ratio_max", f"mass_ratio_max={hi!r} must be above mass_ratio_min="
+                                         f"{lo!r} [-]"))
+    return errors
+
+
+def design_signature() -> inspect.Signature:
+    """Keyword-only signature of :class:`DesignInputs` from the current declarations."""
+    params = []
+    for q in design_inputs():
+        default = inspect.Parameter.empty if q.required else (None if q.optional else q.default)
+        params.append(inspect.Parameter(q.name, inspect.Parameter.KEYWORD_ONLY, default=default))
+    return inspect.Signature(params)
