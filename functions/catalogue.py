@@ -4,8 +4,8 @@
 One list, read by every medium: :mod:`functions.udf` builds the xlwings wrappers from it (function
 wizard description, per-argument help, which arguments are optional), the documentation
 generator writes the function reference from it, and the tests check every entry against the
-engine. Adding a spreadsheet function is one entry here plus a three-line wrapper in
-:mod:`functions.udf` (a test checks the two agree).
+engine. Adding a spreadsheet function is one entry here: :mod:`functions.udf` generates its
+wrapper at import.
 
 Conventions of the cells (see docs/spreadsheet_functions.md):
 

@@ -3,8 +3,9 @@
 
 The same module serves the classic Windows add-in (``Import Functions`` with ``UDF Modules``
 set to ``functions.udf``) and xlwings Lite (exported into one ``main.py`` by
-``workbook_builder.lite_export``). Each wrapper is declared in :mod:`functions.catalogue`
-(Excel name, description, per-argument help, defaults); the decorators are applied from there.
+``workbook_builder.lite_export``). The wrappers (``sway_exact_period`` ...) are generated at
+import from their declarations in :mod:`functions.catalogue` (Excel name, description,
+per-argument help, defaults), decorators included; each one calls :func:`evaluate`.
 
 How cells arrive and leave (both add-ins):
 
@@ -21,16 +22,17 @@ How cells arrive and leave (both add-ins):
 """
 from __future__ import annotations
 
+import keyword
 import math
 import numbers
-from typing import Any
+from typing import Any, Callable
 
 import numpy as np
 
 from functions._validation import as_array
 from functions.catalogue import (
-    BY_NAME, CATEGORY, FIELDS, FLAG, LISTS, LOOKUP, NUMBER, ROW_REDUCE, ROWS, SUMMARY, TEXT,
-    Argument, SheetFunction,
+    BY_NAME, CATEGORY, FIELDS, FLAG, FUNCTIONS, LISTS, LOOKUP, NUMBER, ROW_REDUCE, ROWS, SUMMARY,
+    TEXT, Argument, SheetFunction,
 )
 
 try:  # the decorators are no-ops outside a supported runtime (e.g. on Linux)
@@ -492,234 +494,43 @@ def evaluate(name: str, *values: Any) -> Any:
         return _short(f"{name}: cannot compute ({type(exc).__name__}: {exc})")
 
 
-def _sheet_function(name: str):
-    """Apply xlwings' decorators to a wrapper from its catalogue entry."""
-    fn = BY_NAME[name]
-
-    def decorate(f):
-        assert f.__name__ == fn.python_name, (f.__name__, fn.python_name)
-        f.__doc__ = fn.description          # xlwings shows the docstring in the wizard
-        for a in reversed(fn.arguments):
-            if a.kind in (NUMBER, ROWS) or fn.kind == LOOKUP:
-                f = arg(a.name, ndim=2, err_to_str=True, doc=a.help)(f)
-            else:
-                f = arg(a.name, doc=a.help)(f)
-        options = {"category": CATEGORY}
-        if fn.slow:                         # classic add-in: not while typing in the wizard
-            options["call_in_wizard"] = False
-        return func(**options)(f)
-
-    return decorate
-
-
-# --- Pendulum ----------------------------------------------------------------------------------
-
-@_sheet_function("SWAY_EXACT_PERIOD")
-def sway_exact_period(length, amplitude_deg=None, g=None):
-    return evaluate("SWAY_EXACT_PERIOD", length, amplitude_deg, g)
-
-
-@_sheet_function("SWAY_SMALL_ANGLE_PERIOD")
-def sway_small_angle_period(length, g=None):
-    return evaluate("SWAY_SMALL_ANGLE_PERIOD", length, g)
-
-
-@_sheet_function("SWAY_SMALL_ANGLE_ERROR")
-def sway_small_angle_error(amplitude_deg):
-    return evaluate("SWAY_SMALL_ANGLE_ERROR", amplitude_deg)
-
-
-@_sheet_function("SWAY_AMPLITUDE_FOR_ERROR")
-def sway_amplitude_for_error(period_error):
-    return evaluate("SWAY_AMPLITUDE_FOR_ERROR", period_error)
-
-
-@_sheet_function("SWAY_PENDULUM_FREQUENCY")
-def sway_pendulum_frequency(length, amplitude_deg=None, g=None):
-    return evaluate("SWAY_PENDULUM_FREQUENCY", length, amplitude_deg, g)
-
-
-@_sheet_function("SWAY_EQUIVALENT_LENGTH")
-def sway_equivalent_length(frequency, amplitude_deg=None, g=None):
-    return evaluate("SWAY_EQUIVALENT_LENGTH", frequency, amplitude_deg, g)
-
-
-@_sheet_function("SWAY_COMPOUND_PENDULUM_LENGTH")
-def sway_compound_pendulum_length(inertia_about_pivot, mass, pivot_to_centre):
-    return evaluate("SWAY_COMPOUND_PENDULUM_LENGTH", inertia_about_pivot, mass, pivot_to_centre)
-
-
-@_sheet_function("SWAY_FOLDED_PENDULUM_LENGTH")
-def sway_folded_pendulum_length(stage_lengths):
-    return evaluate("SWAY_FOLDED_PENDULUM_LENGTH", stage_lengths)
-
-
-@_sheet_function("SWAY_PENDULUM_MOTION")
-def sway_pendulum_motion(elapsed_time, length, amplitude_deg, g=None):
-    return evaluate("SWAY_PENDULUM_MOTION", elapsed_time, length, amplitude_deg, g)
-
-
-@_sheet_function("SWAY_SWING_ANGLE")
-def sway_swing_angle(stroke, length):
-    return evaluate("SWAY_SWING_ANGLE", stroke, length)
-
-
-@_sheet_function("SWAY_AMPLITUDE_DETUNING")
-def sway_amplitude_detuning(amplitude_deg):
-    return evaluate("SWAY_AMPLITUDE_DETUNING", amplitude_deg)
-
-
-# --- Structure ---------------------------------------------------------------------------------
-
-@_sheet_function("SWAY_MODAL_MASS")
-def sway_modal_mass(floor_masses, mode_shape, damper_level=None):
-    return evaluate("SWAY_MODAL_MASS", floor_masses, mode_shape, damper_level)
-
-
-@_sheet_function("SWAY_MODE_SHAPE_EXPONENT")
-def sway_mode_shape_exponent(structure_type):
-    return evaluate("SWAY_MODE_SHAPE_EXPONENT", structure_type)
-
-
-@_sheet_function("SWAY_STRUCTURAL_LOG_DECREMENT")
-def sway_structural_log_decrement(building_type):
-    return evaluate("SWAY_STRUCTURAL_LOG_DECREMENT", building_type)
-
-
-@_sheet_function("SWAY_POWER_LAW_MODE_SHAPE")
-def sway_power_law_mode_shape(height, building_height, exponent):
-    return evaluate("SWAY_POWER_LAW_MODE_SHAPE", height, building_height, exponent)
-
-
-@_sheet_function("SWAY_POWER_LAW_MODAL_MASS")
-def sway_power_law_modal_mass(mass_per_height, building_height, exponent):
-    return evaluate("SWAY_POWER_LAW_MODAL_MASS", mass_per_height, building_height, exponent)
-
-
-@_sheet_function("SWAY_ANNEX_F_FREQUENCY")
-def sway_annex_f_frequency(building_height):
-    return evaluate("SWAY_ANNEX_F_FREQUENCY", building_height)
-
-
-@_sheet_function("SWAY_DAMPING_FROM_LOG_DECREMENT")
-def sway_damping_from_log_decrement(log_decrement, exact=None):
-    return evaluate("SWAY_DAMPING_FROM_LOG_DECREMENT", log_decrement, exact)
-
-
-@_sheet_function("SWAY_LOG_DECREMENT_FROM_DAMPING")
-def sway_log_decrement_from_damping(damping_ratio, exact=None):
-    return evaluate("SWAY_LOG_DECREMENT_FROM_DAMPING", damping_ratio, exact)
-
-
-# --- Damper ------------------------------------------------------------------------------------
-
-@_sheet_function("SWAY_DAMPER_MASS_RATIO")
-def sway_damper_mass_ratio(damper_mass, modal_mass):
-    return evaluate("SWAY_DAMPER_MASS_RATIO", damper_mass, modal_mass)
-
-
-@_sheet_function("SWAY_OPTIMAL_TUNING_RATIO")
-def sway_optimal_tuning_ratio(mass_ratio, method=None, structural_damping=None):
-    return evaluate("SWAY_OPTIMAL_TUNING_RATIO", mass_ratio, method, structural_damping)
-
-
-@_sheet_function("SWAY_OPTIMAL_DAMPER_DAMPING")
-def sway_optimal_damper_damping(mass_ratio, method=None, structural_damping=None):
-    return evaluate("SWAY_OPTIMAL_DAMPER_DAMPING", mass_ratio, method, structural_damping)
-
-
-@_sheet_function("SWAY_DISPLACEMENT_VARIANCE_RATIO")
-def sway_displacement_variance_ratio(mass_ratio, tuning_ratio, damper_damping,
-                                     structural_damping=None):
-    return evaluate("SWAY_DISPLACEMENT_VARIANCE_RATIO", mass_ratio, tuning_ratio,
-                    damper_damping, structural_damping)
-
-
-@_sheet_function("SWAY_EFFECTIVE_DAMPING")
-def sway_effective_damping(mass_ratio, tuning_ratio, damper_damping, structural_damping=None):
-    return evaluate("SWAY_EFFECTIVE_DAMPING", mass_ratio, tuning_ratio, damper_damping,
-                    structural_damping)
-
-
-@_sheet_function("SWAY_STROKE_RATIO")
-def sway_stroke_ratio(mass_ratio, tuning_ratio, damper_damping, structural_damping=None):
-    return evaluate("SWAY_STROKE_RATIO", mass_ratio, tuning_ratio, damper_damping,
-                    structural_damping)
-
-
-@_sheet_function("SWAY_REQUIRED_DAMPING")
-def sway_required_damping(acceleration, acceleration_limit, structural_damping):
-    return evaluate("SWAY_REQUIRED_DAMPING", acceleration, acceleration_limit,
-                    structural_damping)
-
-
-@_sheet_function("SWAY_REQUIRED_MASS_RATIO")
-def sway_required_mass_ratio(total_damping, structural_damping=None):
-    return evaluate("SWAY_REQUIRED_MASS_RATIO", total_damping, structural_damping)
-
-
-@_sheet_function("SWAY_PEAK_FACTOR")
-def sway_peak_factor(frequency, duration=None):
-    return evaluate("SWAY_PEAK_FACTOR", frequency, duration)
-
-
-@_sheet_function("SWAY_FREQUENCY_RESPONSE")
-def sway_frequency_response(frequency_ratio, mass_ratio=None, tuning_ratio=None,
-                            damper_damping=None, structural_damping=None):
-    return evaluate("SWAY_FREQUENCY_RESPONSE", frequency_ratio, mass_ratio, tuning_ratio,
-                    damper_damping, structural_damping)
-
-
-# --- Simulation --------------------------------------------------------------------------------
-
-@_sheet_function("SWAY_FORCE_SPECTRUM")
-def sway_force_spectrum(frequency, rms, corner_frequency):
-    return evaluate("SWAY_FORCE_SPECTRUM", frequency, rms, corner_frequency)
-
-
-@_sheet_function("SWAY_SIMULATION_SUMMARY")
-def sway_simulation_summary(modal_mass, frequency, structural_damping, damper_mass, length,
-                            damper_damping, load_type, force, load_frequency, duration=None,
-                            seed=None, tolerance=None, g=None):
-    return evaluate("SWAY_SIMULATION_SUMMARY", modal_mass, frequency, structural_damping,
-                    damper_mass, length, damper_damping, load_type, force, load_frequency,
-                    duration, seed, tolerance, g)
-
-
-@_sheet_function("SWAY_SIMULATION_FIELDS")
-def sway_simulation_fields():
-    return evaluate("SWAY_SIMULATION_FIELDS")
-
-
-@_sheet_function("SWAY_RANDOM_RESPONSE_THEORY")
-def sway_random_response_theory(modal_mass, frequency, structural_damping, damper_mass, length,
-                                damper_damping, rms, corner_frequency, duration=None, g=None):
-    return evaluate("SWAY_RANDOM_RESPONSE_THEORY", modal_mass, frequency, structural_damping,
-                    damper_mass, length, damper_damping, rms, corner_frequency, duration, g)
-
-
-@_sheet_function("SWAY_RANDOM_RESPONSE_FIELDS")
-def sway_random_response_fields():
-    return evaluate("SWAY_RANDOM_RESPONSE_FIELDS")
-
-
-# --- Design ------------------------------------------------------------------------------------
-
-@_sheet_function("SWAY_PENDULUM_LENGTH")
-def sway_pendulum_length(frequency, stroke, g=None):
-    return evaluate("SWAY_PENDULUM_LENGTH", frequency, stroke, g)
-
-
-@_sheet_function("SWAY_DESIGN")
-def sway_design(frequency, modal_mass, structural_damping, acceleration, acceleration_limit,
-                clearance, damper_mass=None, mass_ratio=None, tuning_method=None,
-                max_swing_deg=None, max_detuning=None, mass_ratio_min=None,
-                mass_ratio_max=None, g=None):
-    return evaluate("SWAY_DESIGN", frequency, modal_mass, structural_damping, acceleration,
-                    acceleration_limit, clearance, damper_mass, mass_ratio, tuning_method,
-                    max_swing_deg, max_detuning, mass_ratio_min, mass_ratio_max, g)
-
-
-@_sheet_function("SWAY_DESIGN_FIELDS")
-def sway_design_fields():
-    return evaluate("SWAY_DESIGN_FIELDS")
+# --- the worksheet functions, generated from the catalogue ------------------------------------
+# xlwings (classic add-in and xlwings Lite) registers a worksheet function from the decorated
+# function object: the argument names and which are optional from inspect.signature, the wizard's
+# description from __doc__; the add-in then calls it by name in this module. So each wrapper is a
+# real ``def`` compiled from text built from its catalogue entry (names checked first), which
+# gives a genuine signature and code object, where a ``*args`` closure would show no arguments.
+
+def _wrapper_source(fn: SheetFunction) -> str:
+    """``def name(required, optional=None): return evaluate("NAME", required, optional)``."""
+    for n in [fn.python_name] + [a.name for a in fn.arguments]:
+        if not n.isidentifier() or keyword.iskeyword(n):
+            raise ValueError(f"{fn.name}: {n!r} cannot name a Python function or argument")
+    params = ", ".join(a.name + ("=None" if a.optional else "") for a in fn.arguments)
+    values = "".join(f", {a.name}" for a in fn.arguments)
+    return f"def {fn.python_name}({params}):\n    return evaluate({fn.name!r}{values})\n"
+
+
+def _sheet_function(fn: SheetFunction) -> Callable[..., Any]:
+    """The wrapper of ``fn``, with xlwings' decorators applied from its catalogue entry."""
+    local: dict[str, Any] = {}
+    # In this module's globals: the wrapper finds ``evaluate`` here, and its __module__ is this
+    # module's name (``functions.udf``, or the renamed package's in the xlwings Lite export).
+    exec(compile(_wrapper_source(fn), f"<{fn.name}>", "exec"), globals(), local)
+    f = local[fn.python_name]
+    f.__doc__ = fn.description              # xlwings shows the docstring in the wizard
+    for a in reversed(fn.arguments):
+        if a.kind in (NUMBER, ROWS) or fn.kind == LOOKUP:
+            f = arg(a.name, ndim=2, err_to_str=True, doc=a.help)(f)
+        else:
+            f = arg(a.name, doc=a.help)(f)
+    options: dict[str, Any] = {"category": CATEGORY}
+    if fn.slow:                             # classic add-in: not while typing in the wizard
+        options["call_in_wizard"] = False
+    return func(**options)(f)
+
+
+# Module globals, found by name by the add-ins and by ``from functions.udf import *``.
+_WRAPPERS = {fn.python_name: _sheet_function(fn) for fn in FUNCTIONS}
+globals().update(_WRAPPERS)
+__all__ += list(_WRAPPERS)

@@ -8,8 +8,12 @@ the engine itself (functions/*.py), whose own tests cite the published sources.
 """
 from __future__ import annotations
 
+import importlib.util
 import inspect
 import math
+import sys
+import types
+from dataclasses import replace
 
 import numpy as np
 import pytest
@@ -59,62 +63,112 @@ def assert_cells_close(got, expected):
     np.testing.assert_allclose(got_arr, expected, rtol=RTOL, atol=0.0)
 
 
-# --- structure of the module ------------------------------------------------------------------
+# --- the generated wrappers -------------------------------------------------------------------
 
 @pytest.mark.parametrize("fn", FUNCTIONS, ids=FN_IDS)
-def test_wrapper_exists_with_the_declared_signature(fn):
-    f = wrapper(fn)
-    assert f.__name__ == fn.python_name
+def test_wrapper_is_generated_with_the_declared_signature(fn):
+    f = vars(udf)[fn.python_name]                  # a module global, listed for import *
+    assert fn.python_name in udf.__all__
+    assert f.__name__ == f.__qualname__ == fn.python_name
+    assert f.__module__ == "functions.udf"
     assert f.__doc__ == fn.description
     params = list(inspect.signature(f).parameters.values())
     assert [p.name for p in params] == [a.name for a in fn.arguments]
     for p, a in zip(params, fn.arguments):
         assert p.kind is inspect.Parameter.POSITIONAL_OR_KEYWORD
         assert (p.default is None) if a.optional else (p.default is inspect.Parameter.empty)
+    # what the add-ins read: a real code object with the names, defaults for the optional ones
+    code = f.__code__
+    assert code.co_varnames[:code.co_argcount] == tuple(a.name for a in fn.arguments)
+    assert (f.__defaults__ or ()) == (None,) * sum(a.optional for a in fn.arguments)
 
 
 def test_every_wrapper_is_declared():
     declared = {fn.python_name for fn in FUNCTIONS}
     found = {n for n, obj in vars(udf).items() if n.startswith("sway_") and callable(obj)}
     assert found == declared
+    assert sorted(udf.__all__) == sorted(["evaluate", "MAX_TEXT", *declared])
+    namespace: dict = {}
+    exec("from functions.udf import *", namespace)            # noqa: S102 - test only
+    assert set(namespace) - {"__builtins__"} == set(udf.__all__)
+    assert all(namespace[n] is getattr(udf, n) for n in udf.__all__)
 
 
 def test_decorators_receive_the_catalogue_texts(monkeypatch):
-    """With recording stand-ins for xlwings' func/arg, each wrapper is registered as declared."""
+    """functions/udf.py imported afresh with a recording stand-in for xlwings' func/arg: each
+    generated wrapper is registered as declared, and the registered object is the global."""
     calls = {}
 
     def func(**kwargs):
         def inner(f):
-            calls.setdefault(f.__name__, {})["func"] = kwargs
+            calls.setdefault(f.__name__, {})["func"] = (kwargs, f)
             return f
         return inner
 
     def arg(name, **kwargs):
         def inner(f):
-            calls.setdefault(f.__name__, {}).setdefault("args", {})[name] = kwargs
+            calls.setdefault(f.__name__, {}).setdefault("args", []).append((name, kwargs))
             return f
         return inner
 
-    monkeypatch.setattr(udf, "func", func)
-    monkeypatch.setattr(udf, "arg", arg)
+    stand_in = types.ModuleType("xlwings")
+    stand_in.func, stand_in.arg = func, arg
+    monkeypatch.setitem(sys.modules, "xlwings", stand_in)
+    spec = importlib.util.spec_from_file_location("udf_probe", udf.__file__)
+    probe = importlib.util.module_from_spec(spec)
+    spec.loader.exec_module(probe)
+    assert set(calls) == {fn.python_name for fn in FUNCTIONS}
     for fn in FUNCTIONS:
-        def stub():
-            pass
-        stub.__name__ = fn.python_name
-        udf._sheet_function(fn.name)(stub)
         rec = calls[fn.python_name]
+        options, registered = rec["func"]
         expected = {"category": catalogue.CATEGORY}
         if fn.slow:
             expected["call_in_wizard"] = False
-        assert rec["func"] == expected
-        assert stub.__doc__ == fn.description
+        assert options == expected
+        assert getattr(probe, fn.python_name) is registered
+        assert registered.__doc__ == fn.description
+        assert list(inspect.signature(registered).parameters) == [a.name for a in fn.arguments]
+        # applied innermost first, as stacked decorators written in the arguments' order
+        assert [name for name, _ in rec.get("args", [])] == [a.name for a in fn.arguments][::-1]
         for a in fn.arguments:
-            options = rec["args"][a.name]
+            options = dict(rec["args"])[a.name]
             assert options["doc"] == a.help
             if a.kind in (NUMBER, catalogue.ROWS) or fn.kind == catalogue.LOOKUP:
                 assert options["ndim"] == 2 and options["err_to_str"] is True
             else:                               # one cell: text or TRUE/FALSE
                 assert "ndim" not in options
+
+
+@pytest.mark.parametrize("fn", FUNCTIONS, ids=FN_IDS)
+def test_wrapper_hands_its_arguments_to_evaluate_in_order(fn, monkeypatch):
+    seen = []
+    monkeypatch.setattr(udf, "evaluate", lambda *args: seen.append(args) or len(seen))
+    f = wrapper(fn)
+    cells = [object() for _ in fn.arguments]
+    assert f(*cells) == 1
+    assert f(**{a.name: c for a, c in zip(fn.arguments, cells)}) == 2
+    required = [c for a, c in zip(fn.arguments, cells) if not a.optional]
+    assert f(*required) == 3                    # omitted optional arguments arrive as None
+    assert seen == [(fn.name, *cells)] * 2 + [
+        (fn.name, *required, *[None] * (len(cells) - len(required)))]
+
+
+@pytest.mark.parametrize("fn", FUNCTIONS, ids=FN_IDS)
+def test_wrapper_equals_evaluate_on_the_example(fn):
+    expected = udf.evaluate(fn.name, *fn.example)
+    assert expected is not None and not isinstance(expected, str), expected
+    assert wrapper(fn)(*fn.example) == expected
+    assert wrapper(fn)(**{a.name: v for a, v in zip(fn.arguments, fn.example)}) == expected
+
+
+@pytest.mark.parametrize("bad", ["lambda", "two words", "x=1): pass\ndef y(", ""])
+def test_generator_refuses_names_that_are_not_python_names(bad):
+    fn = catalogue.BY_NAME["SWAY_SWING_ANGLE"]
+    arguments = (replace(fn.arguments[0], name=bad),) + fn.arguments[1:]
+    with pytest.raises(ValueError, match="cannot name a Python function or argument"):
+        udf._sheet_function(replace(fn, arguments=arguments))
+    with pytest.raises(ValueError, match="cannot name a Python function or argument"):
+        udf._sheet_function(replace(fn, name=bad))          # python_name: lower case
 
 
 # --- values against the engine ----------------------------------------------------------------
