@@ -528,7 +528,7 @@ def test_variance_precision_against_mpmath(mu, f, zd, zs):
 def test_newton_solvers_find_the_optima_from_den_hartog(mu):
     # white-box: the solvers also reach the closed forms (Warburton 1982; Nishihara & Asami
     # 2002) from Den Hartog's design, not only from the answer they are started at in use
-    from functions import damper as d
+    from functions import optima as d
     m, z = np.array([mu]), np.array([0.0])
     f0, z0 = optimal_tuning(mu, "den_hartog")
     u, ok = d._batched_newton(d._h2_residual,
