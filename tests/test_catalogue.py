@@ -203,7 +203,8 @@ def _engine_modules():
     # validation helpers, declarations (quantities, worksheet twins, the chain's steps) and the
     # spreadsheet layer itself are not engine functions
     skip = {"functions._validation", "functions.udf", "functions.catalogue",
-            "functions.quantities", "functions.worksheet", "functions.chain"}
+            "functions.quantities", "functions.worksheet", "functions.chain",
+            "functions.closed_forms"}
     for info in pkgutil.iter_modules(functions.__path__, "functions."):
         if info.name not in skip:
             yield importlib.import_module(info.name)

@@ -1,10 +1,11 @@
 # SPDX-License-Identifier: MIT
 """Tests of functions.damper against published optima and independent computations.
 
-Confidence labels follow /work/shared/REFERENCES.md: "confirmed" (seen in a public document),
+Confidence labels beside each reference value: "confirmed" (seen in a public document),
 "from memory" (recalled, not checked against the printed page), "computed" (reproduced here
-with scipy). Every reference value that scipy can produce is recomputed in this file by a route
-independent of the module (state-space Lyapunov solution, direct complex solve, Nelder-Mead).
+with scipy). Every reference value that scipy can produce is recomputed in these tests by a route
+independent of the module (state-space Lyapunov solution, direct complex solve, Nelder-Mead;
+the shared ones in tests/damper_references.py).
 """
 from __future__ import annotations
 
@@ -14,8 +15,7 @@ import numpy as np
 import pytest
 from hypothesis import given, settings
 from hypothesis import strategies as st
-from scipy.linalg import solve_continuous_lyapunov
-from scipy.optimize import brentq, minimize, minimize_scalar
+from scipy.optimize import brentq, minimize
 
 from functions.damper import (
     CLOSED_FORM_METHODS,
@@ -31,73 +31,13 @@ from functions.damper import (
     stroke_ratio,
 )
 
-
-# ---------------------------------------------------------------------------------------------
-# independent references written here (not using the module)
-# ---------------------------------------------------------------------------------------------
-def lyapunov_variances(mu, f, zd, zs, base=False, modal_mass=1.0, omega_s=1.0, s0=1.0):
-    """Stationary variances of (x_s, x_d - x_s) under white noise, from the state equations.
-
-    Dimensional 2-DOF model in coordinates x (structure, relative to ground) and z (damper
-    relative to the structure). Force excitation: two-sided spectral density s0 of the force on
-    the structure. Base excitation: two-sided density s0 of the ground acceleration. The state
-    covariance P solves A P + P A^T + 2 pi B S0 B^T = 0.
-    """
-    m, md = modal_mass, mu * modal_mass
-    k, kd = m * omega_s ** 2, md * (f * omega_s) ** 2
-    c, cd = 2 * zs * m * omega_s, 2 * zd * md * f * omega_s
-    mass = np.array([[m, 0.0], [md, md]])
-    stiff = np.array([[k, -kd], [0.0, kd]])
-    damp = np.array([[c, -cd], [0.0, cd]])
-    load = np.array([-m, -md]) if base else np.array([1.0, 0.0])
-    minv = np.linalg.inv(mass)
-    a = np.block([[np.zeros((2, 2)), np.eye(2)], [-minv @ stiff, -minv @ damp]])
-    b = np.concatenate([np.zeros(2), minv @ load])[:, None]
-    p = solve_continuous_lyapunov(a, -2.0 * np.pi * s0 * (b @ b.T))
-    return p[0, 0], p[1, 1]
-
-
-def amplification(r, mu, f, zd, zs):
-    """|x_s| / (F/k) from a direct complex solve of the 2x2 dynamic stiffness (omega_s = 1)."""
-    kd, cd = mu * f * f, 2 * zd * mu * f
-    dyn = np.array([[1 + 2j * zs * r - r * r, -(kd + 1j * r * cd)],
-                    [-mu * r * r, -mu * r * r + kd + 1j * r * cd]])
-    x = np.linalg.solve(dyn, np.array([1.0, 0.0]))
-    return abs(x[0])
-
-
-def base_amplification(r, mu, f, zd, zs=0.0):
-    """|x_s| / (a_g / omega_s^2) under harmonic base acceleration (direct complex solve)."""
-    kd, cd = mu * f * f, 2 * zd * mu * f
-    dyn = np.array([[1 + 2j * zs * r - r * r, -(kd + 1j * r * cd)],
-                    [-mu * r * r, -mu * r * r + kd + 1j * r * cd]])
-    x = np.linalg.solve(dyn, np.array([-1.0, -mu]))
-    return abs(x[0])
-
-
-def amplification_cramer(r, mu, f, zd, zs):
-    """Vectorised form of :func:`amplification` (Cramer's rule on the same 2x2 system)."""
-    kd, cd = mu * f * f, 2 * zd * mu * f
-    d11 = 1 + 2j * zs * r - r * r
-    d12 = -(kd + 1j * r * cd)
-    d21 = -mu * r * r
-    d22 = -mu * r * r + kd + 1j * r * cd
-    return np.abs(d22 / (d11 * d22 - d12 * d21))
-
-
-def true_peak(mu, f, zd, zs, func=amplification):
-    """Global maximum of the amplification: dense grid, then a bounded refinement."""
-    r = np.linspace(0.2, 1.8, 8001)
-    if func is amplification or func is amplification_cramer:
-        v = amplification_cramer(r, mu, f, zd, zs)
-    else:
-        v = np.array([func(x, mu, f, zd, zs) for x in r])
-    best = 0.0
-    for i in np.flatnonzero((v[1:-1] >= v[:-2]) & (v[1:-1] >= v[2:])) + 1:
-        res = minimize_scalar(lambda x: -func(x, mu, f, zd, zs), bounds=(r[i - 1], r[i + 1]),
-                              method="bounded", options={"xatol": 1e-10})
-        best = max(best, -res.fun)
-    return best
+from damper_references import (
+    amplification,
+    amplification_cramer,
+    base_amplification,
+    lyapunov_variances,
+    true_peak,
+)
 
 
 SYSTEMS = [  # (mu, f, zeta_d, zeta_s)
@@ -203,7 +143,8 @@ def test_den_hartog_fixed_points(mu):
                                                                        rel=1e-9)
     z1, z2 = (_brock_damping(mu, f, r, amplification) for r in pts)
     assert zd == pytest.approx(math.sqrt((z1 ** 2 + z2 ** 2) / 2), rel=1e-7)
-    # the true peak at these parameters is slightly higher than the fixed points (REFERENCES.md)
+    # the true peak at these parameters is slightly higher than the fixed points (computed:
+    # brute-force peak search)
     assert true_peak(mu, f, zd, 0.0) > math.sqrt(1 + 2 / mu)
 
 
@@ -255,31 +196,14 @@ def test_warburton_white_noise_minimises_lyapunov_variance(method, base, mu):
 
 
 # ---------------------------------------------------------------------------------------------
-# numerical optima
+# Nishihara & Asami, J. Vib. Acoust. 124:576-582 (2002) -- the numerical hinf optimum is in
+# tests/test_optima.py
 # ---------------------------------------------------------------------------------------------
-@pytest.mark.parametrize("mu", [1e-4, 0.005, 0.02, 0.1, 0.5, 2.0])
-def test_h2_undamped_equals_warburton(mu):
-    # Warburton (1982) white-noise force, see above; tolerance: rounding only
-    f, zd = optimal_tuning(mu, "h2")
-    fw, zw = optimal_tuning(mu, "white_noise_force")
-    assert f == pytest.approx(fw, rel=1e-12)
-    assert zd == pytest.approx(zw, rel=1e-10)
-
-
-@pytest.mark.parametrize("mu", [1e-4, 0.005, 0.02, 0.1, 0.5, 2.0])
-def test_hinf_undamped_equals_nishihara_asami(mu):
-    # Nishihara & Asami, J. Vib. Acoust. 124:576-582 (2002): paper confirmed, damping formula
-    # from memory and verified numerically, f and H derived by computation
-    f, zd = optimal_tuning(mu, "hinf")
-    fn, zn = optimal_tuning(mu, "nishihara_asami")
-    assert f == pytest.approx(fn, rel=1e-10)
-    assert zd == pytest.approx(zn, rel=1e-8)
-
-
 @pytest.mark.parametrize("mu", [0.01, 0.02, 0.1])
 def test_nishihara_asami_peak(mu):
     # minimum peak H = (16 + 9 mu + 4 s) / (3 sqrt(mu (2+s)(2+3s))), s = sqrt(4 + 3 mu)
-    # (derived by computation, REFERENCES.md); checked against a brute-force peak search
+    # (derived by computation in this project: computed); checked against a brute-force
+    # peak search
     s = math.sqrt(4 + 3 * mu)
     h = (16 + 9 * mu + 4 * s) / (3 * math.sqrt(mu * (2 + s) * (2 + 3 * s)))
     f, zd = optimal_tuning(mu, "nishihara_asami")
@@ -287,72 +211,6 @@ def test_nishihara_asami_peak(mu):
     # and it is lower than the true peak of Den Hartog's fixed-point design
     fd, zdd = optimal_tuning(mu, "den_hartog")
     assert true_peak(mu, fd, zdd, 0.0) > h
-
-
-@pytest.mark.parametrize("mu, zs", [(0.005, 0.01), (0.02, 0.02), (0.05, 0.05), (0.2, 0.1),
-                                    (0.01, 0.2)])
-def test_h2_damped_against_scipy(mu, zs):
-    # computed: Nelder-Mead on the Lyapunov variance (independent of the module's formula)
-    def obj(p):
-        return math.log(lyapunov_variances(mu, p[0], p[1], zs)[0])
-    f, zd = optimal_tuning(mu, "h2", zs)
-    res = minimize(obj, [1.0, 0.1], method="Nelder-Mead",
-                   options={"xatol": 1e-10, "fatol": 1e-15, "maxiter": 4000})
-    assert res.x == pytest.approx([f, zd], rel=1e-5)
-    assert obj([f, zd]) <= res.fun + 1e-12
-
-
-@pytest.mark.parametrize("mu, zs", [(0.02, 0.02), (0.05, 0.05), (0.01, 0.1), (0.2, 0.3)])
-def test_hinf_damped_is_local_minimax(mu, zs):
-    # computed: every small change of (f, zeta_d) raises the brute-force peak
-    f, zd = optimal_tuning(mu, "hinf", zs)
-    peak = true_peak(mu, f, zd, zs, amplification_cramer)
-    for ang in np.linspace(0.0, 2 * np.pi, 12, endpoint=False):
-        df, dz = 1e-4 * np.cos(ang), 1e-4 * np.sin(ang)
-        assert true_peak(mu, f * (1 + df), zd * (1 + dz), zs, amplification_cramer) > peak
-
-
-def test_hinf_damped_against_nelder_mead():
-    # computed: Nelder-Mead on the brute-force peak, from a start 1 % / 10 % away
-    mu, zs = 0.02, 0.02
-    f, zd = optimal_tuning(mu, "hinf", zs)
-    res = minimize(lambda p: true_peak(mu, p[0], p[1], zs, amplification_cramer),
-                   [f * 1.01, zd * 0.9], method="Nelder-Mead",
-                   options={"xatol": 1e-8, "fatol": 1e-12, "maxiter": 400})
-    assert true_peak(mu, f, zd, zs, amplification_cramer) <= res.fun * (1 + 1e-9)
-    assert res.x == pytest.approx([f, zd], rel=1e-4)
-
-
-@settings(max_examples=40, deadline=None)
-@given(mu=st.floats(1e-3, 0.5), zs=st.floats(0.0, 0.2), df=st.floats(-0.02, 0.02),
-       dz=st.floats(-0.2, 0.2))
-def test_h2_is_a_maximum_of_effective_damping(mu, zs, df, dz):
-    f, zd = optimal_tuning(mu, "h2", zs)
-    best = effective_damping(mu, f, zd, zs)
-    assert effective_damping(mu, f * (1 + df), zd * (1 + dz), zs) <= best * (1 + 1e-13)
-
-
-def test_numerical_optima_vectorised():
-    mu = np.array([[0.01, 0.02, 0.05]])
-    zs = np.array([[0.0], [0.02]])
-    for method in ("h2", "hinf"):
-        f, zd = optimal_tuning(mu, method, zs)
-        assert f.shape == zd.shape == (2, 3)
-        for i in range(2):
-            for j in range(3):
-                fs, zds = optimal_tuning(float(mu[0, j]), method, float(zs[i, 0]))
-                assert isinstance(fs, float)
-                assert f[i, j] == pytest.approx(fs, rel=1e-12)
-                assert zd[i, j] == pytest.approx(zds, rel=1e-10)
-
-
-def test_numerical_optima_sweep_converges():
-    # the whole validated domain, edges included (computed)
-    mu = np.concatenate([np.geomspace(1e-4, 2.0, 25)] * 4)
-    zs = np.repeat([0.0, 0.05, 0.15, 0.3], 25)
-    for method in ("h2", "hinf"):
-        f, zd = optimal_tuning(mu, method, zs)
-        assert np.all((f > 0.2) & (f < 1.0) & (zd > 0.0) & (zd < 0.6))
 
 
 # ---------------------------------------------------------------------------------------------
@@ -370,7 +228,8 @@ def test_effective_damping_sqrt_mu_over_4(mu):
 
 
 def test_harmonic_equivalent_damping_is_larger():
-    # REFERENCES.md: the harmonic-peak "equivalent damping" 1/(2 sqrt(1+2/mu)) is ~40 % larger
+    # computed: the harmonic-peak "equivalent damping" 1/(2 sqrt(1+2/mu)) (Den Hartog's
+    # fixed-point height, above) is ~40 % larger
     mu = 0.02
     f, zd = optimal_tuning(mu, "h2")
     ratio = (1 / (2 * math.sqrt(1 + 2 / mu))) / effective_damping(mu, f, zd)
@@ -522,25 +381,3 @@ def test_variance_precision_against_mpmath(mu, f, zd, zs):
     den = a1 * p - w * a3 * a3
     assert effective_damping(mu, f, zd, zs) == pytest.approx(float(den / (2 * num)), rel=4e-16)
     assert stroke_ratio(mu, f, zd, zs) == pytest.approx(float(mpmath.sqrt(a1 / num)), rel=4e-16)
-
-
-@pytest.mark.parametrize("mu", [0.005, 0.02, 0.1, 0.5])
-def test_newton_solvers_find_the_optima_from_den_hartog(mu):
-    # white-box: the solvers also reach the closed forms (Warburton 1982; Nishihara & Asami
-    # 2002) from Den Hartog's design, not only from the answer they are started at in use
-    from functions import damper as d
-    m, z = np.array([mu]), np.array([0.0])
-    f0, z0 = optimal_tuning(mu, "den_hartog")
-    u, ok = d._batched_newton(d._h2_residual,
-                              np.array([[math.log(f0 * f0), math.log(z0 * f0)]]), (m, z))
-    assert ok[0]
-    fw, zw = optimal_tuning(mu, "white_noise_force")
-    assert (math.exp(u[0, 0] / 2), math.exp(u[0, 1]) / math.exp(u[0, 0] / 2)) == pytest.approx(
-        (fw, zw), rel=1e-10)
-    r = math.sqrt(mu / (2 + mu))
-    u0 = np.log([[f0 * f0, z0 * f0, (1 - r) / (1 + mu), (1 + r) / (1 + mu)]])
-    u, ok = d._batched_newton(d._hinf_residual, u0, (m, z))
-    assert ok[0] and d._hinf_check(u, m, z)[0]
-    fn, zn = optimal_tuning(mu, "nishihara_asami")
-    f = math.exp(u[0, 0] / 2)
-    assert (f, math.exp(u[0, 1]) / f) == pytest.approx((fn, zn), rel=1e-9)

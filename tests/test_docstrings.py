@@ -20,7 +20,8 @@ import functions
 # declarations (quantities, worksheet twins, the chain's steps) and the spreadsheet layer (udf,
 # catalogue: thin wrappers documented for the function wizard) are not engine functions.
 SKIP_MODULES = {"functions._validation", "functions.udf", "functions.catalogue",
-                "functions.quantities", "functions.worksheet", "functions.chain"}
+                "functions.quantities", "functions.worksheet", "functions.chain",
+                "functions.closed_forms"}
 
 UNIT = re.compile(r"\[[^\[\]]+\]\.?$")
 ENTRY = re.compile(r"^(\*{0,2}[A-Za-z_][A-Za-z0-9_]*)\s*:\s*(.+)$")
