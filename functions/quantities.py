@@ -375,7 +375,7 @@ FLOOR_TABLE: tuple[Quantity, ...] = (
        low_open=True, fmt="0.0000", section="mode.floors",
        description="Height h of the power-law mode shape (z/h)^k"),
     _q("exponent", "k", "Mode shape exponent (floor table)", "-", "fraction", 0.0, 5.0,
-       low_open=True, defined_name="mode_exponent", section="mode.floors",
+       low_open=True, fmt="0.000", defined_name="mode_exponent", section="mode.floors",
        description="Exponent k of the mode shape (z/h)^k, EN 1991-1-4 Annex F (F.3)"),
     _q("damper_level", "", "Damper at floor (1-based)", "-", "count", 1, 10000,
        section="mode.floors", description="Number of the floor carrying the damper, from "

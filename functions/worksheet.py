@@ -22,7 +22,13 @@ import re
 from dataclasses import dataclass
 from typing import Any, Callable
 
-__all__ = ["WorksheetForm", "twin", "formula_names", "form_of"]
+__all__ = ["WorksheetForm", "twin", "formula_names", "form_of", "TWIN_TOLERANCE"]
+
+#: Largest relative difference accepted between a worksheet formula, as any spreadsheet
+#: application evaluates it, and its numpy twin [-]. The twins agree to about 1e-15 (the
+#: regrouped variance forms keep full precision); a spreadsheet's own functions and the
+#: reference formulas through helper cells (the AGM fixed point) stay within 1e-12.
+TWIN_TOLERANCE = 1e-9
 
 # Strings, numbers (with exponents) and names; a name followed by "(" is a function.
 _TOKEN = re.compile(r'"(?:[^"]|"")*"|\d+(?:\.\d*)?(?:[Ee][+-]?\d+)?|\.\d+(?:[Ee][+-]?\d+)?'

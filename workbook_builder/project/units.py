@@ -63,9 +63,12 @@ UNITS: dict[str, dict[str, Unit]] = {
         "in": Unit("in", INCH, _EXACT_1959),
     },
     "angle": {"deg": Unit("deg", 1.0, "degree (the engine's angle unit)")},
+    "time": {"s": Unit("s", 1.0, "SI unit")},
+    "count": {"-": Unit("-", 1.0, "a whole number")},
 }
 
-#: The SI (engine) unit of each kind.
+#: The SI (engine) unit of each kind (the first of its units; the same as the engine's
+#: declaration, functions.quantities.UNIT_KINDS, which a test checks).
 SI_UNIT = {kind: next(iter(units)) for kind, units in UNITS.items()}
 
 UNIT_SYSTEMS = ("SI", "US")
@@ -73,9 +76,9 @@ UNIT_SYSTEMS = ("SI", "US")
 #: Unit a bare number in a project file is read in, per unit system and kind.
 DEFAULT_UNITS: dict[str, dict[str, str]] = {
     "SI": {"frequency": "Hz", "mass": "kg", "fraction": "-", "acceleration": "m/s^2",
-           "length": "m", "angle": "deg"},
+           "length": "m", "angle": "deg", "time": "s", "count": "-"},
     "US": {"frequency": "Hz", "mass": "kip", "fraction": "-", "acceleration": "ft/s^2",
-           "length": "ft", "angle": "deg"},
+           "length": "ft", "angle": "deg", "time": "s", "count": "-"},
 }
 
 

@@ -1,0 +1,114 @@
+# SPDX-License-Identifier: MIT
+"""What a workbook's layout depends on, stored in the workbook so its plan can be rebuilt.
+
+:class:`PlanOptions` holds every fact that moves, adds or removes a cell: the plan's version,
+the unit system, the paper, the tuning method, how the mass ratio is set, which inputs have a
+row, the size of the floor table, whether a firm's template holds the title block, and the
+sizes of the optional Nonlinear sheet's tables. Numbers never change the layout. The options
+travel with the workbook as JSON in the custom document property :data:`PLAN_PROPERTY`; the
+version is also the hidden workbook-scoped defined name :data:`FORMAT_NAME`.
+"""
+from __future__ import annotations
+
+import json
+from dataclasses import asdict, dataclass, fields
+from typing import Any
+
+from functions.chain import MASS_RATIO_MODES, mass_ratio_mode
+from functions.damper import OPTIMAL_TUNING_METHODS
+from functions.quantities import design_inputs
+
+__all__ = ["PLAN_VERSION", "FORMAT_NAME", "PLAN_PROPERTY", "PlanOptions", "options_for"]
+
+#: Version of the plan (the layout of the workbooks this builder writes). RAISE IT BY ONE ON
+#: EVERY LAYOUT CHANGE (a sheet, row, column, defined name or formula moved, added, removed or
+#: rewritten). History: 1 = swaytune 0.1 before the mark existed; 2 = the mark and the
+#: SwaytuneSimulation property (0.1.0); 3 = the plan as data, every value recalculation reads
+#: or writes in a named cell, the options in SwaytunePlan.
+PLAN_VERSION = 3
+#: Defined name (workbook scope, hidden) holding :data:`PLAN_VERSION`.
+FORMAT_NAME = "SWAYTUNE_FORMAT"
+#: Custom document property holding the options as JSON data (never a formula).
+PLAN_PROPERTY = "SwaytunePlan"
+
+
+@dataclass(frozen=True)
+class PlanOptions:
+    """Layout options of one workbook.
+
+    ``inputs`` lists the design inputs with a row on the Inputs sheet (glossary names, in
+    declaration order: an optional input not given has none, nor the modal mass when
+    ``floors`` > 0 floors give it). ``simulation`` is None without a Nonlinear sheet, else
+    ``(load, time rows, window rows)`` of its tables.
+    """
+
+    units: str = "SI"
+    paper: str = "A4"
+    tuning_method: str = "h2"
+    mass_ratio_mode: str = "required"
+    inputs: tuple[str, ...] = ()
+    floors: int = 0
+    template: bool = False
+    simulation: tuple[str, int, int] | None = None
+    version: int = PLAN_VERSION
+
+    def __post_init__(self) -> None:
+        if self.tuning_method not in OPTIMAL_TUNING_METHODS:
+            raise ValueError(f"tuning_method={self.tuning_method!r} must be one of "
+                             f"{', '.join(OPTIMAL_TUNING_METHODS)}")
+        if self.mass_ratio_mode not in MASS_RATIO_MODES:
+            raise ValueError(f"mass_ratio_mode={self.mass_ratio_mode!r} must be one of "
+                             f"{', '.join(MASS_RATIO_MODES)}")
+        if self.units not in ("SI", "US") or self.paper not in ("A4", "Letter"):
+            raise ValueError(f"units={self.units!r} and paper={self.paper!r} must be SI or US "
+                             "and A4 or Letter")
+
+    @property
+    def us(self) -> bool:
+        return self.units == "US"
+
+    def to_json(self) -> str:
+        """The options as JSON text."""
+        return json.dumps(asdict(self), sort_keys=True)
+
+    @classmethod
+    def from_json(cls, text: str) -> "PlanOptions":
+        """Options from :meth:`to_json`.
+
+        Raises
+        ------
+        ValueError
+            When the text is not the JSON of options of this builder.
+        """
+        try:
+            raw = json.loads(text)
+        except ValueError as exc:
+            raise ValueError(f"{PLAN_PROPERTY} is not JSON: {exc}") from None
+        names = {f.name for f in fields(cls)}
+        if not isinstance(raw, dict) or set(raw) - names:
+            raise ValueError(f"{PLAN_PROPERTY} {text[:80]!r} does not hold the options of a "
+                             f"plan (keys {sorted(names)})")
+        kwargs: dict[str, Any] = dict(raw)
+        kwargs["inputs"] = tuple(raw.get("inputs", ()))
+        if raw.get("simulation") is not None:
+            kwargs["simulation"] = tuple(raw["simulation"])
+        try:
+            return cls(**kwargs)
+        except TypeError as exc:
+            raise ValueError(f"{PLAN_PROPERTY}: {exc}") from None
+
+
+def options_for(project: Any, simulation: Any = None, template: bool = False) -> PlanOptions:
+    """The layout options of a project's workbook (``simulation``: its SimulationRun)."""
+    inputs = tuple(q.name for q in design_inputs()
+                   if q.kind != "choice" and q.name in project.inputs)
+    sim = None
+    if simulation is not None:
+        sim = (simulation.settings.load, len(simulation.time_table.rows),
+               len(simulation.window_table.rows))
+    return PlanOptions(
+        units=project.units, paper=project.paper, tuning_method=project.tuning_method,
+        mass_ratio_mode=mass_ratio_mode("mass_ratio" in project.inputs,
+                                        "damper_mass" in project.inputs),
+        inputs=inputs, floors=0 if project.floors is None else len(project.floors.heights),
+        template=template, simulation=sim)

@@ -1,0 +1,99 @@
+# SPDX-License-Identifier: MIT
+"""The reference sheets: Names (every defined name), Cautions, Record.
+
+The Names sheet lists every defined name of the plan with the cell it refers to, what it holds,
+its unit and its value; the Cautions sheet the cautions every output carries; the Record sheet
+the program, the source file and how to rebuild the workbook.
+"""
+from __future__ import annotations
+
+from .calculation import unit_format
+from .model import Plan
+from .sheet import Looks, SheetLayout
+
+__all__ = ["CAUTIONS", "names_sheet", "cautions_sheet", "record_sheet", "RECORD_ROWS"]
+
+#: Cautions printed in every workbook and by the command line.
+CAUTIONS = (
+    "This workbook is a preliminary design aid. It is not a design of a damper.",
+    "Every result must be checked by a licensed (chartered / professional) engineer.",
+    "Check the design against the local codes and standards that apply to the project.",
+    "Use wind-tunnel data (or a code calculation the authority accepts) for the response "
+    "without the damper and for the comfort criterion.",
+    "The damper itself (hangers, bearings, dampers, buffers, tuning adjustment) must follow the "
+    "manufacturer's design, with its own tests and tolerances.",
+    "The rules used here are simplified: resonant response of one mode, white-noise force, "
+    "linear viscous damping, equal peak factors, rigid support of the damper.",
+    "Measure the built structure's frequency and damping and retune the damper to them.",
+)
+
+#: Rows of the Record sheet: (label, source key, defined name).
+RECORD_ROWS = (
+    ("Program", "program", "record_program"),
+    ("Engine", "engine", "record_engine"),
+    ("Source file", "source", "record_source"),
+    ("Case", "case", "record_case"),
+    ("Source SHA-256", "sha256", "record_sha256"),
+    ("Unit system of the project", "units", "record_units"),
+    ("Tuning method", "tuning_method", "record_tuning_method"),
+    ("Nonlinear simulation", "simulation", "record_simulation"),
+    ("Build time", "build_time", ""),
+    ("Rebuild with", "rebuild", "record_rebuild"),
+)
+
+
+def names_sheet(plan: Plan) -> SheetLayout:
+    """The Names sheet: every defined name of ``plan`` (drawn after the other sheets)."""
+    sh = SheetLayout("Names")
+    sh.label(1, 1, "Defined names (workbook scope)", Looks.TITLE)
+    sh.label(2, 1, "Every input and result has a name; formulas use the names, so "
+                   "=structural_damping*(acceleration/acceleration_limit)^2 reads as the "
+                   "equation.", Looks.WRAP)
+    sh.merge(2, 1, 2, 5)
+    sh.header(4, ["Name", "Refers to", "Quantity", "Unit", "Value"])
+    row = 5
+    entries = [(name, sheet, ref, cell.label, cell.unit, True)
+               for sheet, cell in plan.cells() if cell.name and not cell.name.startswith("TB_")
+               for name, ref in [(cell.name, cell.ref)]]
+    entries += [(name, sheet, rng, "range of values", "", False)
+                for name, (sheet, rng) in plan.range_names().items()]
+    for name, sheet, ref, label, unit, single in sorted(entries):
+        sh.label(row, 1, name, "box")
+        sh.label(row, 2, f"{sheet}!{ref}", "box")
+        sh.label(row, 3, label or "helper cell", "wrap box")
+        sh.label(row, 4, unit, "box")
+        if single:
+            sh.formula(row, 5, f"={name}", fmt=unit_format(unit) if unit else "General",
+                       style="box")
+        else:
+            sh.blank(row, 5, "box")
+        row += 1
+    sh.widths([30, 18, 52, 8, 22])
+    sh.page(title_rows="1:4", freeze="A5")
+    return sh
+
+
+def cautions_sheet() -> SheetLayout:
+    sh = SheetLayout("Cautions")
+    sh.label(1, 1, "Cautions", Looks.TITLE)
+    for i, text in enumerate(CAUTIONS, start=3):
+        sh.label(i, 1, f"{i - 2}.", Looks.TOP)
+        sh.label(i, 2, text, Looks.WRAP)
+    r = len(CAUTIONS) + 4
+    sh.label(r, 2, "Sources of the methods are given beside each step of the Calculation "
+                   "sheet. Values marked 'common practice, no source' are rules of the trade, "
+                   "not requirements of a standard.", Looks.WRAP)
+    sh.widths([5, 95])
+    sh.page()
+    return sh
+
+
+def record_sheet() -> SheetLayout:
+    sh = SheetLayout("Record")
+    sh.label(1, 1, "Record", Looks.TITLE)
+    for i, (label, key, name) in enumerate(RECORD_ROWS, start=3):
+        sh.label(i, 1, label, "bold box")
+        sh.text(i, 2, ("record", key), "box wrap", name=name)
+    sh.widths([28, 80])
+    sh.page()
+    return sh
