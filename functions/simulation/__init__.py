@@ -11,9 +11,16 @@ Every public name of the modules below is re-exported here (``simulation.simulat
     run          simulate: nonlinear, linearised and bare building under one load
     retune       retune_for_swing, RetuneResult
     summary      simulation_summary (flat inputs, for spreadsheets)
+    calibration  calibrated_load (force from a peak acceleration), hanger_damping
 
 The notes on the model, the integration and the loads head the module they describe.
 """
+from functions.simulation.calibration import (
+    PEAK_DURATION,
+    CalibratedLoad,
+    calibrated_load,
+    hanger_damping,
+)
 from functions.simulation.integrators import INTEGRATORS
 from functions.simulation.loads import LOAD_TYPES, HarmonicForce, RandomForce, force_spectrum
 from functions.simulation.results import SUMMARY_FIELDS, Response, SimulationResult
@@ -36,5 +43,10 @@ __all__ = [
     "simulate",
     "retune_for_swing",
     "simulation_summary",
+    # load calibration (functions.simulation.calibration) and the load types
     "LOAD_TYPES",
+    "PEAK_DURATION",
+    "CalibratedLoad",
+    "calibrated_load",
+    "hanger_damping",
 ]
