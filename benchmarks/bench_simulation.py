@@ -20,13 +20,9 @@ import time
 import numpy as np
 from scipy.integrate import solve_ivp
 
-from functions.simulation import (
-    RandomForce,
-    _linear_run,
-    _nonlinear_rk4,
-    _system,
-    simulate,
-)
+from functions.simulation import RandomForce, simulate
+from functions.simulation.integrators import _linear_run, _nonlinear_rk4
+from functions.simulation.model import _system
 
 # Invented demo system: 0.2 Hz mode, M = 1e6 kg, 1 % damping; 2 % damper on a 6 m hanger.
 ARGS = (1e6, 0.2, 0.01, 2e4, 6.0, 0.07)

@@ -628,6 +628,12 @@ COVERED_ELSEWHERE: dict[str, str] = {
     "functions.simulation.retune_for_swing":
         "takes load objects and returns two full simulations; a script-level tool, not a cell "
         "formula",
+    "functions.simulation.calibrated_load":
+        "returns a load object for simulate (the workbook builder's Nonlinear sheet); "
+        "SWAY_RANDOM_RESPONSE_THEORY and SWAY_PEAK_FACTOR give its numbers in cells",
+    "functions.simulation.hanger_damping":
+        "one product and quotient, zeta_d f_d / f_L, used by the workbook builder to pass the "
+        "designed dashpot to simulate",
 }
 
 #: Messages a worksheet function returns instead of a result: (function, arguments, message,

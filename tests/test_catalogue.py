@@ -172,7 +172,7 @@ def test_text_choices_are_the_engine_choices():
                       "structure_type": tuple(structure.MODE_SHAPE_EXPONENTS),
                       "building_type": tuple(structure.STRUCTURAL_LOG_DECREMENTS),
                       "tuning_method": damper.OPTIMAL_TUNING_METHODS,
-                      "load_type": simulation._LOAD_TYPES}
+                      "load_type": simulation.LOAD_TYPES}
     for fn in FUNCTIONS:
         for a in fn.arguments:
             if a.kind == TEXT:

@@ -94,17 +94,39 @@ def test_files_written(exported):
 
 
 def test_embedded_sources_are_exact(exported):
-    """Every module of functions/ is embedded verbatim, except the renamed package imports."""
+    """Every module of functions/ (subpackages included) is embedded verbatim, except the
+    renamed package imports."""
     out, _ = exported
     namespace: dict = {}
     text = (out / "main.py").read_text()
     head = text.split("\nclass _EmbeddedModules")[0]
     exec(compile(head, "main.py", "exec"), namespace)
     sources = namespace["_SOURCES"]
-    for path in (ROOT / "functions").glob("*.py"):
-        name = "swaytune_engine" + ("" if path.stem == "__init__" else "." + path.stem)
+    paths = sorted((ROOT / "functions").rglob("*.py"))
+    assert ROOT / "functions" / "simulation" / "run.py" in paths
+    for path in paths:
+        parts = path.relative_to(ROOT / "functions").with_suffix("").parts
+        name = ".".join(("swaytune_engine", *(parts[:-1] if parts[-1] == "__init__" else parts)))
         original = path.read_text(encoding="utf-8")
         assert sources[name].replace("swaytune_engine", "functions") == original, name
+    assert len(sources) == len(paths)
+    assert namespace["_PACKAGES"] == ("swaytune_engine", "swaytune_engine.simulation")
+
+
+def test_subpackage_modules_are_named_by_their_place(tmp_path):
+    """A subpackage keeps its place under the export package; a folder without __init__.py is
+    not a package and is left out."""
+    (tmp_path / "sub").mkdir()
+    (tmp_path / "notes").mkdir()
+    (tmp_path / "__init__.py").write_text("from functions.sub import x\n")
+    (tmp_path / "sub" / "__init__.py").write_text("from functions.sub.core import x\n")
+    (tmp_path / "sub" / "core.py").write_text("x = 1\n")
+    (tmp_path / "notes" / "draft.py").write_text("y = 2\n")
+    sources = lite_export.engine_sources(tmp_path)
+    assert sources == {"swaytune_engine": "from swaytune_engine.sub import x\n",
+                       "swaytune_engine.sub": "from swaytune_engine.sub.core import x\n",
+                       "swaytune_engine.sub.core": "x = 1\n"}
+    assert lite_export.engine_packages(tmp_path) == ("swaytune_engine", "swaytune_engine.sub")
 
 
 @pytest.mark.parametrize("mode", ["xlwings", "block"])

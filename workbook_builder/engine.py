@@ -11,9 +11,10 @@ cells; :mod:`workbook_builder.build` re-exports every name.
 """
 from __future__ import annotations
 
-import math
 from dataclasses import dataclass
 from typing import Any
+
+from functions.simulation import PEAK_DURATION, calibrated_load, hanger_damping, simulate
 
 from .calcsheet import INPUT_NAMES
 from .project import Project, SimulationSettings
@@ -21,8 +22,6 @@ from .project import Project, SimulationSettings
 __all__ = ["run_engine", "run_simulation", "SimulationRun", "engine_value", "PEAK_DURATION",
            "SIMULATION_PROPERTY", "simulation_settings_text", "read_simulation_settings"]
 
-#: Averaging time of the wind input's peak acceleration, for the random load's calibration [s].
-PEAK_DURATION = 600.0
 #: Custom document property holding the project's [simulation] table as JSON data (never a
 #: formula), so the settings of the Nonlinear sheet travel with the workbook.
 SIMULATION_PROPERTY = "SwaytuneSimulation"
@@ -147,16 +146,13 @@ class SimulationRun:
 def run_simulation(project: Project, result) -> SimulationRun:
     """Simulate the design's pendulum damper in time (``functions.simulation.simulate``).
 
-    The design's pendulum length L is simulated; the design's damper damping zeta_d is on the
-    target frequency f_d, so the dashpot stays the one designed with zeta_L = zeta_d f_d / f_L,
-    f_L = sqrt(g/L) / (2 pi). The load is calibrated to the wind input (see
-    :mod:`workbook_builder.project`, [simulation]): a random force (corner frequency at the
-    mode's frequency) whose bare-building RMS acceleration (frequency domain,
-    ``random_response_theory``) times Davenport's peak factor over 600 s
-    (``damper.peak_factor``) equals the input peak acceleration, or a harmonic force at the
-    mode's frequency whose steady bare-building peak acceleration equals it (amplification
-    from ``damper.frequency_response``: amplitude A F0 / M*). Both are scaled by the load
-    factor.
+    The design's pendulum length L is simulated, with the designed dashpot: the damper damping
+    on the hanger's small-angle frequency f_L (``functions.simulation.hanger_damping``). The
+    load is calibrated to the wind input (see :mod:`workbook_builder.project`, [simulation]) by
+    ``functions.simulation.calibrated_load``: a random force (corner frequency at the mode's
+    frequency) or a harmonic force at the mode's frequency that gives the building WITHOUT the
+    damper the input peak acceleration (random: expected peak over :data:`PEAK_DURATION`) times
+    the load factor.
 
     Raises
     ------
@@ -164,7 +160,6 @@ def run_simulation(project: Project, result) -> SimulationRun:
         When the project has no enabled [simulation] table, or from the engine (prefixed with
         the project's source name).
     """
-    from functions import damper, simulation
     settings = project.simulation
     if settings is None or not settings.enabled:
         raise ValueError(f"{project.source_name}: the project does not ask for a simulation")
@@ -172,24 +167,13 @@ def run_simulation(project: Project, result) -> SimulationRun:
     M, fs, zs, g = float(i.modal_mass), float(i.frequency), float(i.structural_damping), \
         float(i.g)
     md, L = float(result.damper_mass), float(result.pendulum_length)
-    f_L = math.sqrt(g / L) / (2.0 * math.pi)
-    zd = float(result.damper_damping) * float(result.damper_frequency) / f_L
-    a = float(i.acceleration) * settings.load_factor
     try:
-        if settings.load == "random":
-            unit = simulation.random_response_theory(M, fs, zs, md, L, zd, 1.0, fs,
-                                                     settings.duration, g=g)
-            gp = float(damper.peak_factor(fs, PEAK_DURATION))
-            force = a / (gp * unit.acceleration_rms_without_damper)
-            load = simulation.RandomForce(force, fs, seed=settings.seed)
-        else:
-            gp = None
-            amplification = float(damper.frequency_response(1.0, 0.0, 1.0, 0.0, zs))
-            force = a * M / amplification
-            load = simulation.HarmonicForce(force, fs)
-        sim = simulation.simulate(M, fs, zs, md, L, zd, load, settings.duration,
-                                  tolerance=settings.tolerance, g=g)
+        zd = hanger_damping(float(result.damper_damping), float(result.damper_frequency), L, g)
+        load, force, gp = calibrated_load(float(i.acceleration) * settings.load_factor, M, fs, zs,
+                                          settings.load, PEAK_DURATION, settings.seed)
+        sim = simulate(M, fs, zs, md, L, zd, load, settings.duration,
+                       tolerance=settings.tolerance, g=g)
     except ValueError as exc:
         raise ValueError(f"{project.source_name}: {project.case + ': ' if project.case else ''}"
                          f"the simulation cannot be run: {exc}") from exc
-    return SimulationRun(settings, load, float(force), fs, gp, L, md, f_L, zd, sim)
+    return SimulationRun(settings, load, force, fs, gp, L, md, sim.damper_frequency, zd, sim)

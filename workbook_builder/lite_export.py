@@ -7,14 +7,16 @@ are built for its in-browser Python (Pyodide), so nothing has to be installed lo
 
 :func:`export_lite` writes
 
-* ``main.py`` — every module of the engine package (``functions/*.py``: the engine, the
-  catalogue and the wrappers of :mod:`functions.udf`) embedded as text, loaded at run time as the
-  package ``swaytune_engine`` by a small import hook, followed by the import of every worksheet
-  function (``sway_*``) into ``main``'s namespace, where xlwings Lite registers them;
+* ``main.py`` — every module of the engine package (``functions/**/*.py``: the engine with its
+  subpackages, the catalogue and the wrappers of :mod:`functions.udf`) embedded as text, loaded
+  at run time as the package ``swaytune_engine`` by a small import hook, followed by the import
+  of every worksheet function (``sway_*``) into ``main``'s namespace, where xlwings Lite
+  registers them;
 * ``requirements.txt`` — ``numpy`` and ``scipy``, unpinned (Pyodide ties their versions).
 
 The embedded package is renamed from ``functions`` to ``swaytune_engine`` so that it cannot
-clash with another module of the workbook.
+clash with another module of the workbook; a subpackage keeps its place in it
+(``functions/simulation/run.py`` is ``swaytune_engine.simulation.run``).
 
 Command line (``python -m workbook_builder.lite_export --help``)::
 
@@ -31,7 +33,8 @@ import textwrap
 from pathlib import Path
 
 __all__ = [
-    "EXPORT_PACKAGE", "CAUTION", "engine_sources", "build_main_py", "build_requirements",
+    "EXPORT_PACKAGE", "CAUTION", "module_name", "engine_sources", "engine_packages",
+    "build_main_py", "build_requirements",
     "export_lite", "reference_section", "update_reference", "main_lite_export",
     "main_function_reference",
 ]
@@ -51,18 +54,52 @@ BEGIN_MARK = ("<!-- BEGIN FUNCTION REFERENCE (generated: python -m workbook_buil
 END_MARK = "<!-- END FUNCTION REFERENCE -->"
 
 
+def module_name(relative: Path) -> str:
+    """Name under :data:`EXPORT_PACKAGE` of a module file given relative to the engine folder.
+
+    >>> module_name(Path("simulation/run.py")), module_name(Path("simulation/__init__.py"))
+    ('swaytune_engine.simulation.run', 'swaytune_engine.simulation')
+    """
+    parts = relative.with_suffix("").parts
+    if parts[-1] == "__init__":
+        parts = parts[:-1]
+    return ".".join((EXPORT_PACKAGE, *parts))
+
+
+def _engine_files(engine_dir: Path) -> list[Path]:
+    """Module files of the engine package, relative to its folder: ``*.py`` at the top and in
+    every subpackage (a folder with an ``__init__.py`` inside a package)."""
+    files = []
+    for path in sorted(engine_dir.rglob("*.py")):
+        relative = path.relative_to(engine_dir)
+        folders = [path.parents[k] for k in range(len(relative.parts) - 1)]
+        if all((folder / "__init__.py").is_file() for folder in folders):
+            files.append(relative)
+    return files
+
+
 def engine_sources(engine_dir: Path | None = None) -> dict[str, str]:
-    """Module name (under :data:`EXPORT_PACKAGE`) -> source, imports of ``functions`` renamed."""
+    """Module name (under :data:`EXPORT_PACKAGE`) -> source, imports of ``functions`` renamed.
+
+    Subpackages are included with all their modules (:func:`module_name`).
+    """
     engine_dir = Path(engine_dir or _ENGINE_DIR)
     out: dict[str, str] = {}
-    for path in sorted(engine_dir.glob("*.py")):
-        source = path.read_text(encoding="utf-8")
+    for relative in _engine_files(engine_dir):
+        source = (engine_dir / relative).read_text(encoding="utf-8")
         source = _IMPORT.sub(lambda m: f"{m[1]}{m[2]}{m[3]}{EXPORT_PACKAGE}", source)
-        name = EXPORT_PACKAGE if path.stem == "__init__" else f"{EXPORT_PACKAGE}.{path.stem}"
-        out[name] = source
+        out[module_name(relative)] = source
     if EXPORT_PACKAGE not in out:
         out[EXPORT_PACKAGE] = ""
     return out
+
+
+def engine_packages(engine_dir: Path | None = None) -> tuple[str, ...]:
+    """Names (under :data:`EXPORT_PACKAGE`) of the package and of its subpackages."""
+    engine_dir = Path(engine_dir or _ENGINE_DIR)
+    subpackages = [module_name(r) for r in _engine_files(engine_dir)
+                   if r.name == "__init__.py" and len(r.parts) > 1]
+    return (EXPORT_PACKAGE, *subpackages)
 
 
 def _literal(source: str) -> str:
@@ -88,7 +125,7 @@ class _EmbeddedModules(importlib.abc.MetaPathFinder, importlib.abc.Loader):
     def find_spec(self, name, path=None, target=None):
         if name not in _SOURCES:
             return None
-        return importlib.util.spec_from_loader(name, self, is_package=name == _PACKAGE)
+        return importlib.util.spec_from_loader(name, self, is_package=name in _PACKAGES)
 
     def create_module(self, spec):
         return None
@@ -119,6 +156,7 @@ def build_main_py(engine_dir: Path | None = None) -> str:
     from functions.catalogue import FUNCTIONS
 
     sources = engine_sources(engine_dir)
+    packages = engine_packages(engine_dir)
     names = [fn.python_name for fn in FUNCTIONS]
     parts = [
         "# SPDX-License-Identifier: MIT\n",
@@ -130,7 +168,7 @@ def build_main_py(engine_dir: Path | None = None) -> str:
         "Reference: docs/spreadsheet_functions.md in the swaytune repository.\n",
         '"""\n',
         "import importlib.abc\nimport importlib.util\nimport linecache\nimport sys\n\n",
-        f"_PACKAGE = {EXPORT_PACKAGE!r}\n_SOURCES = {{}}\n",
+        f"_PACKAGE = {EXPORT_PACKAGE!r}\n_PACKAGES = {packages!r}\n_SOURCES = {{}}\n",
     ]
     for name, source in sources.items():
         parts.append(f"\n_SOURCES[{name!r}] = {_literal(source)}\n")
