@@ -9,6 +9,7 @@ Commands::
     swaytune pdf WORKBOOK.xlsx [-o OUT_DIR]          export to PDF through LibreOffice
     swaytune recalc PATH... (-o OUTDIR | --in-place) [--jobs N] [--summary BASE] ...
                                                     recalculate workbooks with the engine
+    swaytune lite-export [--out DIR]                the worksheet functions for xlwings Lite
 
 An existing output file is replaced only when swaytune made it and it was not changed since (or
 with ``--force``); writes are atomic. Every command ends with the cautions.
@@ -16,12 +17,23 @@ with ``--force``); writes are atomic. Every command ends with the cautions.
 from __future__ import annotations
 
 import argparse
+import os
 import re
+import shutil
 import sys
+import tempfile
 from pathlib import Path
 from typing import Sequence
 
 from . import __version__
+from .build import write_workbook
+from .lite_export import main_lite_export
+from .plan.reference import CAUTIONS
+from .project import ProjectError, load_cases, load_project
+from .recalc import print_report, recalc_many
+from .xlsx import libreoffice
+from .xlsx.compare import compare_workbooks
+from .xlsx.files import OverwriteRefused, guard_hand_edits, guard_overwrite
 
 __all__ = ["main", "summary_table", "print_cautions", "EXAMPLES_DIR"]
 
@@ -31,7 +43,6 @@ EXAMPLES_DIR = Path(__file__).resolve().parent.parent / "example_workbooks"
 
 def print_cautions(stream=None) -> None:
     """Print the cautions that end every command's output (``stream`` default stdout)."""
-    from .build import CAUTIONS
     stream = stream or sys.stdout
     print("\nCAUTION - preliminary design aid:", file=stream)
     for text in CAUTIONS[:5]:
@@ -79,7 +90,6 @@ def _safe_name(text: str) -> str:
 
 
 def _build_one(project, out: Path, args) -> object:
-    from .build import write_workbook
     built = write_workbook(project, out, force=args.force, template=args.template)
     print(f"wrote {out}")
     if getattr(args, "pdf", False):
@@ -88,16 +98,14 @@ def _build_one(project, out: Path, args) -> object:
 
 
 def _pdf(path: Path, outdir: Path) -> None:
-    from . import office
-    if office.find_soffice() is None:
+    if libreoffice.find_soffice() is None:
         print("PDF not written: LibreOffice (soffice) is not installed", file=sys.stderr)
         return
-    pdf = office.export_pdf(path, outdir)
+    pdf = libreoffice.export_pdf(path, outdir)
     print(f"wrote {pdf}")
 
 
 def _cmd_build(args) -> int:
-    from .project import load_cases, load_project
     source = Path(args.source)
     rows = []
     if source.suffix.lower() == ".csv":
@@ -120,7 +128,6 @@ def _cmd_build(args) -> int:
 
 
 def _cmd_examples(args) -> int:
-    from .project import load_project
     folder = Path(args.dir) if args.dir else EXAMPLES_DIR
     sources = sorted(folder.glob("*.toml"))
     if not sources:
@@ -142,13 +149,6 @@ def _build_example(project, out: Path, args) -> object:
 
     Keeps a clean working tree after the README's main command when the code has not changed.
     """
-    import os
-    import shutil
-    import tempfile
-
-    from .atomic import guard_overwrite
-    from .build import guard_hand_edits, write_workbook
-    from .compare import compare_workbooks
     if not out.exists():
         return _build_one(project, out, args)
     guard_overwrite(out, force=args.force)
@@ -174,6 +174,53 @@ def _cmd_pdf(args) -> int:
         return 1
     _pdf(path, Path(args.output) if args.output else path.parent)
     return 0
+
+
+def _recalc_arguments(parser) -> None:
+    """Add the ``recalc`` options to an argparse parser."""
+    parser.add_argument("paths", nargs="+", metavar="PATH", help="workbooks and folders")
+    parser.add_argument("-o", "--outdir", help="output folder (required unless --in-place)")
+    parser.add_argument("--in-place", action="store_true",
+                        help="replace each workbook atomically, keeping <name>.<time>.bak")
+    parser.add_argument("--no-backup", action="store_true",
+                        help="with --in-place: do not keep a backup")
+    parser.add_argument("--jobs", "-j", type=int, default=1, help="worker processes")
+    parser.add_argument("--summary", help="summary path without extension (default "
+                                          "OUTDIR/recalc_summary)")
+    parser.add_argument("--no-progress", action="store_true", help="no progress bar")
+    parser.add_argument("--force", action="store_true",
+                        help="overwrite outputs that swaytune did not make")
+    parser.add_argument("--no-layout-check", action="store_true",
+                        help="do not compare formulas with the builder's text (faster on "
+                             "batches of many different layouts; results are still checked "
+                             "against the engine)")
+
+
+#: Description of the command (``swaytune recalc --help``).
+RECALC_DESCRIPTION = ("Recalculate swaytune workbooks with the engine: fresh cached values, "
+                      "refreshed engine values, formulas untouched; a summary workbook and CSV. "
+                      "Exit status 0: all OK; 1: a workbook failed or a check is NOT OK; 2: "
+                      "usage; 130: interrupted. A preliminary design aid; results must be "
+                      "checked by a licensed engineer.")
+
+
+def _cmd_recalc(args) -> int:
+    """Run ``recalc`` for parsed arguments; the exit status (the caller prints the cautions)."""
+    if args.in_place == (args.outdir is not None):
+        print("error: give -o OUTDIR or --in-place (exactly one)", file=sys.stderr)
+        return 2
+    if args.jobs < 1:
+        print(f"error: --jobs {args.jobs} must be >= 1", file=sys.stderr)
+        return 2
+    batch = recalc_many(args.paths, outdir=args.outdir, jobs=args.jobs,
+                        progress=not args.no_progress, in_place=args.in_place,
+                        backup=not args.no_backup, summary=args.summary, force=args.force,
+                        compare_layout=not args.no_layout_check)
+    print_report(batch)
+    if not batch.results:
+        print("error: no workbooks (*.xlsx) found in " + ", ".join(args.paths), file=sys.stderr)
+        return 1
+    return batch.exit_status
 
 
 def _parser() -> argparse.ArgumentParser:
@@ -207,12 +254,11 @@ def _parser() -> argparse.ArgumentParser:
     p.add_argument("-o", "--output", help="output directory (default: next to the workbook)")
     p.set_defaults(func=_cmd_pdf)
 
-    from .recalc import RECALC_DESCRIPTION, add_recalc_arguments, run_recalc
     r = sub.add_parser("recalc", help="recalculate workbooks (files, folders) with the engine "
                                       "into -o OUTDIR or --in-place; writes a summary",
                        description=RECALC_DESCRIPTION)
-    add_recalc_arguments(r)
-    r.set_defaults(func=run_recalc)
+    _recalc_arguments(r)
+    r.set_defaults(func=_cmd_recalc)
 
     x = sub.add_parser("lite-export", help="write main.py and requirements.txt that make the "
                                            "SWAY_ worksheet functions work in xlwings Lite")
@@ -223,7 +269,6 @@ def _parser() -> argparse.ArgumentParser:
 
 
 def _cmd_lite_export(args) -> int:
-    from .lite_export import main_lite_export
     return main_lite_export(["--out", args.out], cautions=False)
 
 
@@ -234,8 +279,6 @@ def main(argv: Sequence[str] | None = None) -> int:
     130 ``recalc`` interrupted (Ctrl-C).
     """
     args = _parser().parse_args(argv)
-    from .atomic import OverwriteRefused
-    from .project import ProjectError
     try:
         status = args.func(args)
     except (ProjectError, OverwriteRefused, ValueError, FileNotFoundError) as exc:

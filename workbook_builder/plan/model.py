@@ -107,6 +107,10 @@ class Chart:
     x_max: float | None = None
     y_min: float | None = None
     tick_labels_low: bool = False
+    #: Fit the x axis to the data of the first series (smallest to largest x), rounded out
+    #: to ``x_round`` (0: exactly), instead of fixed limits.
+    fit_x: bool = False
+    x_round: float = 0.0
 
 
 @dataclass

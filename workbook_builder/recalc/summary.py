@@ -16,24 +16,26 @@ import sys
 from pathlib import Path
 from typing import Any
 
-from . import __version__
+from openpyxl import Workbook
+from openpyxl.styles import Font, PatternFill
+
+from functions.design import CHECK_RULES
+from functions.quantities import design_inputs, design_results
+
+from .. import __version__
+from ..plan.reference import CAUTIONS
+from ..xlsx.files import atomic_path
+from .workbook import SHORT_LABELS, RecalcResult
 
 __all__ = ["summary_row", "write_summary", "print_report", "csv_safe", "SUMMARY_STEM"]
 
 #: File stem of the batch summary (``recalc_summary.xlsx`` and ``.csv``); folder scans skip it.
 SUMMARY_STEM = "recalc_summary"
 
-_KEY_INPUTS = ("frequency", "modal_mass", "structural_damping", "acceleration",
-               "acceleration_limit", "clearance", "tuning_method")
-_KEY_RESULTS = ("required_damping", "mass_ratio", "damper_mass", "damper_frequency",
-                "damper_damping", "effective_damping", "acceleration_with_damper", "stroke",
-                "pendulum_length", "swing_angle_deg", "detuning")
-_UNITS = {"frequency": "Hz", "modal_mass": "kg", "structural_damping": "-",
-          "acceleration": "m/s^2", "acceleration_limit": "m/s^2", "clearance": "m",
-          "tuning_method": "", "required_damping": "-", "mass_ratio": "-", "damper_mass": "kg",
-          "damper_frequency": "Hz", "damper_damping": "-", "effective_damping": "-",
-          "acceleration_with_damper": "m/s^2", "stroke": "m", "pendulum_length": "m",
-          "swing_angle_deg": "deg", "detuning": "-"}
+
+
+def _header(q) -> str:
+    return f"{q.name} [{q.unit}]" if q.unit else q.name
 
 
 def _fmt_value(v: Any) -> str:
@@ -45,9 +47,7 @@ def _fmt_value(v: Any) -> str:
 
 
 def _check_columns() -> list[str]:
-    from .calcsheet import design_checks
-    return [c.label for c in design_checks()] + [
-        "Workbook formulas agree with the engine", "Pendulum fixed point converged",
+    return [rule.label for rule in CHECK_RULES] + list(SHORT_LABELS.values()) + [
         "Engine values current"]
 
 
@@ -55,10 +55,12 @@ def summary_row(r) -> dict[str, Any]:
     row: dict[str, Any] = {"workbook": str(r.path), "status": r.status,
                            "reason": r.error or "",
                            "output": "" if r.output is None else str(r.output)}
-    for k in _KEY_INPUTS:
-        row[f"{k} [{_UNITS[k]}]" if _UNITS[k] else k] = r.inputs.get(k, "")
-    for k in _KEY_RESULTS:
-        row[f"{k} [{_UNITS[k]}]"] = r.results.get(k, "")
+    for q in design_inputs():              # key inputs (SI), as the engine took them
+        if q.summary:
+            row[_header(q)] = r.inputs.get(q.name, "")
+    for q in design_results():             # key results, as the workbook computes them
+        if q.summary:
+            row[_header(q)] = r.results.get(q.cell_name, "")
     verdicts = dict(r.checks)
     for label in _check_columns():
         if label == "Engine values current":
@@ -88,14 +90,6 @@ def write_summary(batch, base: str | os.PathLike) -> tuple[Path, Path]:
     results, every check verdict, changes, issues), Changes (old and new value of every named
     cell that changed), Issues, Cautions. Every text is written as text, never as a formula.
     """
-    from openpyxl import Workbook
-    from openpyxl.styles import Font, PatternFill
-
-    from .atomic import atomic_path
-    from .build import CAUTIONS
-
-    from .recalc import RecalcResult
-
     base = Path(base)
     base.parent.mkdir(parents=True, exist_ok=True)
     rows = batch.table()

@@ -1,0 +1,101 @@
+# SPDX-License-Identifier: MIT
+"""The engine runs a workbook needs: the design chain and the optional time-domain check.
+
+:func:`run_design` runs :func:`functions.design.design_damper` for a project (the modal mass of
+a floor table included); :func:`run_simulation` runs :func:`functions.simulation.simulate` with
+the load calibrated to the wind input by the engine
+(:func:`functions.simulation.calibrated_load`) and keeps the tables the Nonlinear sheet plots.
+Every refusal of the engine is prefixed with the project's source (and case).
+"""
+from __future__ import annotations
+
+from dataclasses import dataclass
+from typing import Any
+
+from functions.design import DesignInputs, DesignResult, design_damper
+from functions.simulation import calibrated_load, hanger_damping, simulate
+from functions.simulation.calibration import PEAK_DURATION
+
+from .plan.charts import ChartTable, swing_window_table, time_history_table
+from .project import Project
+
+__all__ = ["run_design", "run_simulation", "SimulationRun", "PEAK_DURATION"]
+
+
+def _prefix(project: Project) -> str:
+    return f"{project.source_name}: {project.case + ': ' if project.case else ''}"
+
+
+def run_design(project: Project) -> DesignResult:
+    """Run the engine's design chain for a project.
+
+    Raises
+    ------
+    ValueError
+        From the engine, prefixed with the project's source name (and case).
+    """
+    try:
+        return design_damper(DesignInputs(**project.design_kwargs()))
+    except ValueError as exc:
+        raise ValueError(f"{_prefix(project)}the design cannot be computed: {exc}") from exc
+
+
+@dataclass(frozen=True)
+class SimulationRun:
+    """The time-domain simulation of a design and how its load was chosen.
+
+    ``force`` is the random force's RMS or the harmonic force's amplitude [N], calibrated so
+    that the building WITHOUT the damper reaches the wind input's peak acceleration times
+    ``settings.load_factor``; ``peak_factor`` [-] is Davenport's factor of a random load (None
+    for a harmonic load). ``length`` [m] is the design's pendulum length, ``hanger_frequency``
+    [Hz] its small-angle frequency and ``damper_damping`` [-] the damper's damping on that
+    frequency (the designed dashpot). ``time_table`` and ``window_table`` are the Nonlinear
+    sheet's chart tables.
+    """
+
+    settings: Any
+    load: Any
+    force: float
+    load_frequency: float
+    peak_factor: float | None
+    length: float
+    damper_mass: float
+    hanger_frequency: float
+    damper_damping: float
+    result: Any
+    time_table: ChartTable
+    window_table: ChartTable
+
+
+def run_simulation(project: Project, result: DesignResult) -> SimulationRun:
+    """Simulate the design's pendulum damper in time (``functions.simulation.simulate``).
+
+    The design's pendulum length is simulated with the designed dashpot, the damper damping
+    on the hanger's small-angle frequency (``functions.simulation.hanger_damping``), under a
+    load that gives the building WITHOUT the damper the input peak acceleration times the load
+    factor (``functions.simulation.calibrated_load``: a random force, expected peak over
+    :data:`PEAK_DURATION`, or a harmonic force at the mode's frequency).
+
+    Raises
+    ------
+    ValueError
+        When the project has no enabled [simulation] table, or from the engine (prefixed with
+        the project's source name).
+    """
+    settings = project.simulation
+    if settings is None or not settings.enabled:
+        raise ValueError(f"{project.source_name}: the project does not ask for a simulation")
+    i = result.inputs
+    M, fs, zs, g = i.modal_mass, i.frequency, i.structural_damping, i.g
+    md, L = float(result.damper_mass), float(result.pendulum_length)
+    try:
+        zd = hanger_damping(float(result.damper_damping), float(result.damper_frequency), L, g)
+        load, force, gp = calibrated_load(i.acceleration * settings.load_factor, M, fs, zs,
+                                          settings.load, PEAK_DURATION, settings.seed)
+        sim = simulate(M, fs, zs, md, L, zd, load, settings.duration,
+                       tolerance=settings.tolerance, g=g)
+        tables = time_history_table(sim), swing_window_table(sim)
+    except ValueError as exc:
+        raise ValueError(f"{_prefix(project)}the simulation cannot be run: {exc}") from exc
+    return SimulationRun(settings, load, float(force), fs, gp, L, md, sim.damper_frequency, zd,
+                         sim, *tables)

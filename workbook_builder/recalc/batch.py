@@ -1,0 +1,249 @@
+# SPDX-License-Identifier: MIT
+"""Recalculating a batch of workbooks: folders scanned, worker processes, a summary.
+
+:func:`recalc_many` expands files and folders (:func:`collect_paths`), recalculates each
+workbook (:func:`workbook_builder.recalc.workbook.recalc_workbook`, in this process or in
+worker processes), shows a progress bar on stderr and writes the batch summary
+(:mod:`workbook_builder.recalc.summary`). A file that fails fails alone; Ctrl-C stops handing
+out work and lets the running workers finish their atomic writes.
+"""
+from __future__ import annotations
+
+import concurrent.futures as cf
+import multiprocessing as mp
+import os
+import signal
+import sys
+import time
+from dataclasses import dataclass
+from pathlib import Path
+from typing import Iterable
+
+from .summary import SUMMARY_STEM, summary_row, write_summary
+from .workbook import RecalcResult, _same_file, recalc_workbook
+
+__all__ = ["BatchSummary", "collect_paths", "recalc_many"]
+
+
+@dataclass
+class BatchSummary:
+    """Outcome of a batch: one :class:`RecalcResult` per input, in input order."""
+
+    results: list[RecalcResult]
+    summary_xlsx: Path | None = None
+    summary_csv: Path | None = None
+    interrupted: bool = False
+    seconds: float = 0.0
+
+    @property
+    def failed(self) -> list[RecalcResult]:
+        return [r for r in self.results if r.failed]
+
+    @property
+    def not_ok(self) -> list[RecalcResult]:
+        return [r for r in self.results if not r.failed and not r.checks_ok]
+
+    @property
+    def exit_status(self) -> int:
+        """0 when every workbook was recalculated and every check is OK, else 1 (130: Ctrl-C)."""
+        if self.interrupted:
+            return 130
+        return 1 if (self.failed or self.not_ok) else 0
+
+    def table(self) -> list[dict]:
+        """One flat row per workbook (the CSV rows), for a notebook or a DataFrame."""
+        return [summary_row(r) for r in self.results]
+
+
+def collect_paths(paths: Iterable[str | os.PathLike],
+                  exclude: str | os.PathLike | None = None) -> list[tuple[Path, Path]]:
+    """Expand files and folders into (workbook, path relative to its root) pairs.
+
+    Folders are searched recursively for ``*.xlsx``; hidden files, spreadsheet lock files
+    (``~$*``), temporary files, batch summaries (``recalc_summary*``) and anything under
+    ``exclude`` (the output folder) are skipped. Files named explicitly are always taken (so a
+    wrong file fails with its reason).
+    """
+    out: list[tuple[Path, Path]] = []
+    seen: set[Path] = set()
+    skip = Path(exclude).resolve() if exclude is not None else None
+    for p in paths:
+        p = Path(p)
+        if p.is_dir():
+            for f in sorted(p.rglob("*")):
+                if not f.is_file() or f.suffix.lower() not in (".xlsx", ".xlsm"):
+                    continue
+                if skip is not None and skip in f.resolve().parents:
+                    continue
+                rel = f.relative_to(p)
+                if any(part.startswith((".", "~$")) for part in rel.parts):
+                    continue
+                if f.name.startswith(SUMMARY_STEM):
+                    continue
+                key = f.resolve()
+                if key not in seen:
+                    seen.add(key)
+                    out.append((f, rel))
+        else:
+            key = p.resolve() if p.exists() else p
+            if key not in seen:
+                seen.add(key)
+                out.append((p, Path(p.name)))
+    return out
+
+
+def _worker_init() -> None:
+    # Workers ignore Ctrl-C: the parent stops handing out work and lets the running ones
+    # finish their (atomic) writes.
+    signal.signal(signal.SIGINT, signal.SIG_IGN)
+
+
+def _task(args) -> RecalcResult:
+    path, output, in_place, backup, compare, force = args
+    if in_place:
+        return recalc_workbook(path, in_place=True, backup=backup, compare_layout=compare,
+                               force=force)
+    return recalc_workbook(path, output=output, compare_layout=compare, force=force)
+
+
+class _Progress:
+    def __init__(self, total: int, enabled: bool, stream=None):
+        self.total = total
+        self.stream = stream or sys.stderr
+        self.enabled = enabled and total > 0
+        self.tty = bool(getattr(self.stream, "isatty", lambda: False)())
+        self.done = 0
+        self.t0 = time.perf_counter()
+        self.step = max(1, total // 10)
+
+    def update(self, res: RecalcResult) -> None:
+        self.done += 1
+        if not self.enabled:
+            return
+        width = 30
+        filled = int(width * self.done / self.total)
+        elapsed = time.perf_counter() - self.t0
+        eta = elapsed / self.done * (self.total - self.done)
+        line = (f"[{'#' * filled}{'.' * (width - filled)}] {self.done}/{self.total} "
+                f"{elapsed:5.1f}s elapsed, ~{eta:4.1f}s left  {res.path.name}: {res.status}")
+        if self.tty:
+            self.stream.write("\r" + line[:120].ljust(120))
+            if self.done == self.total:
+                self.stream.write("\n")
+        elif self.done % self.step == 0 or self.done == self.total:
+            self.stream.write(line + "\n")
+        self.stream.flush()
+
+
+def recalc_many(paths: Iterable[str | os.PathLike], outdir: str | os.PathLike | None = None,
+                jobs: int = 1, progress: bool = True, *, in_place: bool = False,
+                backup: bool = True, summary: str | os.PathLike | None = None,
+                compare_layout: bool = True, force: bool = False) -> BatchSummary:
+    """Recalculate many workbooks (files and folders); write a summary workbook and CSV.
+
+    Parameters
+    ----------
+    paths : iterable of path-like
+        Workbooks and folders (searched recursively for .xlsx) [-].
+    outdir : path-like, optional
+        Output folder; a workbook found in a folder keeps its relative path under it [-].
+    jobs : int, optional
+        Worker processes (1: in this process) [-].
+    progress : bool, optional
+        Show a progress bar on stderr [-].
+    in_place : bool, optional
+        Replace each workbook itself (atomically, with a backup unless ``backup=False``) [-].
+    backup : bool, optional
+        Keep ``<name>.<time>.bak`` beside each workbook replaced in place [-].
+    summary : path-like, optional
+        Path of the summary without extension (default ``OUTDIR/recalc_summary``, or
+        ``./recalc_summary`` in place); ``.xlsx`` and ``.csv`` are written [-].
+    compare_layout : bool, optional
+        Compare formulas with the builder's (hand edits) [-].
+    force : bool, optional
+        Overwrite outputs that swaytune did not make [-].
+
+    Returns
+    -------
+    summary : BatchSummary
+        One result per workbook in input order, summary paths, exit status [-].
+
+    Raises
+    ------
+    ValueError
+        When neither ``outdir`` nor ``in_place`` is given, both are, or ``jobs`` < 1.
+    """
+    t0 = time.perf_counter()
+    if in_place == (outdir is not None):
+        raise ValueError("give an output folder (outdir) or in_place=True, not both or neither")
+    if int(jobs) < 1:
+        raise ValueError(f"jobs={jobs!r} must be >= 1")
+    items = collect_paths(paths, exclude=outdir)
+    tasks = []
+    planned: dict[Path, Path] = {}
+    pre_failed: dict[int, RecalcResult] = {}
+    for i, (src, rel) in enumerate(items):
+        out = None if in_place else Path(outdir) / rel
+        if out is not None:
+            key = out.resolve()
+            if key in planned:
+                pre_failed[i] = RecalcResult(path=src, error=f"output {out} would also be "
+                                             f"written for {planned[key]}; rename one of them")
+                continue
+            if _same_file(out, src):
+                pre_failed[i] = RecalcResult(path=src, error="the output folder holds the "
+                                             "original: choose another folder or --in-place")
+                continue
+            planned[key] = src
+        tasks.append((i, (src, out, in_place, backup, compare_layout, force)))
+    results: list[RecalcResult | None] = [None] * len(items)
+    for i, r in pre_failed.items():
+        results[i] = r
+    bar = _Progress(len(items), progress)
+    for r in pre_failed.values():
+        bar.update(r)
+    interrupted = False
+    try:
+        if int(jobs) == 1 or len(tasks) <= 1:
+            for i, args in tasks:
+                results[i] = _task(args)
+                bar.update(results[i])
+        else:
+            ctx = mp.get_context("fork" if "fork" in mp.get_all_start_methods() else "spawn")
+            with cf.ProcessPoolExecutor(max_workers=int(jobs), mp_context=ctx,
+                                        initializer=_worker_init) as pool:
+                futures = {pool.submit(_task, args): i for i, args in tasks}
+                try:
+                    for fut in cf.as_completed(futures):
+                        i = futures[fut]
+                        try:
+                            results[i] = fut.result()
+                        except Exception as exc:  # noqa: BLE001 - a worker died
+                            results[i] = RecalcResult(path=_tasks_path(tasks, i),
+                                                      error=f"worker failed: {exc}")
+                        bar.update(results[i])
+                except KeyboardInterrupt:
+                    for fut in futures:
+                        fut.cancel()
+                    raise
+    except KeyboardInterrupt:
+        interrupted = True
+        if progress:
+            sys.stderr.write("\ninterrupted: stopping; files already written are complete, "
+                             "originals untouched\n")
+    done = [r if r is not None else RecalcResult(path=items[i][0],
+                                                  error="not recalculated (interrupted)")
+            for i, r in enumerate(results)]
+    batch = BatchSummary(done, interrupted=interrupted)
+    base = Path(summary) if summary is not None else (
+        Path(outdir) / SUMMARY_STEM if outdir is not None else Path.cwd() / SUMMARY_STEM)
+    batch.summary_xlsx, batch.summary_csv = write_summary(batch, base)
+    batch.seconds = time.perf_counter() - t0
+    return batch
+
+
+def _tasks_path(tasks, i: int) -> Path:
+    for j, args in tasks:
+        if j == i:
+            return args[0]
+    return Path("?")
