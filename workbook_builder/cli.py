@@ -10,6 +10,7 @@ Commands::
     swaytune recalc PATH... (-o OUTDIR | --in-place) [--jobs N] [--summary BASE] ...
                                                     recalculate workbooks with the engine
     swaytune lite-export [--out DIR]                the worksheet functions for xlwings Lite
+    swaytune docs [--check]                         regenerate the reference tables in docs/
 
 An existing output file is replaced only when swaytune made it and it was not changed since (or
 with ``--force``); writes are atomic. Every command ends with the cautions.
@@ -27,7 +28,8 @@ from typing import Sequence
 
 from . import __version__
 from .build import write_workbook
-from .lite_export import main_lite_export
+from .reference_docs import update_docs
+from .lite_export import NEXT_STEPS, export_lite
 from .plan.reference import CAUTIONS
 from .project import ProjectError, load_cases, load_project
 from .recalc import print_report, recalc_many
@@ -39,6 +41,8 @@ __all__ = ["main", "summary_table", "print_cautions", "EXAMPLES_DIR"]
 
 #: Example projects of the source tree (``swaytune examples``).
 EXAMPLES_DIR = Path(__file__).resolve().parent.parent / "example_workbooks"
+#: Documentation folder of the source tree (``swaytune docs``).
+DOCS_DIR = Path(__file__).resolve().parent.parent / "docs"
 
 
 def print_cautions(stream=None) -> None:
@@ -265,11 +269,30 @@ def _parser() -> argparse.ArgumentParser:
     x.add_argument("--out", default="swaytune_lite",
                    help="folder to write into (created if missing; default: swaytune_lite)")
     x.set_defaults(func=_cmd_lite_export)
+
+    d = sub.add_parser("docs", help="regenerate the reference tables in docs/ from the "
+                                    "declarations (functions, project-file keys, quantities)")
+    d.add_argument("--dir", default=str(DOCS_DIR), help=f"docs folder (default {DOCS_DIR})")
+    d.add_argument("--check", action="store_true",
+                   help="write nothing; exit 1 when a reference is out of date")
+    d.set_defaults(func=_cmd_docs)
     return parser
 
 
 def _cmd_lite_export(args) -> int:
-    return main_lite_export(["--out", args.out], cautions=False)
+    for path in export_lite(args.out):
+        print(f"wrote {path}")
+    print(NEXT_STEPS)
+    return 0
+
+
+def _cmd_docs(args) -> int:
+    changed = update_docs(args.dir, check=args.check)
+    for path in changed:
+        print(f"{path}: {'out of date' if args.check else 'updated'}")
+    if not changed:
+        print(f"{args.dir}: every generated reference is current")
+    return 1 if (args.check and changed) else 0
 
 
 def main(argv: Sequence[str] | None = None) -> int:

@@ -1,5 +1,5 @@
 # SPDX-License-Identifier: MIT
-"""Export the spreadsheet functions for xlwings Lite, and regenerate their reference.
+"""Export the spreadsheet functions for xlwings Lite.
 
 xlwings Lite runs Python inside Excel (Windows, macOS, the web) from the code in its editor's
 ``main.py`` tab and installs the packages listed in its ``requirements.txt`` tab; numpy and scipy
@@ -18,26 +18,25 @@ The embedded package is renamed from ``functions`` to ``swaytune_engine`` so tha
 clash with another module of the workbook; a subpackage keeps its place in it
 (``functions/simulation/run.py`` is ``swaytune_engine.simulation.run``).
 
-Command line (``python -m workbook_builder.lite_export --help``)::
-
-    python -m workbook_builder.lite_export --out swaytune_lite
-    python -m workbook_builder.lite_export --docs docs/spreadsheet_functions.md
+Command line: ``swaytune lite-export --out swaytune_lite``.
 """
 from __future__ import annotations
 
-import argparse
 import ast
 import re
-import sys
 import textwrap
 from pathlib import Path
 
 __all__ = [
-    "EXPORT_PACKAGE", "CAUTION", "module_name", "engine_sources", "engine_packages",
-    "build_main_py", "build_requirements",
-    "export_lite", "reference_section", "update_reference", "main_lite_export",
-    "main_function_reference",
+    "EXPORT_PACKAGE", "CAUTION", "NEXT_STEPS", "module_name", "engine_sources",
+    "engine_packages", "build_main_py", "build_requirements", "export_lite",
 ]
+
+#: What to do with the exported files (printed by ``swaytune lite-export``).
+NEXT_STEPS = ("Next: in Excel open the xlwings Lite task pane; replace the content of its main.py "
+              "tab with the exported main.py; add the lines of requirements.txt to its "
+              "requirements.txt tab (keep the xlwings line there). See "
+              "docs/spreadsheet_functions.md.")
 
 #: Package name of the engine inside the exported main.py.
 EXPORT_PACKAGE = "swaytune_engine"
@@ -49,9 +48,6 @@ CAUTION = ("CAUTION: swaytune is a preliminary design aid. Results must be check
 _ENGINE_DIR = Path(__file__).resolve().parent.parent / "functions"
 _IMPORT = re.compile(r"^(\s*)(from|import)(\s+)functions(?=[\s.])", re.MULTILINE)
 
-BEGIN_MARK = ("<!-- BEGIN FUNCTION REFERENCE (generated: python -m workbook_builder.lite_export "
-              "--docs) -->")
-END_MARK = "<!-- END FUNCTION REFERENCE -->"
 
 
 def module_name(relative: Path) -> str:
@@ -195,75 +191,3 @@ def export_lite(out_dir: str | Path, engine_dir: Path | None = None) -> list[Pat
     main_py.write_text(text, encoding="utf-8")
     requirements.write_text(build_requirements(), encoding="utf-8")
     return [main_py, requirements]
-
-
-# --- function reference in docs/spreadsheet_functions.md --------------------------------------
-
-def reference_section() -> str:
-    """The generated part of the guide: reference of every function and the messages."""
-    from functions import udf
-    from functions.catalogue import reference_markdown
-
-    return reference_markdown(lambda fn, args: udf.evaluate(fn.name, *args))
-
-
-def update_reference(path: str | Path, check: bool = False) -> bool:
-    """Replace the text between the reference markers of ``path``; True if it changed.
-
-    With ``check=True`` nothing is written.
-    """
-    path = Path(path)
-    text = path.read_text(encoding="utf-8")
-    start, end = text.find(BEGIN_MARK), text.find(END_MARK)
-    if start < 0 or end < start:
-        raise ValueError(f"{path}: reference markers not found ({BEGIN_MARK!r} ... {END_MARK!r})")
-    new = text[: start + len(BEGIN_MARK)] + "\n\n" + reference_section() + "\n" + text[end:]
-    if new != text and not check:
-        path.write_text(new, encoding="utf-8")
-    return new != text
-
-
-# --- command line -----------------------------------------------------------------------------
-
-def main_lite_export(argv: list[str] | None = None, cautions: bool = True) -> int:
-    """Command ``lite-export``: write main.py and requirements.txt for xlwings Lite.
-
-    ``cautions=False`` leaves the caution out of the output (for a caller that prints it).
-    """
-    parser = argparse.ArgumentParser(
-        prog="swaytune lite-export",
-        description="Write main.py and requirements.txt that make the SWAY_ worksheet functions "
-                    "work in xlwings Lite (no local Python needed).")
-    parser.add_argument("--out", default="swaytune_lite",
-                        help="folder to write into (created if missing; default: swaytune_lite)")
-    args = parser.parse_args(argv)
-    paths = export_lite(args.out)
-    if cautions:
-        print(CAUTION)
-    for p in paths:
-        print(f"wrote {p}")
-    print("Next: in Excel open the xlwings Lite task pane; replace the content of its main.py tab "
-          "with the exported main.py; add the lines of requirements.txt to its requirements.txt "
-          "tab (keep the xlwings line there). See docs/spreadsheet_functions.md.")
-    return 0
-
-
-def main_function_reference(argv: list[str] | None = None) -> int:
-    """Regenerate (or with --check, verify) the function reference in the guide."""
-    parser = argparse.ArgumentParser(prog="swaytune function-docs")
-    parser.add_argument("path", nargs="?", default="docs/spreadsheet_functions.md")
-    parser.add_argument("--check", action="store_true",
-                        help="exit 1 if the reference is out of date, write nothing")
-    args = parser.parse_args(argv)
-    changed = update_reference(args.path, check=args.check)
-    if args.check:
-        print(f"{args.path}: {'out of date' if changed else 'current'}")
-        return 1 if changed else 0
-    print(f"{args.path}: {'updated' if changed else 'already current'}")
-    return 0
-
-
-if __name__ == "__main__":  # pragma: no cover
-    if len(sys.argv) > 1 and sys.argv[1] == "--docs":
-        sys.exit(main_function_reference(sys.argv[2:]))
-    sys.exit(main_lite_export(sys.argv[1:]))
