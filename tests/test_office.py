@@ -13,8 +13,8 @@ import zipfile
 import openpyxl
 import pytest
 
-from workbook_builder import office
-from workbook_builder.cached import CellError, write_with_cached_values
+from workbook_builder.xlsx import libreoffice as office
+from workbook_builder.xlsx.cached import CellError, write_with_cached_values
 
 SOFFICE = office.find_soffice()
 needs_soffice = pytest.mark.skipif(SOFFICE is None, reason="LibreOffice (soffice) not installed")

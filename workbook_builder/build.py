@@ -2,7 +2,7 @@
 """Workbook assembly: project -> engine -> sheets, names, checks, cached values.
 
 :func:`build_workbook` makes the openpyxl workbook and the cached value of every formula cell
-(by evaluating the formula text with :class:`workbook_builder.formulas.Evaluator`);
+(by evaluating the formula text with :class:`workbook_builder.xlsx.formulas.Evaluator`);
 :func:`write_workbook` saves it atomically with those cached values, refusing to overwrite a
 file swaytune did not make. The physics comes from the engine (``functions.design``); the
 workbook's own formulas are checked against it on the Checks sheet.
@@ -28,7 +28,7 @@ from openpyxl.worksheet.datavalidation import DataValidation
 from . import __version__
 from .calcsheet import (AGM_STEPS, CROSS_CHECK_TOLERANCE, FIXED_POINT_ITERATIONS, INPUT_NAMES,
                         EngineValue, Step, design_checks, mass_ratio_mode, sections)
-from .formulas import Evaluator, check_formula, is_error
+from .xlsx.formulas import Evaluator, check_formula, is_error
 from .project import INPUT_SPECS, Project
 from .units import SI_UNIT, US_DISPLAY
 # The engine calls (re-exported: part of this module's public API since the first release).
@@ -304,7 +304,7 @@ class _Builder:
     def build(self) -> Workbook:
         fields = self.title_fields()
         if self.template is not None:
-            from .template import open_template
+            from .xlsx.template import open_template
             self.wb = open_template(self.template, fields)
             summary = self.sheet("Summary")
             next_row = self.structure_rows(summary, 1)
@@ -334,7 +334,7 @@ class _Builder:
         self.names_sheet(self.sheet("Names"))
         self.cautions_sheet(self.sheet("Cautions"))
         self.record_sheet(self.sheet("Record"))
-        from .atomic import mark_workbook
+        from .xlsx.files import mark_workbook
         mark_workbook(self.wb, __version__)
         if FORMAT_NAME in self.wb.defined_names:      # a template's stale mark
             del self.wb.defined_names[FORMAT_NAME]
@@ -365,7 +365,7 @@ class _Builder:
         }
 
     def title_block(self, sh: _Sheet, fields: dict[str, str]) -> int:
-        from .template import add_default_title_block
+        from .xlsx.template import add_default_title_block
         add_default_title_block(sh.ws, fields, heading="Pendulum tuned mass damper - "
                                                        "preliminary design")
         return self.structure_rows(sh, 7)
@@ -864,7 +864,7 @@ class _Builder:
         sh.widths([40, 15, 15, 15, 9, 22, 3, 10, 14, 14, 14, 14, 3, 10, 14, 14])
         _fit_rows(sh.ws)
         sh.ws.protection.sheet = True
-        from .office import set_print_layout
+        from .xlsx.libreoffice import set_print_layout
         set_print_layout(sh.ws, self.project.paper, landscape=False, title_rows="1:1",
                          print_area=f"A1:F{last}")
 
@@ -1232,7 +1232,7 @@ class _Builder:
     def protect(self, sh: _Sheet, title: str, title_rows: str | None, landscape: bool) -> None:
         _fit_rows(sh.ws)
         sh.ws.protection.sheet = True
-        from .office import set_print_layout
+        from .xlsx.libreoffice import set_print_layout
         set_print_layout(sh.ws, self.project.paper, landscape=landscape, title_rows=title_rows)
 
 
@@ -1381,7 +1381,7 @@ def guard_hand_edits(path: str | Path, force: bool = False) -> None:
     """
     from openpyxl import load_workbook
 
-    from .atomic import OverwriteRefused
+    from .xlsx.files import OverwriteRefused
     p = Path(path)
     if force or not p.is_file():
         return
@@ -1410,8 +1410,8 @@ def write_workbook(project: Project, out: str | Path, *, force: bool = False,
     ValueError, BuildError
         See :func:`build_workbook`.
     """
-    from .atomic import guard_overwrite
-    from .cached import write_with_cached_values
+    from .xlsx.files import guard_overwrite
+    from .xlsx.cached import write_with_cached_values
     guard_overwrite(out, force=force)
     guard_hand_edits(out, force=force)
     built = build_workbook(project, template=template)

@@ -88,7 +88,7 @@ def _build_one(project, out: Path, args) -> object:
 
 
 def _pdf(path: Path, outdir: Path) -> None:
-    from . import office
+    from .xlsx import libreoffice as office
     if office.find_soffice() is None:
         print("PDF not written: LibreOffice (soffice) is not installed", file=sys.stderr)
         return
@@ -146,9 +146,9 @@ def _build_example(project, out: Path, args) -> object:
     import shutil
     import tempfile
 
-    from .atomic import guard_overwrite
+    from .xlsx.files import guard_overwrite
     from .build import guard_hand_edits, write_workbook
-    from .compare import compare_workbooks
+    from .xlsx.compare import compare_workbooks
     if not out.exists():
         return _build_one(project, out, args)
     guard_overwrite(out, force=args.force)
@@ -234,7 +234,7 @@ def main(argv: Sequence[str] | None = None) -> int:
     130 ``recalc`` interrupted (Ctrl-C).
     """
     args = _parser().parse_args(argv)
-    from .atomic import OverwriteRefused
+    from .xlsx.files import OverwriteRefused
     from .project import ProjectError
     try:
         status = args.func(args)

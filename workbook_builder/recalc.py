@@ -30,7 +30,7 @@ same layout (:func:`workbook_builder.build.build_workbook`), and every result's 
 with the engine's. The batch writes a summary workbook and CSV (one row per workbook: key
 inputs and results, every check verdict, what changed since the last calculation, issues).
 
-The package is read and written by :mod:`workbook_builder.xlsx_package` (standard library zip
+The package is read and written by :mod:`workbook_builder.xlsx.package` (standard library zip
 reader and XML parser; DTDs and entity declarations refused, limits on member sizes; untrusted
 files are never opened with a parser that resolves entities; :func:`assert_defusedxml` checks
 that openpyxl itself runs with defusedxml). The builder's layout and the comparison of formulas
@@ -65,7 +65,7 @@ from openpyxl.utils import get_column_letter
 from . import __version__
 from .build import FORMAT_NAME
 from .recalc_summary import SUMMARY_STEM, print_report, summary_row, write_summary
-from .xlsx_package import Book, Cell, PackageError, PartCache, Sheet, open_package, \
+from .xlsx.package import Book, Cell, PackageError, PartCache, Sheet, open_package, \
     split_coord, write_package
 
 __all__ = [
@@ -200,7 +200,7 @@ class BatchSummary:
 
 
 def _open_package(path: Path) -> Book:
-    """:func:`workbook_builder.xlsx_package.open_package`, its errors as RecalcError."""
+    """:func:`workbook_builder.xlsx.package.open_package`, its errors as RecalcError."""
     try:
         return open_package(path, cache=PART_CACHE)
     except PackageError as exc:
@@ -246,7 +246,7 @@ def _workbook_format(book: Book) -> int | None:
 
 
 def _check_generator(book: Book) -> str:
-    from .atomic import MARKER_NAME, MARKER_PROPERTY
+    from .xlsx.files import MARKER_NAME, MARKER_PROPERTY
     text = book.custom_props.get(MARKER_PROPERTY, "")
     if not text:
         dn = book.defined_names.get(MARKER_NAME)
@@ -302,7 +302,7 @@ def _number(book: Book, cell: Cell, sheet: str, what: str) -> float:
     """Numeric value of a typed cell (a constant, or a formula the user typed there)."""
     v = cell.value
     if cell.data_type == "f":
-        from .formulas import Evaluator, FormulaError, is_error
+        from .xlsx.formulas import Evaluator, FormulaError, is_error
         try:
             v = Evaluator(book, sheets=[]).cell(sheet, cell.row, cell.column)
         except FormulaError as exc:
@@ -358,7 +358,7 @@ def read_workbook(path: str | os.PathLike, *, overrides: Mapping[str, float] | N
     assert_defusedxml()
     from .calcsheet import INPUT_NAMES
     from .project import INPUT_SPECS, TUNING_METHODS, InputValue, Project
-    from .template import FIELD_LABELS, TITLE_BLOCK_NAMES
+    from .xlsx.template import FIELD_LABELS, TITLE_BLOCK_NAMES
     from .units import DEFAULT_UNITS, unit_for
 
     path = Path(path)
@@ -729,17 +729,17 @@ def _mode(data: WorkbookData) -> str:
 
 # =============================================================================== evaluation
 #: Formula text -> syntax tree, shared by the evaluators of a batch (the same formulas in
-#: every workbook; see ``formulas.Evaluator(parse_cache=...)``).
+#: every workbook; see ``xlsx.formulas.Evaluator(parse_cache=...)``).
 PARSE_CACHE: dict[str, Any] = {}
 #: Parsed worksheets and shared strings by their exact bytes, shared by the workbooks of a
-#: batch (variants of one workbook hold many identical parts; see ``xlsx_package.PartCache``).
+#: batch (variants of one workbook hold many identical parts; see ``xlsx.package.PartCache``).
 PART_CACHE = PartCache()
 
 
 def clear_caches() -> None:
     """Forget the parsed formulas and parts and the builder's layouts (a cold start)."""
     from .recalc_layout import clear_caches as clear_layouts
-    from .xlsx_package import _range_keys
+    from .xlsx.package import _range_keys
     PARSE_CACHE.clear()
     PART_CACHE.clear()
     _range_keys.cache_clear()
@@ -773,8 +773,8 @@ def write_results(source: str | os.PathLike, dest: str | os.PathLike, *,
         ``(sheet, "D12") -> number`` for constant (non-formula) cells [-].
     cached : mapping, optional
         ``(sheet, "D12") -> value`` cached values of formula cells (float, bool, str or
-        :class:`workbook_builder.cached.CellError`; encoded as
-        :func:`workbook_builder.cached.insert_cached_values` does) [-].
+        :class:`workbook_builder.xlsx.cached.CellError`; encoded as
+        :func:`workbook_builder.xlsx.cached.insert_cached_values` does) [-].
     chart_values : mapping, optional
         ``(sheet, "A5") -> value`` of the cells charts plot; their number caches are rebuilt
         from these [-].
@@ -807,7 +807,7 @@ def _close(a: Any, b: Any, rel: float = CHANGE_TOLERANCE) -> bool:
 
 
 def _plain(v: Any) -> Any:
-    from .formulas import is_error
+    from .xlsx.formulas import is_error
     if is_error(v):
         return str(v)
     return v
@@ -920,7 +920,7 @@ def recalc_workbook(path: str | os.PathLike, outdir: str | os.PathLike | None = 
         res.error = str(exc)
         res.output = None
     except Exception as exc:  # noqa: BLE001 - one bad file must not stop a batch
-        from .atomic import OverwriteRefused
+        from .xlsx.files import OverwriteRefused
         if isinstance(exc, OverwriteRefused):
             res.error = str(exc)
         else:
@@ -969,7 +969,7 @@ def _recalc(res: RecalcResult, path: Path, dest: Path | None, in_place: bool, ba
             overrides, compare_layout: bool, force: bool) -> None:
     from .engine import run_engine
     from .calcsheet import CROSS_CHECK_TOLERANCE, all_steps, design_checks
-    from .formulas import Evaluator, FormulaError, is_error
+    from .xlsx.formulas import Evaluator, FormulaError, is_error
 
     data = read_workbook(path, overrides=overrides)
     book = data.book
@@ -1029,7 +1029,7 @@ def _recalc(res: RecalcResult, path: Path, dest: Path | None, in_place: bool, ba
     except (FormulaError, RecursionError) as exc:
         raise RecalcError(f"a formula cannot be evaluated by swaytune ({exc}); recalculate "
                           "this workbook in a spreadsheet application instead") from None
-    from .cached import CellError
+    from .xlsx.cached import CellError
     cached: dict[tuple[str, str], Any] = {}
     for sheet, cells in values.items():
         for coord, v in cells.items():
@@ -1168,7 +1168,7 @@ def _recalc(res: RecalcResult, path: Path, dest: Path | None, in_place: bool, ba
     # Write.
     if dest is None:
         return
-    from .atomic import guard_overwrite
+    from .xlsx.files import guard_overwrite
     if not in_place:
         guard_overwrite(dest, force=force)
     chart_values = {k: v for k, v in constants.items() if k[0] == "Charts"}

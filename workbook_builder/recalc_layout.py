@@ -18,7 +18,7 @@ from dataclasses import dataclass, field
 from typing import Any
 
 from . import __version__
-from .xlsx_package import Cell, split_coord
+from .xlsx.package import Cell, split_coord
 
 __all__ = ["Layout", "reference_layout", "layout_key", "formula_issues", "comparable_sheets",
            "clear_caches", "CANON_CACHE", "LAYOUT_CACHE"]
@@ -128,7 +128,7 @@ def canon(formula: str, sheet: str):
     key = (formula, sheet)
     if key in CANON_CACHE:
         return CANON_CACHE[key]
-    from .formulas import FormulaError, parse
+    from .xlsx.formulas import FormulaError, parse
     try:
         tree = _norm(parse(formula), sheet)
     except FormulaError:

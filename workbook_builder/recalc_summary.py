@@ -91,7 +91,7 @@ def write_summary(batch, base: str | os.PathLike) -> tuple[Path, Path]:
     from openpyxl import Workbook
     from openpyxl.styles import Font, PatternFill
 
-    from .atomic import atomic_path
+    from .xlsx.files import atomic_path
     from .build import CAUTIONS
 
     from .recalc import RecalcResult

@@ -213,7 +213,7 @@ def convert_many(paths: Iterable[str | os.PathLike], outdir: str | os.PathLike,
             raise OfficeError(f"LibreOffice produced no {ext} file from {shown} "
                               f"(exit status {result.returncode}): {detail}")
         # Move into place atomically (temporary file next to the destination, then os.replace).
-        from .atomic import atomic_path
+        from .files import atomic_path
 
         for dest in dests:
             with atomic_path(dest) as staging:

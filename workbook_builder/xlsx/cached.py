@@ -29,8 +29,8 @@ import zipfile
 from pathlib import Path
 from typing import Any, Mapping
 
-from .atomic import atomic_path
-from .xlsx_package import CellError, encode_value, sheet_parts, write_package
+from .files import atomic_path
+from .package import CellError, encode_value, sheet_parts, write_package
 
 __all__ = ["CellError", "insert_cached_values", "write_with_cached_values", "formula_cells",
            "sheet_parts"]

@@ -13,9 +13,9 @@ standard library's zip reader and XML parser, after refusing what a workbook nev
 
 :func:`write_package` writes an updated copy of a package: new constants in value cells, new
 cached values in formula cells (:func:`encode_value`, the one encoding of cached values that
-:mod:`workbook_builder.cached` uses too), rebuilt number caches of chart series; every other
+:mod:`workbook_builder.xlsx.cached` uses too), rebuilt number caches of chart series; every other
 byte of every other part is copied unchanged (formula texts included). The copy is written
-atomically (:func:`workbook_builder.atomic.atomic_path`) and gets the usual permissions of a
+atomically (:func:`workbook_builder.xlsx.files.atomic_path`) and gets the usual permissions of a
 new file (or those of the file it replaces), never the private mode of a temporary file.
 
 Every problem raises :class:`PackageError` (a ``ValueError``) with a reason fit for a report.
@@ -793,7 +793,7 @@ def write_package(source: str | os.PathLike, dest: str | os.PathLike, *,
     PackageError
         For an unknown sheet, see :func:`rewrite_cells`.
     """
-    from .atomic import atomic_path
+    from .files import atomic_path
 
     src = Path(source)
     target = Path(dest)
