@@ -22,6 +22,7 @@ import pytest
 from workbook_builder import recalc
 from workbook_builder.xlsx import libreoffice as office
 from workbook_builder.xlsx import package as xlsx_package
+from workbook_builder.xlsx import rewrite
 from workbook_builder.build import build_workbook, write_workbook
 from workbook_builder.xlsx.cached import formula_cells
 from workbook_builder.project import load_project, parse_project
@@ -508,7 +509,7 @@ def test_in_place_keeps_backup_and_is_atomic(built, tmp_path, monkeypatch):
     def boom(*a, **k):
         raise OSError("disk full (simulated)")
 
-    monkeypatch.setattr(xlsx_package, "rewrite_cells", boom)
+    monkeypatch.setattr(rewrite, "rewrite_cells", boom)
     res2 = recalc_workbook(path, in_place=True, backup=False, inputs={"frequency": 0.23})
     assert res2.status == "FAILED" and "disk full" in res2.error
     assert path.read_bytes() == before

@@ -30,10 +30,10 @@ same layout (:func:`workbook_builder.build.build_workbook`), and every result's 
 with the engine's. The batch writes a summary workbook and CSV (one row per workbook: key
 inputs and results, every check verdict, what changed since the last calculation, issues).
 
-The package is read and written by :mod:`workbook_builder.xlsx.package` (standard library zip
-reader and XML parser; DTDs and entity declarations refused, limits on member sizes; untrusted
-files are never opened with a parser that resolves entities; :func:`assert_defusedxml` checks
-that openpyxl itself runs with defusedxml). The builder's layout and the comparison of formulas
+The package is read by :mod:`workbook_builder.xlsx.package` (standard library zip reader and
+XML parser; DTDs and entity declarations refused, limits on member sizes; untrusted files are
+never opened with a parser that resolves entities; :func:`assert_defusedxml` checks that
+openpyxl itself runs with defusedxml) and written by :mod:`workbook_builder.xlsx.rewrite`. The builder's layout and the comparison of formulas
 are in :mod:`workbook_builder.recalc_layout`, the batch summary in
 :mod:`workbook_builder.recalc_summary`. A workbook's format mark (``SWAYTUNE_FORMAT``,
 :data:`workbook_builder.build.FORMAT_VERSION`) newer than the builder's is refused, an older
@@ -65,8 +65,8 @@ from openpyxl.utils import get_column_letter
 from . import __version__
 from .build import FORMAT_NAME
 from .recalc_summary import SUMMARY_STEM, print_report, summary_row, write_summary
-from .xlsx.package import Book, Cell, PackageError, PartCache, Sheet, open_package, \
-    split_coord, write_package
+from .xlsx.package import Book, Cell, PackageError, PartCache, Sheet, open_package, split_coord
+from .xlsx.rewrite import write_package
 
 __all__ = [
     "RecalcError", "Issue", "RecalcResult", "BatchSummary", "WorkbookData",
@@ -739,7 +739,7 @@ PART_CACHE = PartCache()
 def clear_caches() -> None:
     """Forget the parsed formulas and parts and the builder's layouts (a cold start)."""
     from .recalc_layout import clear_caches as clear_layouts
-    from .xlsx.package import _range_keys
+    from .xlsx.rewrite import _range_keys
     PARSE_CACHE.clear()
     PART_CACHE.clear()
     _range_keys.cache_clear()

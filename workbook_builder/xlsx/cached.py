@@ -30,7 +30,8 @@ from pathlib import Path
 from typing import Any, Mapping
 
 from .files import atomic_path
-from .package import CellError, encode_value, sheet_parts, write_package
+from .package import sheet_parts
+from .rewrite import CellError, encode_value, write_package
 
 __all__ = ["CellError", "insert_cached_values", "write_with_cached_values", "formula_cells",
            "sheet_parts"]
