@@ -541,7 +541,7 @@ def test_engine_refusal_is_reported_with_the_source(tmp_path, capsys):
 
 
 def test_refuses_to_overwrite_a_workbook_changed_after_the_build(tmp_path):
-    from workbook_builder.build import DIGEST_PROPERTY, content_digest
+    from workbook_builder.xlsx.files import DIGEST_PROPERTY, content_digest
     src = tmp_path / "p.toml"
     src.write_text(MINIMAL, encoding="utf-8")
     project = load_project(src)

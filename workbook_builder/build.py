@@ -28,6 +28,7 @@ from openpyxl.worksheet.datavalidation import DataValidation
 from . import __version__
 from .calcsheet import (AGM_STEPS, CROSS_CHECK_TOLERANCE, FIXED_POINT_ITERATIONS, INPUT_NAMES,
                         EngineValue, Step, design_checks, mass_ratio_mode, sections)
+from .xlsx.files import guard_hand_edits, set_digest
 from .xlsx.formulas import Evaluator, check_formula, is_error
 from .project import INPUT_SPECS, Project
 from .units import SI_UNIT, US_DISPLAY
@@ -37,11 +38,9 @@ from .engine import (PEAK_DURATION, SIMULATION_PROPERTY, SimulationRun,  # noqa:
                      simulation_settings_text)
 
 __all__ = ["BuildError", "BuiltWorkbook", "build_workbook", "write_workbook", "CAUTIONS",
-           "SHEETS", "run_engine", "run_simulation", "SimulationRun", "content_digest",
-           "guard_hand_edits", "DIGEST_PROPERTY", "FORMAT_VERSION", "FORMAT_NAME",
-           "SIMULATION_PROPERTY", "EngineCell", "ENGINE_KINDS", "engine_cells", "engine_value",
-           "lay_out",
-           "simulation_settings_text", "read_simulation_settings"]
+           "SHEETS", "run_engine", "run_simulation", "SimulationRun", "FORMAT_VERSION",
+           "FORMAT_NAME", "SIMULATION_PROPERTY", "EngineCell", "ENGINE_KINDS", "engine_cells",
+           "engine_value", "lay_out", "simulation_settings_text", "read_simulation_settings"]
 
 #: Layout format of the workbooks this builder writes, stored in every workbook as the
 #: workbook-scoped defined name ``SWAYTUNE_FORMAT``. RAISE IT BY ONE ON EVERY LAYOUT CHANGE
@@ -1332,72 +1331,6 @@ def engine_cells(project: Project, result=None, *, simulation: SimulationRun | N
     return lay_out(project, result, simulation=simulation, template=template)[1]
 
 
-#: Custom document property holding :func:`content_digest` of the workbook as built.
-DIGEST_PROPERTY = "SwaytuneContentDigest"
-
-
-def content_digest(wb) -> str:
-    """SHA-256 of every cell's type and value or formula (not cached values, not styles).
-
-    The same for the workbook in memory and as read back from the saved file, so a rebuild can
-    tell whether a file swaytune wrote was changed afterwards.
-    """
-    import hashlib
-    h = hashlib.sha256()
-    for ws in wb.worksheets:
-        h.update(ws.title.encode("utf-8") + b"\0")
-        for row in ws.iter_rows():
-            for c in row:
-                v = c.value
-                if v is None or v == "":
-                    continue
-                if isinstance(v, bool):
-                    text = f"b{v}"
-                elif isinstance(v, (int, float)):
-                    text = f"n{float(v):.16g}"      # openpyxl stores 16 significant digits
-                else:
-                    text = f"{c.data_type}{v}"
-                h.update(f"{c.coordinate}\0{text}\0".encode("utf-8"))
-    return h.hexdigest()
-
-
-def _set_digest(wb) -> None:
-    from openpyxl.packaging.custom import StringProperty
-    props = wb.custom_doc_props
-    for prop in list(props.props):
-        if prop.name == DIGEST_PROPERTY:
-            props.props.remove(prop)
-    props.append(StringProperty(name=DIGEST_PROPERTY, value=content_digest(wb)))
-
-
-def guard_hand_edits(path: str | Path, force: bool = False) -> None:
-    """Refuse to replace a swaytune workbook that was changed after it was built.
-
-    Raises
-    ------
-    OverwriteRefused
-        When ``path`` carries a content digest that no longer matches its cells (edited, or
-        saved by another application), unless ``force``.
-    """
-    from openpyxl import load_workbook
-
-    from .xlsx.files import OverwriteRefused
-    p = Path(path)
-    if force or not p.is_file():
-        return
-    try:
-        wb = load_workbook(p)
-    except Exception:           # not readable as a workbook: guard_overwrite decides
-        return
-    stored = next((prop.value for prop in wb.custom_doc_props.props
-                   if prop.name == DIGEST_PROPERTY), None)
-    if stored is not None and stored != content_digest(wb):
-        raise OverwriteRefused(
-            f"{p} was changed after swaytune built it (edited, or saved by another "
-            "application); refusing to overwrite it (choose another output name, or force "
-            "the overwrite)")
-
-
 def write_workbook(project: Project, out: str | Path, *, force: bool = False,
                    template: str | Path | None = None) -> BuiltWorkbook:
     """Build and save a project's workbook to ``out`` with cached values, atomically.
@@ -1415,7 +1348,7 @@ def write_workbook(project: Project, out: str | Path, *, force: bool = False,
     guard_overwrite(out, force=force)
     guard_hand_edits(out, force=force)
     built = build_workbook(project, template=template)
-    _set_digest(built.workbook)
+    set_digest(built.workbook)
     # Without a template every formula cell is ours and must get its cached value.
     write_with_cached_values(built.workbook, out, built.values, require_all=template is None)
     return built

@@ -146,8 +146,8 @@ def _build_example(project, out: Path, args) -> object:
     import shutil
     import tempfile
 
-    from .xlsx.files import guard_overwrite
-    from .build import guard_hand_edits, write_workbook
+    from .xlsx.files import guard_hand_edits, guard_overwrite
+    from .build import write_workbook
     from .xlsx.compare import compare_workbooks
     if not out.exists():
         return _build_one(project, out, args)
