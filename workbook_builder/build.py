@@ -863,7 +863,7 @@ class _Builder:
         sh.widths([40, 15, 15, 15, 9, 22, 3, 10, 14, 14, 14, 14, 3, 10, 14, 14])
         _fit_rows(sh.ws)
         sh.ws.protection.sheet = True
-        from .xlsx.libreoffice import set_print_layout
+        from .xlsx.page_setup import set_print_layout
         set_print_layout(sh.ws, self.project.paper, landscape=False, title_rows="1:1",
                          print_area=f"A1:F{last}")
 
@@ -1231,7 +1231,7 @@ class _Builder:
     def protect(self, sh: _Sheet, title: str, title_rows: str | None, landscape: bool) -> None:
         _fit_rows(sh.ws)
         sh.ws.protection.sheet = True
-        from .xlsx.libreoffice import set_print_layout
+        from .xlsx.page_setup import set_print_layout
         set_print_layout(sh.ws, self.project.paper, landscape=landscape, title_rows=title_rows)
 
 

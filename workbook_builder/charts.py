@@ -293,7 +293,7 @@ def add_charts_sheet(wb: Any, result: Any, *, title: str = "Charts", index: int 
     from openpyxl.utils import get_column_letter
     from openpyxl.worksheet.pagebreak import Break
 
-    from .xlsx.libreoffice import set_print_layout
+    from .xlsx.page_setup import set_print_layout
 
     if title in wb.sheetnames:
         raise ValueError(f"title={title!r}: the workbook already has a sheet of that name")

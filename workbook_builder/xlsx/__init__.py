@@ -11,5 +11,6 @@ themselves, this package re-exports nothing):
 ``files``        atomic writes, the swaytune marker, the overwrite guard
 ``compare``      golden-workbook comparison, cell by cell
 ``libreoffice``  LibreOffice headless: convert, recalculate, export PDF, read values, errors
+``page_setup``   print layout of a worksheet for filing (openpyxl page set-up)
 ``template``     firm calc-sheet templates and the default title block
 """
