@@ -28,8 +28,11 @@ from openpyxl.worksheet.datavalidation import DataValidation
 from . import __version__
 from .calcsheet import (AGM_STEPS, CROSS_CHECK_TOLERANCE, FIXED_POINT_ITERATIONS, INPUT_NAMES,
                         EngineValue, Step, design_checks, mass_ratio_mode, sections)
-from .xlsx.files import guard_hand_edits, set_digest
+from .xlsx.cached import write_with_cached_values
+from .xlsx.files import guard_hand_edits, guard_overwrite, mark_workbook, set_digest
 from .xlsx.formulas import Evaluator, check_formula, is_error
+from .xlsx.page_setup import set_print_layout
+from .xlsx.template import add_default_title_block, open_template
 from .project import INPUT_SPECS, Project
 from .units import SI_UNIT, US_DISPLAY
 # The engine calls (re-exported: part of this module's public API since the first release).
@@ -303,7 +306,6 @@ class _Builder:
     def build(self) -> Workbook:
         fields = self.title_fields()
         if self.template is not None:
-            from .xlsx.template import open_template
             self.wb = open_template(self.template, fields)
             summary = self.sheet("Summary")
             next_row = self.structure_rows(summary, 1)
@@ -333,7 +335,6 @@ class _Builder:
         self.names_sheet(self.sheet("Names"))
         self.cautions_sheet(self.sheet("Cautions"))
         self.record_sheet(self.sheet("Record"))
-        from .xlsx.files import mark_workbook
         mark_workbook(self.wb, __version__)
         if FORMAT_NAME in self.wb.defined_names:      # a template's stale mark
             del self.wb.defined_names[FORMAT_NAME]
@@ -364,7 +365,6 @@ class _Builder:
         }
 
     def title_block(self, sh: _Sheet, fields: dict[str, str]) -> int:
-        from .xlsx.template import add_default_title_block
         add_default_title_block(sh.ws, fields, heading="Pendulum tuned mass damper - "
                                                        "preliminary design")
         return self.structure_rows(sh, 7)
@@ -863,7 +863,6 @@ class _Builder:
         sh.widths([40, 15, 15, 15, 9, 22, 3, 10, 14, 14, 14, 14, 3, 10, 14, 14])
         _fit_rows(sh.ws)
         sh.ws.protection.sheet = True
-        from .xlsx.page_setup import set_print_layout
         set_print_layout(sh.ws, self.project.paper, landscape=False, title_rows="1:1",
                          print_area=f"A1:F{last}")
 
@@ -1231,7 +1230,6 @@ class _Builder:
     def protect(self, sh: _Sheet, title: str, title_rows: str | None, landscape: bool) -> None:
         _fit_rows(sh.ws)
         sh.ws.protection.sheet = True
-        from .xlsx.page_setup import set_print_layout
         set_print_layout(sh.ws, self.project.paper, landscape=landscape, title_rows=title_rows)
 
 
@@ -1343,8 +1341,6 @@ def write_workbook(project: Project, out: str | Path, *, force: bool = False,
     ValueError, BuildError
         See :func:`build_workbook`.
     """
-    from .xlsx.files import guard_overwrite
-    from .xlsx.cached import write_with_cached_values
     guard_overwrite(out, force=force)
     guard_hand_edits(out, force=force)
     built = build_workbook(project, template=template)

@@ -25,6 +25,8 @@ from typing import Any, Sequence
 
 import numpy as np
 
+from .xlsx.page_setup import set_print_layout
+
 __all__ = ["ChartTable", "chart_tables", "add_charts_sheet", "fill_chart_caches",
            "RULE_OF_THUMB_DEG", "time_history_table", "swing_window_table",
            "add_time_history_charts", "MAX_TIME_POINTS"]
@@ -292,8 +294,6 @@ def add_charts_sheet(wb: Any, result: Any, *, title: str = "Charts", index: int 
     from openpyxl.styles import Font
     from openpyxl.utils import get_column_letter
     from openpyxl.worksheet.pagebreak import Break
-
-    from .xlsx.page_setup import set_print_layout
 
     if title in wb.sheetnames:
         raise ValueError(f"title={title!r}: the workbook already has a sheet of that name")

@@ -22,6 +22,9 @@ from pathlib import Path
 from typing import Sequence
 
 from . import __version__
+from .xlsx import libreoffice
+from .xlsx.compare import compare_workbooks
+from .xlsx.files import OverwriteRefused, guard_hand_edits, guard_overwrite
 
 __all__ = ["main", "summary_table", "print_cautions", "EXAMPLES_DIR"]
 
@@ -88,11 +91,10 @@ def _build_one(project, out: Path, args) -> object:
 
 
 def _pdf(path: Path, outdir: Path) -> None:
-    from .xlsx import libreoffice as office
-    if office.find_soffice() is None:
+    if libreoffice.find_soffice() is None:
         print("PDF not written: LibreOffice (soffice) is not installed", file=sys.stderr)
         return
-    pdf = office.export_pdf(path, outdir)
+    pdf = libreoffice.export_pdf(path, outdir)
     print(f"wrote {pdf}")
 
 
@@ -146,9 +148,7 @@ def _build_example(project, out: Path, args) -> object:
     import shutil
     import tempfile
 
-    from .xlsx.files import guard_hand_edits, guard_overwrite
     from .build import write_workbook
-    from .xlsx.compare import compare_workbooks
     if not out.exists():
         return _build_one(project, out, args)
     guard_overwrite(out, force=args.force)
@@ -234,7 +234,6 @@ def main(argv: Sequence[str] | None = None) -> int:
     130 ``recalc`` interrupted (Ctrl-C).
     """
     args = _parser().parse_args(argv)
-    from .xlsx.files import OverwriteRefused
     from .project import ProjectError
     try:
         status = args.func(args)

@@ -65,8 +65,11 @@ from openpyxl.utils import get_column_letter
 from . import __version__
 from .build import FORMAT_NAME
 from .recalc_summary import SUMMARY_STEM, print_report, summary_row, write_summary
+from .xlsx.files import MARKER_NAME, MARKER_PROPERTY, OverwriteRefused, guard_overwrite
+from .xlsx.formulas import Evaluator, FormulaError, is_error
 from .xlsx.package import Book, Cell, PackageError, PartCache, Sheet, open_package, split_coord
-from .xlsx.rewrite import write_package
+from .xlsx.rewrite import CellError, _range_keys, write_package
+from .xlsx.template import FIELD_LABELS, TITLE_BLOCK_NAMES
 
 __all__ = [
     "RecalcError", "Issue", "RecalcResult", "BatchSummary", "WorkbookData",
@@ -246,7 +249,6 @@ def _workbook_format(book: Book) -> int | None:
 
 
 def _check_generator(book: Book) -> str:
-    from .xlsx.files import MARKER_NAME, MARKER_PROPERTY
     text = book.custom_props.get(MARKER_PROPERTY, "")
     if not text:
         dn = book.defined_names.get(MARKER_NAME)
@@ -302,7 +304,6 @@ def _number(book: Book, cell: Cell, sheet: str, what: str) -> float:
     """Numeric value of a typed cell (a constant, or a formula the user typed there)."""
     v = cell.value
     if cell.data_type == "f":
-        from .xlsx.formulas import Evaluator, FormulaError, is_error
         try:
             v = Evaluator(book, sheets=[]).cell(sheet, cell.row, cell.column)
         except FormulaError as exc:
@@ -358,7 +359,6 @@ def read_workbook(path: str | os.PathLike, *, overrides: Mapping[str, float] | N
     assert_defusedxml()
     from .calcsheet import INPUT_NAMES
     from .project import INPUT_SPECS, TUNING_METHODS, InputValue, Project
-    from .xlsx.template import FIELD_LABELS, TITLE_BLOCK_NAMES
     from .units import DEFAULT_UNITS, unit_for
 
     path = Path(path)
@@ -739,7 +739,6 @@ PART_CACHE = PartCache()
 def clear_caches() -> None:
     """Forget the parsed formulas and parts and the builder's layouts (a cold start)."""
     from .recalc_layout import clear_caches as clear_layouts
-    from .xlsx.rewrite import _range_keys
     PARSE_CACHE.clear()
     PART_CACHE.clear()
     _range_keys.cache_clear()
@@ -807,7 +806,6 @@ def _close(a: Any, b: Any, rel: float = CHANGE_TOLERANCE) -> bool:
 
 
 def _plain(v: Any) -> Any:
-    from .xlsx.formulas import is_error
     if is_error(v):
         return str(v)
     return v
@@ -920,7 +918,6 @@ def recalc_workbook(path: str | os.PathLike, outdir: str | os.PathLike | None = 
         res.error = str(exc)
         res.output = None
     except Exception as exc:  # noqa: BLE001 - one bad file must not stop a batch
-        from .xlsx.files import OverwriteRefused
         if isinstance(exc, OverwriteRefused):
             res.error = str(exc)
         else:
@@ -969,7 +966,6 @@ def _recalc(res: RecalcResult, path: Path, dest: Path | None, in_place: bool, ba
             overrides, compare_layout: bool, force: bool) -> None:
     from .engine import run_engine
     from .calcsheet import CROSS_CHECK_TOLERANCE, all_steps, design_checks
-    from .xlsx.formulas import Evaluator, FormulaError, is_error
 
     data = read_workbook(path, overrides=overrides)
     book = data.book
@@ -1029,7 +1025,6 @@ def _recalc(res: RecalcResult, path: Path, dest: Path | None, in_place: bool, ba
     except (FormulaError, RecursionError) as exc:
         raise RecalcError(f"a formula cannot be evaluated by swaytune ({exc}); recalculate "
                           "this workbook in a spreadsheet application instead") from None
-    from .xlsx.cached import CellError
     cached: dict[tuple[str, str], Any] = {}
     for sheet, cells in values.items():
         for coord, v in cells.items():
@@ -1168,7 +1163,6 @@ def _recalc(res: RecalcResult, path: Path, dest: Path | None, in_place: bool, ba
     # Write.
     if dest is None:
         return
-    from .xlsx.files import guard_overwrite
     if not in_place:
         guard_overwrite(dest, force=force)
     chart_values = {k: v for k, v in constants.items() if k[0] == "Charts"}

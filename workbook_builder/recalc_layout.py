@@ -18,6 +18,7 @@ from dataclasses import dataclass, field
 from typing import Any
 
 from . import __version__
+from .xlsx.formulas import FormulaError, parse
 from .xlsx.package import Cell, split_coord
 
 __all__ = ["Layout", "reference_layout", "layout_key", "formula_issues", "comparable_sheets",
@@ -128,7 +129,6 @@ def canon(formula: str, sheet: str):
     key = (formula, sheet)
     if key in CANON_CACHE:
         return CANON_CACHE[key]
-    from .xlsx.formulas import FormulaError, parse
     try:
         tree = _norm(parse(formula), sheet)
     except FormulaError:

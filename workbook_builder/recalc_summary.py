@@ -17,6 +17,7 @@ from pathlib import Path
 from typing import Any
 
 from . import __version__
+from .xlsx.files import atomic_path
 
 __all__ = ["summary_row", "write_summary", "print_report", "csv_safe", "SUMMARY_STEM"]
 
@@ -91,7 +92,6 @@ def write_summary(batch, base: str | os.PathLike) -> tuple[Path, Path]:
     from openpyxl import Workbook
     from openpyxl.styles import Font, PatternFill
 
-    from .xlsx.files import atomic_path
     from .build import CAUTIONS
 
     from .recalc import RecalcResult

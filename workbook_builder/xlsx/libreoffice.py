@@ -28,6 +28,10 @@ import tempfile
 from pathlib import Path
 from typing import Any, Iterable
 
+from openpyxl import load_workbook
+
+from .files import atomic_path
+
 __all__ = [
     "OfficeError",
     "find_soffice",
@@ -212,8 +216,6 @@ def convert_many(paths: Iterable[str | os.PathLike], outdir: str | os.PathLike,
             raise OfficeError(f"LibreOffice produced no {ext} file from {shown} "
                               f"(exit status {result.returncode}): {detail}")
         # Move into place atomically (temporary file next to the destination, then os.replace).
-        from .files import atomic_path
-
         for dest in dests:
             with atomic_path(dest) as staging:
                 shutil.copyfile(work_out / dest.name, staging)
@@ -268,8 +270,6 @@ def read_values(path: str | os.PathLike) -> dict[tuple[str, str], Any]:
     Returns a dict ``(sheet title, "A1") -> value`` read with openpyxl ``data_only=True``; formula
     cells without a cached value read as None and are included.
     """
-    from openpyxl import load_workbook
-
     wb = load_workbook(path, data_only=True)
     try:
         out: dict[tuple[str, str], Any] = {}
@@ -286,8 +286,6 @@ def read_values(path: str | os.PathLike) -> dict[tuple[str, str], Any]:
 
 def _formula_coordinates(path: str | os.PathLike) -> set[tuple[str, str]]:
     """(sheet, coordinate) of every formula cell, read with openpyxl (formulas kept)."""
-    from openpyxl import load_workbook
-
     wb = load_workbook(path, data_only=False)
     try:
         return {(ws.title, c.coordinate) for ws in wb.worksheets for row in ws.iter_rows()
@@ -305,8 +303,6 @@ def find_error_cells(path: str | os.PathLike, *, include_text: bool = True,
     that reads exactly like an error code (``#NAME?``, ``Err:502``) counts too, because some
     applications store errors that way. Order: sheet order, then row by row.
     """
-    from openpyxl import load_workbook
-
     wanted = None if sheets is None else set(sheets)
     wb = load_workbook(path, data_only=True)
     try:
