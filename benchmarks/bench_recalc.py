@@ -8,7 +8,8 @@ recalculate), then recalculates the batch
 1. with :func:`workbook_builder.recalc.recalc_many` (the ``recalc`` command, one process), and
 2. with LibreOffice headless: ONE soffice process converting every file
    (``soffice --headless --convert-to xlsx --outdir D f1 f2 ...``) with a private profile that
-   forces recalculation on load (``OOXMLRecalcMode=0``, see :mod:`workbook_builder.office`),
+   forces recalculation on load (``OOXMLRecalcMode=0``, see
+   :mod:`workbook_builder.xlsx.libreoffice`),
 
 and prints the time ratio and the largest relative difference between the two sets of values
 (every numeric cell of the Inputs, Calculation, Pendulum, Checks, Names and Summary sheets).

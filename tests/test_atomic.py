@@ -5,8 +5,9 @@ from __future__ import annotations
 import openpyxl
 import pytest
 
-from workbook_builder.atomic import (MARKER_NAME, OverwriteRefused, atomic_path, guard_overwrite,
-                                     is_swaytune_workbook, mark_workbook, save_workbook)
+from workbook_builder.xlsx.files import (MARKER_NAME, OverwriteRefused, atomic_path,
+                                         guard_overwrite, is_swaytune_workbook, mark_workbook,
+                                         save_workbook)
 
 
 def test_atomic_path_failure_leaves_destination(tmp_path):

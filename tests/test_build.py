@@ -16,11 +16,11 @@ import pytest
 from openpyxl.utils import get_column_letter
 
 from workbook_builder import cli
-from workbook_builder.atomic import OverwriteRefused
+from workbook_builder.xlsx.files import OverwriteRefused
 from workbook_builder.build import CAUTIONS, BuildError, _Sheet, build_workbook, write_workbook
 from workbook_builder.calcsheet import CROSS_CHECK_TOLERANCE, INPUT_NAMES, all_steps
-from workbook_builder.formulas import (ALLOWED_FUNCTIONS, Evaluator, FormulaError, check_formula,
-                                       functions_used, is_error)
+from workbook_builder.xlsx.formulas import (ALLOWED_FUNCTIONS, Evaluator, FormulaError,
+                                            check_formula, functions_used, is_error)
 from workbook_builder.project import load_project
 
 EXAMPLES = Path(__file__).resolve().parent.parent / "example_workbooks"
@@ -427,7 +427,7 @@ def test_cli_examples_empty_dir(tmp_path, capsys):
 
 def test_template(tmp_path):
     """A firm's template keeps its sheet and gets its title block filled."""
-    from workbook_builder.template import add_default_title_block
+    from workbook_builder.xlsx.template import add_default_title_block
     firm = openpyxl.Workbook()
     ws = firm.active
     ws.title = "Firm cover"
@@ -541,7 +541,7 @@ def test_engine_refusal_is_reported_with_the_source(tmp_path, capsys):
 
 
 def test_refuses_to_overwrite_a_workbook_changed_after_the_build(tmp_path):
-    from workbook_builder.build import DIGEST_PROPERTY, content_digest
+    from workbook_builder.xlsx.files import DIGEST_PROPERTY, content_digest
     src = tmp_path / "p.toml"
     src.write_text(MINIMAL, encoding="utf-8")
     project = load_project(src)
@@ -836,7 +836,7 @@ def test_evaluator_shares_a_parse_cache():
 def test_format_mark_and_simulation_property(tmp_path):
     """SWAYTUNE_FORMAT holds FORMAT_VERSION; the [simulation] table travels as data."""
     import dataclasses
-    from workbook_builder.atomic import new_file_mode
+    from workbook_builder.xlsx.files import new_file_mode
     from workbook_builder.build import (FORMAT_NAME, FORMAT_VERSION, SIMULATION_PROPERTY,
                                         read_simulation_settings)
     from workbook_builder.project import SimulationSettings, parse_project

@@ -15,9 +15,9 @@ import pytest
 from hypothesis import given, settings, strategies as st
 from openpyxl.worksheet.formula import ArrayFormula
 
-from workbook_builder import office
-from workbook_builder.cached import (CellError, formula_cells, insert_cached_values,
-                                     write_with_cached_values)
+from workbook_builder.xlsx import libreoffice as office
+from workbook_builder.xlsx.cached import (CellError, formula_cells, insert_cached_values,
+                                          write_with_cached_values)
 
 needs_soffice = pytest.mark.skipif(office.find_soffice() is None,
                                    reason="LibreOffice (soffice) not installed")

@@ -16,7 +16,8 @@ import pytest
 from scipy.special import ellipk
 
 from functions import damper
-from workbook_builder import charts, office
+from workbook_builder import charts
+from workbook_builder.xlsx import libreoffice as office
 
 NS = {"c": "http://schemas.openxmlformats.org/drawingml/2006/chart",
       "a": "http://schemas.openxmlformats.org/drawingml/2006/main"}

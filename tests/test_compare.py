@@ -12,8 +12,8 @@ from openpyxl.styles import Protection
 from openpyxl.workbook.defined_name import DefinedName
 from openpyxl.worksheet.datavalidation import DataValidation
 
-from workbook_builder.cached import write_with_cached_values
-from workbook_builder.compare import assert_workbooks_equal, compare_workbooks
+from workbook_builder.xlsx.cached import write_with_cached_values
+from workbook_builder.xlsx.compare import assert_workbooks_equal, compare_workbooks
 
 
 def _book(**change):

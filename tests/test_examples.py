@@ -3,7 +3,7 @@
 
 Rebuild each example project and compare it with the committed workbook cell by cell (value or
 formula, cached value, number format, locking, names, validations, print set-up), ignoring the
-document timestamps (workbook_builder.compare). To refresh them: ``swaytune examples``.
+document timestamps (workbook_builder.xlsx.compare). To refresh them: ``swaytune examples``.
 """
 from __future__ import annotations
 
@@ -12,7 +12,7 @@ from pathlib import Path
 import pytest
 
 from workbook_builder.build import write_workbook
-from workbook_builder.compare import compare_workbooks
+from workbook_builder.xlsx.compare import compare_workbooks
 from workbook_builder.project import load_project
 
 EXAMPLES = Path(__file__).resolve().parent.parent / "example_workbooks"

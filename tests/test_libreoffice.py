@@ -2,10 +2,11 @@
 """Built workbooks recalculated by a real spreadsheet application (LibreOffice headless).
 
 Each example workbook is recalculated with a forced full recalculation (private profile,
-OOXMLRecalcMode=0, see workbook_builder.office). Then: no cell holds an error; every result cell
-equals the engine's value (relative difference <= 1e-9; the builder converts units with exact
-factors, not CONVERT, so the tighter tolerance holds everywhere); the cached values the builder
-wrote equal LibreOffice's; and with recalculation off LibreOffice shows the cached values.
+OOXMLRecalcMode=0, see workbook_builder.xlsx.libreoffice). Then: no cell holds an error; every
+result cell equals the engine's value (relative difference <= 1e-9; the builder converts units
+with exact factors, not CONVERT, so the tighter tolerance holds everywhere); the cached values
+the builder wrote equal LibreOffice's; and with recalculation off LibreOffice shows the cached
+values.
 Skipped, with the reason, when soffice is not installed (CI installs libreoffice-calc-nogui).
 """
 from __future__ import annotations
@@ -15,7 +16,7 @@ from pathlib import Path
 
 import pytest
 
-from workbook_builder import office
+from workbook_builder.xlsx import libreoffice as office
 from workbook_builder.build import write_workbook
 from workbook_builder.calcsheet import CROSS_CHECK_TOLERANCE
 from workbook_builder.project import load_project

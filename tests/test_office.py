@@ -13,8 +13,9 @@ import zipfile
 import openpyxl
 import pytest
 
-from workbook_builder import office
-from workbook_builder.cached import CellError, write_with_cached_values
+from workbook_builder.xlsx import libreoffice as office
+from workbook_builder.xlsx.cached import CellError, write_with_cached_values
+from workbook_builder.xlsx.page_setup import set_print_layout
 
 SOFFICE = office.find_soffice()
 needs_soffice = pytest.mark.skipif(SOFFICE is None, reason="LibreOffice (soffice) not installed")
@@ -146,7 +147,7 @@ def test_export_pdf_with_print_layout(tmp_path):
         ws.cell(r, 1, f"step {r}")
         ws.cell(r, 2, f"=A{r}&\" ok\"")
         ws.cell(r, 8, r * 1.5)
-    office.set_print_layout(ws, paper="Letter", landscape=True, title_rows="1:1")
+    set_print_layout(ws, paper="Letter", landscape=True, title_rows="1:1")
     assert ws.print_title_rows == "$1:$1"
     src = tmp_path / "p.xlsx"
     wb.save(src)
@@ -163,7 +164,7 @@ def test_set_print_layout_fields():
     ws = wb.active
     ws["A1"] = 1
     ws["D20"] = 2
-    office.set_print_layout(ws, paper="A4", title_rows=(1, 3))
+    set_print_layout(ws, paper="A4", title_rows=(1, 3))
     assert int(ws.page_setup.paperSize) == 9   # ECMA-376 Part 1, 18.3.1.63: 9 = A4
     assert ws.page_setup.orientation == "portrait"
     assert ws.sheet_properties.pageSetUpPr.fitToPage is True
@@ -177,14 +178,14 @@ def test_set_print_layout_fields():
 def test_set_print_layout_bad_paper(paper):
     ws = openpyxl.Workbook().active
     with pytest.raises(ValueError, match=r"paper=.* must be one of \['A4', 'Letter'\]"):
-        office.set_print_layout(ws, paper=paper)
+        set_print_layout(ws, paper=paper)
 
 
 @pytest.mark.parametrize("rows", ["1-3", "a:b", (3, 1), (0, 2)])
 def test_set_print_layout_bad_title_rows(rows):
     ws = openpyxl.Workbook().active
     with pytest.raises(ValueError, match="title_rows="):
-        office.set_print_layout(ws, title_rows=rows)
+        set_print_layout(ws, title_rows=rows)
 
 
 @pytest.mark.parametrize("text, expected", [

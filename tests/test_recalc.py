@@ -19,9 +19,12 @@ from pathlib import Path
 import openpyxl
 import pytest
 
-from workbook_builder import office, recalc, xlsx_package
+from workbook_builder import recalc
+from workbook_builder.xlsx import libreoffice as office
+from workbook_builder.xlsx import package as xlsx_package
+from workbook_builder.xlsx import rewrite
 from workbook_builder.build import build_workbook, write_workbook
-from workbook_builder.cached import formula_cells
+from workbook_builder.xlsx.cached import formula_cells
 from workbook_builder.project import load_project, parse_project
 from workbook_builder.recalc import (RecalcError, main_recalc, read_inputs, read_workbook,
                                      recalc_many, recalc_workbook, write_results)
@@ -418,7 +421,7 @@ def test_newer_format_fails(built, tmp_path):
 
 
 def test_newer_generator_version_fails(built, tmp_path):
-    from workbook_builder.atomic import mark_workbook
+    from workbook_builder.xlsx.files import mark_workbook
     path = _copy(built["den_hartog"], tmp_path)
     wb = openpyxl.load_workbook(path)
     mark_workbook(wb, "99.0.0")
@@ -506,7 +509,7 @@ def test_in_place_keeps_backup_and_is_atomic(built, tmp_path, monkeypatch):
     def boom(*a, **k):
         raise OSError("disk full (simulated)")
 
-    monkeypatch.setattr(xlsx_package, "rewrite_cells", boom)
+    monkeypatch.setattr(rewrite, "rewrite_cells", boom)
     res2 = recalc_workbook(path, in_place=True, backup=False, inputs={"frequency": 0.23})
     assert res2.status == "FAILED" and "disk full" in res2.error
     assert path.read_bytes() == before

@@ -12,9 +12,9 @@ import pytest
 from openpyxl.styles import Font, PatternFill
 from openpyxl.workbook.defined_name import DefinedName
 
-from workbook_builder import office
-from workbook_builder.template import (TITLE_BLOCK_NAMES, add_default_title_block, open_template,
-                                       template_fields, unfilled_fields)
+from workbook_builder.xlsx import libreoffice as office
+from workbook_builder.xlsx.template import (TITLE_BLOCK_NAMES, add_default_title_block,
+                                            open_template, template_fields, unfilled_fields)
 
 FIRM = "Example Structures Office (invented)"
 FIELDS = {"project_number": "P-4711", "title": "Invented tower: pendulum damper",

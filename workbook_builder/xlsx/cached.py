@@ -29,8 +29,11 @@ import zipfile
 from pathlib import Path
 from typing import Any, Mapping
 
-from .atomic import atomic_path
-from .xlsx_package import CellError, encode_value, sheet_parts, write_package
+from openpyxl import load_workbook
+
+from .files import atomic_path
+from .package import sheet_parts
+from .rewrite import CellError, encode_value, write_package
 
 __all__ = ["CellError", "insert_cached_values", "write_with_cached_values", "formula_cells",
            "sheet_parts"]
@@ -99,8 +102,6 @@ def write_with_cached_values(wb: Any, path: str | os.PathLike,
 
 def formula_cells(path: str | os.PathLike) -> dict[tuple[str, str], str]:
     """Map ``(sheet title, cell)`` to the formula text (with leading '=') of every formula cell."""
-    from openpyxl import load_workbook
-
     wb = load_workbook(path, data_only=False)
     try:
         out: dict[tuple[str, str], str] = {}

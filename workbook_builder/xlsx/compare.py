@@ -23,6 +23,9 @@ import os
 from pathlib import Path
 from typing import Any, Iterable
 
+from openpyxl import load_workbook
+from openpyxl.utils import get_column_letter
+
 __all__ = ["compare_workbooks", "assert_workbooks_equal"]
 
 _TIMESTAMPS = {"created", "modified", "lastPrinted"}
@@ -89,8 +92,6 @@ def _diff_mapping(where: str, what: str, a: dict, b: dict) -> list[str]:
 
 
 def _compare_sheet(name: str, fa: Any, fb: Any, va: Any, vb: Any, rel_tol: float) -> list[str]:
-    from openpyxl.utils import get_column_letter
-
     out: list[str] = []
     ca, cb = _cells(fa), _cells(fb)
     cva, cvb = _cells(va), _cells(vb)
@@ -169,8 +170,6 @@ def compare_workbooks(a: str | os.PathLike, b: str | os.PathLike, *, rel_tol: fl
     FileNotFoundError
         When either file does not exist.
     """
-    from openpyxl import load_workbook
-
     for p in (a, b):
         if not Path(p).is_file():
             raise FileNotFoundError(f"workbook not found: {p}")

@@ -310,7 +310,7 @@ def check_formula(formula: str) -> None:
     >>> check_formula("=LET(x,1,x)")
     Traceback (most recent call last):
     ...
-    workbook_builder.formulas.FormulaError: formula '=LET(x,1,x)' uses LET, not in the allowed set
+    workbook_builder.xlsx.formulas.FormulaError: formula '=LET(x,1,x)' uses LET, not in the allowed set
     """
     text = formula[1:] if formula.startswith("=") else formula
     if len(text) > MAX_FORMULA_LENGTH:
@@ -546,7 +546,7 @@ class Evaluator:
             ws = self.wb[title]
             sheet_values = {}
             cells = getattr(ws, "cells", None)
-            if isinstance(cells, dict):           # xlsx_package.Sheet: (row, column) -> cell
+            if isinstance(cells, dict):           # package.Sheet: (row, column) -> cell
                 ordered = [cells[k] for k in sorted(cells)]
             else:
                 ordered = [cell for row in ws.iter_rows() for cell in row]

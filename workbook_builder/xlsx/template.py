@@ -32,6 +32,11 @@ import re
 from pathlib import Path
 from typing import Any, Mapping
 
+from openpyxl import load_workbook
+from openpyxl.styles import Alignment, Border, Font, PatternFill, Side
+from openpyxl.utils.cell import absolute_coordinate, coordinate_to_tuple, quote_sheetname
+from openpyxl.workbook.defined_name import DefinedName
+
 __all__ = ["TITLE_BLOCK_NAMES", "FIELD_LABELS", "open_template", "template_fields",
            "unfilled_fields", "add_default_title_block", "set_text"]
 
@@ -151,8 +156,6 @@ def open_template(path: str | os.PathLike, fields: Mapping[str, Any], *,
         For a file that is not an .xlsx workbook, an unknown field key, a value a cell cannot hold,
         a defined name that does not point at a cell, or (``strict``) an unmarked field.
     """
-    from openpyxl import load_workbook
-
     p = Path(path)
     if not p.is_file():
         raise FileNotFoundError(f"template workbook not found: {p}")
@@ -195,10 +198,6 @@ def add_default_title_block(ws: Any, fields: Mapping[str, Any], top_left: str = 
     ValueError
         For an unknown field key, a value a cell cannot hold, or names already defined.
     """
-    from openpyxl.styles import Alignment, Border, Font, PatternFill, Side
-    from openpyxl.utils.cell import absolute_coordinate, coordinate_to_tuple, quote_sheetname
-    from openpyxl.workbook.defined_name import DefinedName
-
     _check_keys(fields)
     texts = {k: _field_text(k, v) for k, v in fields.items() if v is not None}
     row, col = coordinate_to_tuple(top_left.replace("$", ""))

@@ -1,5 +1,5 @@
 # SPDX-License-Identifier: MIT
-"""LibreOffice headless: recalculation, PDF export, print layout and error scan.
+"""LibreOffice headless: recalculation, PDF export, reading values back and error scan.
 
 Every conversion runs ``soffice --headless --convert-to ...`` with
 
@@ -28,6 +28,10 @@ import tempfile
 from pathlib import Path
 from typing import Any, Iterable
 
+from openpyxl import load_workbook
+
+from .files import atomic_path
+
 __all__ = [
     "OfficeError",
     "find_soffice",
@@ -35,7 +39,6 @@ __all__ = [
     "export_pdf",
     "convert",
     "convert_many",
-    "set_print_layout",
     "read_values",
     "find_error_cells",
     "is_error_value",
@@ -213,8 +216,6 @@ def convert_many(paths: Iterable[str | os.PathLike], outdir: str | os.PathLike,
             raise OfficeError(f"LibreOffice produced no {ext} file from {shown} "
                               f"(exit status {result.returncode}): {detail}")
         # Move into place atomically (temporary file next to the destination, then os.replace).
-        from .atomic import atomic_path
-
         for dest in dests:
             with atomic_path(dest) as staging:
                 shutil.copyfile(work_out / dest.name, staging)
@@ -244,7 +245,8 @@ def export_pdf(path: str | os.PathLike, outdir: str | os.PathLike, timeout: floa
     """Export a workbook to PDF through LibreOffice headless; return the PDF path.
 
     Formulas are recalculated first. Page size, orientation, print areas, repeated title rows and
-    fit-to-width come from the workbook itself (see :func:`set_print_layout`).
+    fit-to-width come from the workbook itself (see
+    :func:`workbook_builder.xlsx.page_setup.set_print_layout`).
 
     Raises
     ------
@@ -253,58 +255,6 @@ def export_pdf(path: str | os.PathLike, outdir: str | os.PathLike, timeout: floa
     """
     return convert(path, outdir, "pdf:calc_pdf_Export", timeout=timeout, recalc=recalc,
                    soffice=soffice)
-
-
-def set_print_layout(ws: Any, paper: str = "A4", landscape: bool = False,
-                     title_rows: str | tuple[int, int] | None = None, *,
-                     print_area: str | None = None, fit_to_width: bool = True,
-                     margins_in: float = 0.6, footer: bool = True) -> None:
-    """Lay out an openpyxl worksheet for filing: paper, fit to width, titles, footer.
-
-    ``paper`` is ``"A4"`` or ``"Letter"``; ``title_rows`` repeats rows at the top of each page
-    (``"1:3"`` or ``(1, 3)``); ``print_area`` defaults to the used range of the sheet. With
-    ``fit_to_width`` the sheet is scaled to one page wide and as many pages tall as needed. With
-    ``footer`` each page shows the sheet name and "Page n of N" (header/footer codes &A, &P, &N).
-
-    Raises
-    ------
-    ValueError
-        For an unknown paper name or malformed title rows.
-    """
-    sizes = {"A4": ws.PAPERSIZE_A4, "LETTER": ws.PAPERSIZE_LETTER}
-    key = str(paper).upper()
-    if key not in sizes:
-        raise ValueError(f"paper={paper!r} must be one of ['A4', 'Letter']")
-    ws.page_setup.paperSize = sizes[key]
-    ws.page_setup.orientation = "landscape" if landscape else "portrait"
-    if fit_to_width:
-        ws.sheet_properties.pageSetUpPr.fitToPage = True
-        ws.page_setup.fitToWidth = 1
-        ws.page_setup.fitToHeight = 0
-    else:
-        ws.sheet_properties.pageSetUpPr.fitToPage = False
-    if title_rows is not None:
-        if isinstance(title_rows, tuple):
-            first, last = title_rows
-        else:
-            m = re.fullmatch(r"\$?(\d+):\$?(\d+)", str(title_rows).strip())
-            if not m:
-                raise ValueError(f"title_rows={title_rows!r} must look like '1:3' or (1, 3)")
-            first, last = int(m.group(1)), int(m.group(2))
-        if not (isinstance(first, int) and isinstance(last, int) and 1 <= first <= last):
-            raise ValueError(f"title_rows={title_rows!r} must be rows first <= last, from 1")
-        ws.print_title_rows = f"{first}:{last}"
-    ws.print_area = print_area or ws.dimensions
-    for side in ("left", "right"):
-        setattr(ws.page_margins, side, margins_in)
-    ws.page_margins.top = ws.page_margins.bottom = margins_in + 0.15
-    ws.page_margins.header = ws.page_margins.footer = 0.3
-    ws.print_options.horizontalCentered = False
-    if footer:
-        ws.oddFooter.left.text = "&A"
-        ws.oddFooter.right.text = "Page &P of &N"
-        ws.evenFooter.left.text = "&A"
-        ws.evenFooter.right.text = "Page &P of &N"
 
 
 def is_error_value(value: Any, data_type: str | None = None) -> bool:
@@ -320,8 +270,6 @@ def read_values(path: str | os.PathLike) -> dict[tuple[str, str], Any]:
     Returns a dict ``(sheet title, "A1") -> value`` read with openpyxl ``data_only=True``; formula
     cells without a cached value read as None and are included.
     """
-    from openpyxl import load_workbook
-
     wb = load_workbook(path, data_only=True)
     try:
         out: dict[tuple[str, str], Any] = {}
@@ -338,8 +286,6 @@ def read_values(path: str | os.PathLike) -> dict[tuple[str, str], Any]:
 
 def _formula_coordinates(path: str | os.PathLike) -> set[tuple[str, str]]:
     """(sheet, coordinate) of every formula cell, read with openpyxl (formulas kept)."""
-    from openpyxl import load_workbook
-
     wb = load_workbook(path, data_only=False)
     try:
         return {(ws.title, c.coordinate) for ws in wb.worksheets for row in ws.iter_rows()
@@ -357,8 +303,6 @@ def find_error_cells(path: str | os.PathLike, *, include_text: bool = True,
     that reads exactly like an error code (``#NAME?``, ``Err:502``) counts too, because some
     applications store errors that way. Order: sheet order, then row by row.
     """
-    from openpyxl import load_workbook
-
     wanted = None if sheets is None else set(sheets)
     wb = load_workbook(path, data_only=True)
     try:

@@ -1,20 +1,30 @@
 # SPDX-License-Identifier: MIT
-"""Atomic file writes and a guard against overwriting workbooks swaytune did not make.
+"""Atomic file writes and the guards against overwriting workbooks a person may need.
 
 A workbook written by swaytune carries a custom document property ``SwaytuneGenerator`` (value
 ``"swaytune <version>"``) and, as a second marker that survives applications which drop custom
 properties, a hidden workbook-scoped defined name ``SWAYTUNE_GENERATOR``. :func:`guard_overwrite`
 refuses to replace an existing file that carries neither, unless ``force=True``: an engineer's own
 hand-made workbook is never lost to a mistyped ``-o``.
+
+A workbook swaytune built also carries the SHA-256 :func:`content_digest` of its cells in the
+custom document property ``SwaytuneContentDigest`` (:func:`set_digest`); :func:`guard_hand_edits`
+refuses to replace one whose cells no longer match it (edited by hand, or saved by another
+application), unless ``force=True``.
 """
 from __future__ import annotations
 
 import contextlib
+import hashlib
 import os
 import tempfile
 import zipfile
 from pathlib import Path
 from typing import Any, Iterator
+
+from openpyxl import load_workbook
+from openpyxl.packaging.custom import StringProperty
+from openpyxl.workbook.defined_name import DefinedName
 
 __all__ = [
     "MARKER_PROPERTY",
@@ -26,6 +36,10 @@ __all__ = [
     "guard_overwrite",
     "save_workbook",
     "new_file_mode",
+    "DIGEST_PROPERTY",
+    "content_digest",
+    "set_digest",
+    "guard_hand_edits",
 ]
 
 MARKER_PROPERTY = "SwaytuneGenerator"
@@ -85,9 +99,6 @@ def atomic_path(dest: str | os.PathLike) -> Iterator[Path]:
 
 def mark_workbook(wb: Any, version: str) -> None:
     """Mark an openpyxl workbook as produced by swaytune ``version`` (both markers)."""
-    from openpyxl.packaging.custom import StringProperty
-    from openpyxl.workbook.defined_name import DefinedName
-
     text = f"swaytune {version}"
     props = wb.custom_doc_props
     for prop in list(props.props):
@@ -141,3 +152,69 @@ def save_workbook(wb: Any, path: str | os.PathLike, *, force: bool = False) -> P
     with atomic_path(path) as tmp:
         wb.save(tmp)
     return Path(path)
+
+
+#: Custom document property holding :func:`content_digest` of the workbook as built.
+DIGEST_PROPERTY = "SwaytuneContentDigest"
+
+
+def content_digest(wb: Any) -> str:
+    """SHA-256 of every cell's type and value or formula (not cached values, not styles).
+
+    The same for the workbook in memory and as read back from the saved file, so a rebuild can
+    tell whether a file swaytune wrote was changed afterwards.
+    """
+    h = hashlib.sha256()
+    for ws in wb.worksheets:
+        h.update(ws.title.encode("utf-8") + b"\0")
+        for row in ws.iter_rows():
+            for c in row:
+                v = c.value
+                if v is None or v == "":
+                    continue
+                if isinstance(v, bool):
+                    text = f"b{v}"
+                elif isinstance(v, (int, float)):
+                    text = f"n{float(v):.16g}"      # openpyxl stores 16 significant digits
+                else:
+                    text = f"{c.data_type}{v}"
+                h.update(f"{c.coordinate}\0{text}\0".encode("utf-8"))
+    return h.hexdigest()
+
+
+def set_digest(wb: Any) -> None:
+    """Store :func:`content_digest` of an openpyxl workbook in :data:`DIGEST_PROPERTY`.
+
+    Call it last, just before saving: :func:`guard_hand_edits` compares the digest with the
+    cells of the saved file.
+    """
+    props = wb.custom_doc_props
+    for prop in list(props.props):
+        if prop.name == DIGEST_PROPERTY:
+            props.props.remove(prop)
+    props.append(StringProperty(name=DIGEST_PROPERTY, value=content_digest(wb)))
+
+
+def guard_hand_edits(path: str | os.PathLike, force: bool = False) -> None:
+    """Refuse to replace a swaytune workbook that was changed after it was built.
+
+    Raises
+    ------
+    OverwriteRefused
+        When ``path`` carries a content digest that no longer matches its cells (edited, or
+        saved by another application), unless ``force``.
+    """
+    p = Path(path)
+    if force or not p.is_file():
+        return
+    try:
+        wb = load_workbook(p)
+    except Exception:           # not readable as a workbook: guard_overwrite decides
+        return
+    stored = next((prop.value for prop in wb.custom_doc_props.props
+                   if prop.name == DIGEST_PROPERTY), None)
+    if stored is not None and stored != content_digest(wb):
+        raise OverwriteRefused(
+            f"{p} was changed after swaytune built it (edited, or saved by another "
+            "application); refusing to overwrite it (choose another output name, or force "
+            "the overwrite)")
