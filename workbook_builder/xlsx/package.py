@@ -160,6 +160,20 @@ class Book:
             return None
         return sheet, ref
 
+    def name_range(self, name: str) -> tuple[str, list[Cell]] | None:
+        """The sheet and the cells (row by row) of a name that refers to a range."""
+        dn = self.defined_names.get(name)
+        if dn is None:
+            return None
+        dests = list(dn.destinations)
+        if len(dests) != 1 or dests[0][0] not in self.sheets:
+            return None
+        sheet, ref = dests[0]
+        first, _, last = ref.replace("$", "").upper().partition(":")
+        (r1, c1), (r2, c2) = split_coord(first), split_coord(last or first)
+        ws = self.sheets[sheet]
+        return sheet, [ws.cell(r, c) for r in range(r1, r2 + 1) for c in range(c1, c2 + 1)]
+
     def named(self, name: str) -> Cell | None:
         loc = self.name_cell(name)
         return None if loc is None else self.sheets[loc[0]].get(loc[1])
