@@ -320,8 +320,9 @@ DESIGN_RESULTS: tuple[Quantity, ...] = (
        fmt="0.000000", summary=True,
        description="Frequency at the design swing over frequency at small swings, minus 1"),
     _q("stiffness", "k_d", "Equivalent spring stiffness", "N/m", "stiffness", fmt="#,##0",
+       summary=True,
        description="Equivalent stiffness of the damper, m_d (2 pi f_d)^2"),
-    _q("dashpot", "c_d", "Dashpot constant", "N s/m", "dashpot", fmt="#,##0",
+    _q("dashpot", "c_d", "Dashpot constant", "N s/m", "dashpot", fmt="#,##0", summary=True,
        description="Damping coefficient of the damper, 2 m_d (2 pi f_d) zeta_d"),
 )
 

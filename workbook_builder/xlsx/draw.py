@@ -74,8 +74,8 @@ def _look(cell: Any, style: str) -> None:
         cell.alignment = Alignment(wrap_text=True, vertical="center")
     elif "tb_value" in tokens:
         cell.alignment = Alignment(vertical="center")
-    elif "top" in tokens:
-        cell.alignment = Alignment(vertical="top")
+    elif "top" in tokens or "box" in tokens:
+        cell.alignment = Alignment(vertical="top")      # table rows read from their top
 
 
 def _write(cell: Any, value: Any, where: str) -> None:

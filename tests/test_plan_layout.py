@@ -1,0 +1,96 @@
+# SPDX-License-Identifier: MIT
+"""The workbook plan: complete, self-consistent and independent of the numbers."""
+from __future__ import annotations
+
+import itertools
+
+import pytest
+
+from functions.chain import MASS_RATIO_MODES
+from functions.damper import OPTIMAL_TUNING_METHODS
+from functions.quantities import DESIGN_INPUTS
+from functions.worksheet import formula_names
+from workbook_builder.plan import PLAN_VERSION, PlanOptions, make_plan
+from workbook_builder.plan.inputs import entered_name, factor_name, unit_name
+from workbook_builder.plan.layout import SHEETS
+from workbook_builder.plan.model import REFRESHED_SOURCES, Cell
+from workbook_builder.xlsx.formulas import check_formula
+
+NUMERIC = tuple(q.name for q in DESIGN_INPUTS if q.kind != "choice")
+
+
+def _inputs(mode: str, floors: int) -> tuple[str, ...]:
+    drop = {"chosen_mass_ratio": {"damper_mass"}, "chosen_damper_mass": {"mass_ratio"},
+            "required": {"mass_ratio", "damper_mass"}}[mode]
+    if floors:
+        drop = drop | {"modal_mass"}
+    return tuple(n for n in NUMERIC if n not in drop)
+
+
+OPTIONS = [PlanOptions(units=units, tuning_method=method, mass_ratio_mode=mode,
+                       inputs=_inputs(mode, floors), floors=floors, template=template,
+                       simulation=sim)
+           for method, mode, units, floors, template, sim in itertools.product(
+               OPTIMAL_TUNING_METHODS, MASS_RATIO_MODES, ("SI", "US"), (0, 4), (False, True),
+               (None, ("random", 50, 20), ("harmonic", 30, 10)))
+           if not (template and sim) and (method in ("h2", "den_hartog") or units == "SI")]
+
+
+@pytest.mark.parametrize("options", OPTIONS, ids=lambda o: f"{o.tuning_method}-{o.mass_ratio_mode}"
+                         f"-{o.units}-{o.floors}-{int(o.template)}-{(o.simulation or ['-'])[0]}")
+def test_plan_is_consistent(options):
+    plan = make_plan(options)
+    names = set(plan.names()) | set(plan.range_names())
+    assert [s.title for s in plan.sheets] == [t for t in SHEETS
+                                              if t != "Nonlinear" or options.simulation]
+    for sheet, cell in plan.cells():
+        if cell.kind in ("formula", "check"):
+            check_formula(cell.content)
+            unknown = set(formula_names(cell.content)) - names
+            assert not unknown, f"{sheet}!{cell.ref} {cell.content} reads undefined {unknown}"
+        if cell.kind == "engine" and cell.source[0] in REFRESHED_SOURCES:
+            # recalculation writes it through a name or a named range
+            assert cell.name or any(sheet == s for s, _ in plan.range_names().values())
+    for name in options.inputs:
+        q = next(q for q in DESIGN_INPUTS if q.name == name)
+        for n in (q.cell_name, entered_name(q.cell_name), unit_name(q.cell_name),
+                  factor_name(q.cell_name)):
+            assert n in names, n
+    for sheet in plan.sheets:
+        for v in sheet.validations:
+            check_formula(v.formula)
+
+
+def test_same_options_same_plan_and_json_round_trip():
+    o = OPTIONS[5]
+    assert PlanOptions.from_json(o.to_json()) == o
+    assert make_plan(o) is make_plan(PlanOptions.from_json(o.to_json()))
+    assert o.version == PLAN_VERSION
+
+
+@pytest.mark.parametrize("text, match", [
+    ("not json", "is not JSON"),
+    ('{"colour": 1}', "does not hold the options"),
+    ('{"tuning_method": "best"}', "tuning_method='best' must be one of"),
+])
+def test_bad_options_are_refused(text, match):
+    with pytest.raises(ValueError, match=match):
+        PlanOptions.from_json(text)
+
+
+def test_cell_kinds_are_checked():
+    with pytest.raises(ValueError, match="kind='colour' must be one of"):
+        Cell("A1", "colour")
+    with pytest.raises(ValueError, match="a formula cell needs a formula"):
+        Cell("A1", "formula", "1+1")
+
+
+def test_every_engine_value_of_the_chain_is_flagged():
+    plan = make_plan(PlanOptions(tuning_method="hinf", mass_ratio_mode="required",
+                                 inputs=_inputs("required", 0)))
+    names = plan.names()
+    for flag, deps in (("engine_flag_mass_ratio", ("required_damping", "structural_damping")),
+                       ("engine_flag_tuning", ("mass_ratio", "structural_damping"))):
+        assert flag in names and f"{flag}_ok" in names
+        for dep in deps:
+            assert f"{flag}_{dep}" in names
