@@ -33,11 +33,11 @@ inputs and results, every check verdict, what changed since the last calculation
 The package is read by :mod:`workbook_builder.xlsx.package` (standard library zip reader and
 XML parser; DTDs and entity declarations refused, limits on member sizes; untrusted files are
 never opened with a parser that resolves entities; :func:`assert_defusedxml` checks that
-openpyxl itself runs with defusedxml) and written by :mod:`workbook_builder.xlsx.rewrite`. The builder's layout and the comparison of formulas
-are in :mod:`workbook_builder.recalc_layout`, the batch summary in
-:mod:`workbook_builder.recalc_summary`. A workbook's format mark (``SWAYTUNE_FORMAT``,
-:data:`workbook_builder.build.FORMAT_VERSION`) newer than the builder's is refused, an older
-one (or none: format 1) is reported.
+openpyxl itself runs with defusedxml) and written by :mod:`workbook_builder.xlsx.rewrite`. The
+builder's layout and the comparison of formulas are in :mod:`workbook_builder.recalc_layout`,
+the batch summary in :mod:`workbook_builder.recalc_summary`. A workbook's format mark
+(``SWAYTUNE_FORMAT``, :data:`workbook_builder.build.FORMAT_VERSION`) newer than the builder's
+is refused, an older one (or none: format 1) is reported.
 
 Preliminary design aid: results must be checked by a licensed engineer against local codes,
 wind-tunnel data and the manufacturer's design.
