@@ -1,13 +1,19 @@
 # SPDX-License-Identifier: MIT
-"""Atomic writes and the overwrite guard for workbooks swaytune did not make."""
+"""Atomic writes, the overwrite guard for workbooks swaytune did not make, and the guard
+against replacing a workbook edited after it was built (content digest).
+
+Behaviour tests of our own rules: common practice, no source.
+"""
 from __future__ import annotations
 
 import openpyxl
 import pytest
+from openpyxl.styles import Font
 
-from workbook_builder.xlsx.files import (MARKER_NAME, OverwriteRefused, atomic_path,
+from workbook_builder.xlsx.files import (DIGEST_PROPERTY, MARKER_NAME, OverwriteRefused,
+                                         atomic_path, content_digest, guard_hand_edits,
                                          guard_overwrite, is_swaytune_workbook, mark_workbook,
-                                         save_workbook)
+                                         save_workbook, set_digest)
 
 
 def test_atomic_path_failure_leaves_destination(tmp_path):
@@ -85,3 +91,57 @@ def test_new_files_get_usual_mode_and_replacements_keep_theirs(tmp_path):
         assert stat.S_IMODE(new.stat().st_mode) == 0o640
     finally:
         os.umask(mask)
+
+
+# ----------------------------------------------------------------------------- hand-edit guard
+def _digest_book():
+    wb = openpyxl.Workbook()
+    ws = wb.active
+    ws.title = "Calculation"
+    ws["A1"], ws["B1"], ws["C1"], ws["D1"] = "Period", 2.5, "=B1*2", True
+    return wb
+
+
+def test_digest_is_the_same_in_memory_and_read_back(tmp_path):
+    wb = _digest_book()
+    set_digest(wb)
+    set_digest(wb)                          # setting again replaces, never duplicates
+    wb.save(tmp_path / "d.xlsx")
+    back = openpyxl.load_workbook(tmp_path / "d.xlsx")
+    stored = [p.value for p in back.custom_doc_props.props if p.name == DIGEST_PROPERTY]
+    assert stored == [content_digest(wb)] == [content_digest(back)]
+    assert len(stored[0]) == 64             # SHA-256, hexadecimal
+
+
+def test_digest_follows_values_and_formulas_not_styles():
+    base = content_digest(_digest_book())
+    styled = _digest_book()
+    styled.active["B1"].font = Font(bold=True)
+    styled.active["B1"].number_format = "0.000"
+    assert content_digest(styled) == base
+    for coord, value in (("B1", 2.6), ("C1", "=B1*3"), ("D1", False), ("E9", "note")):
+        edited = _digest_book()
+        edited.active[coord] = value
+        assert content_digest(edited) != base, coord
+
+
+def test_guard_hand_edits_refuses_an_edited_workbook_unless_forced(tmp_path):
+    path = tmp_path / "ours.xlsx"
+    wb = _digest_book()
+    set_digest(wb)
+    wb.save(path)
+    guard_hand_edits(path)                  # unchanged: fine
+    back = openpyxl.load_workbook(path)
+    back["Calculation"]["B1"] = 3.0         # an engineer's edit, saved with the old digest
+    back.save(path)
+    with pytest.raises(OverwriteRefused, match=r"was changed after swaytune built it"):
+        guard_hand_edits(path)
+    guard_hand_edits(path, force=True)
+
+
+def test_guard_hand_edits_leaves_other_files_to_guard_overwrite(tmp_path):
+    guard_hand_edits(tmp_path / "new.xlsx")             # no file
+    openpyxl.Workbook().save(tmp_path / "plain.xlsx")
+    guard_hand_edits(tmp_path / "plain.xlsx")           # no digest
+    (tmp_path / "junk.xlsx").write_bytes(b"not a workbook")
+    guard_hand_edits(tmp_path / "junk.xlsx")            # not readable: guard_overwrite decides
