@@ -1,5 +1,5 @@
 # SPDX-License-Identifier: MIT
-"""Workbook builder: formulas, cached values, names, protection, overwrite guard, CLI.
+"""Workbook builder: formulas, cached values, names, protection, CLI.
 
 Reference values come from the engine (functions/), which has its own tests against published
 sources; here the builder's native formulas and cached values must agree with it.
@@ -16,12 +16,13 @@ import pytest
 from openpyxl.utils import get_column_letter
 
 from workbook_builder import cli
-from workbook_builder.xlsx.files import OverwriteRefused
 from workbook_builder.build import CAUTIONS, BuildError, _Sheet, build_workbook, write_workbook
 from workbook_builder.calcsheet import CROSS_CHECK_TOLERANCE, INPUT_NAMES, all_steps
 from workbook_builder.xlsx.formulas import (ALLOWED_FUNCTIONS, Evaluator, check_formula,
                                             functions_used)
 from workbook_builder.project import load_project
+
+from workbook_cases import MINIMAL
 
 EXAMPLES = Path(__file__).resolve().parent.parent / "example_workbooks"
 EXAMPLE_NAMES = ["residential_tower", "observation_mast", "office_tower_us"]
@@ -30,26 +31,6 @@ RESULTS = ["required_damping", "mass_ratio", "damper_mass", "tuning_ratio", "dam
            "acceleration_with_damper", "structure_displacement", "stroke_ratio", "stroke",
            "pendulum_length", "swing_angle_deg", "small_angle_error", "detuning", "stiffness",
            "dashpot"]
-
-MINIMAL = """\
-[project]
-number = "T-1"
-title = "=1+1"
-notes = "=SUM(A1:A3) stays text"
-
-[mode]
-frequency = 0.2
-modal_mass = { value = 10000, unit = "t" }
-structural_damping = 0.01
-
-[wind]
-acceleration = 0.25
-acceleration_limit = 0.15
-
-[damper]
-mass_ratio = 0.02
-clearance = 1.5
-"""
 
 
 # ----------------------------------------------------------------------------- formulas
@@ -268,25 +249,8 @@ def test_chosen_mass_ratio_chain_recomputes_exactly(tmp_path):
     assert ev.evaluate("=Checks!G5", "Checks") == ("OK" if new.stroke <= 0.1 else "NOT OK")
 
 
-# ----------------------------------------------------------------------------- overwrite guard
-def test_never_overwrites_a_foreign_file(tmp_path):
-    src = tmp_path / "p.toml"
-    src.write_text(MINIMAL, encoding="utf-8")
-    project = load_project(src)
-    foreign = tmp_path / "mine.xlsx"
-    wb = openpyxl.Workbook()
-    wb.active["A1"] = "hand-made"
-    wb.save(foreign)
-    before = foreign.read_bytes()
-    with pytest.raises(OverwriteRefused, match=r"was not produced by swaytune"):
-        write_workbook(project, foreign)
-    assert foreign.read_bytes() == before
-    write_workbook(project, foreign, force=True)
-    assert openpyxl.load_workbook(foreign)["Summary"] is not None
-    write_workbook(project, foreign)          # ours now: rebuilding over it is fine
-    assert not list(tmp_path.glob("*.tmp"))   # atomic write left nothing behind
-
-
+# ----------------------------------------------------------------------------- written file
+# (the overwrite and hand-edit guards of write_workbook: tests/test_xlsx_files.py)
 def test_written_file_is_a_valid_package(built):
     _, path = built["observation_mast"]
     with zipfile.ZipFile(path) as zf:
@@ -470,27 +434,6 @@ def test_engine_refusal_is_reported_with_the_source(tmp_path, capsys):
     assert cli.main(["build", str(src)]) == 1
     assert "no damper is required" in capsys.readouterr().err
     assert not (tmp_path / "calm.xlsx").exists()
-
-
-def test_refuses_to_overwrite_a_workbook_changed_after_the_build(tmp_path):
-    from workbook_builder.xlsx.files import DIGEST_PROPERTY, content_digest
-    src = tmp_path / "p.toml"
-    src.write_text(MINIMAL, encoding="utf-8")
-    project = load_project(src)
-    out = tmp_path / "p.xlsx"
-    b = write_workbook(project, out)
-    wb = openpyxl.load_workbook(out)
-    stored = [p.value for p in wb.custom_doc_props.props if p.name == DIGEST_PROPERTY]
-    assert stored == [content_digest(wb)]            # digest of the cells as read back
-    write_workbook(project, out)                     # unchanged: rebuilding is fine
-    sheet, coord = b.names["clearance"]
-    wb[sheet]["I5"] = "checked by hand, see my note"  # an engineer's edit
-    wb.save(out)
-    before = out.read_bytes()
-    with pytest.raises(OverwriteRefused, match=r"was changed after swaytune built it"):
-        write_workbook(project, out)
-    assert out.read_bytes() == before
-    write_workbook(project, out, force=True)
 
 
 # ----------------------------------------------------------------------------- precision

@@ -10,10 +10,14 @@ import openpyxl
 import pytest
 from openpyxl.styles import Font
 
+from workbook_builder.build import write_workbook
+from workbook_builder.project import load_project
 from workbook_builder.xlsx.files import (DIGEST_PROPERTY, MARKER_NAME, OverwriteRefused,
                                          atomic_path, content_digest, guard_hand_edits,
                                          guard_overwrite, is_swaytune_workbook, mark_workbook,
                                          save_workbook, set_digest)
+
+from workbook_cases import MINIMAL
 
 
 def test_atomic_path_failure_leaves_destination(tmp_path):
@@ -145,3 +149,42 @@ def test_guard_hand_edits_leaves_other_files_to_guard_overwrite(tmp_path):
     guard_hand_edits(tmp_path / "plain.xlsx")           # no digest
     (tmp_path / "junk.xlsx").write_bytes(b"not a workbook")
     guard_hand_edits(tmp_path / "junk.xlsx")            # not readable: guard_overwrite decides
+
+
+# ----------------------------------------------------------------------------- through the builder
+def test_never_overwrites_a_foreign_file(tmp_path):
+    src = tmp_path / "p.toml"
+    src.write_text(MINIMAL, encoding="utf-8")
+    project = load_project(src)
+    foreign = tmp_path / "mine.xlsx"
+    wb = openpyxl.Workbook()
+    wb.active["A1"] = "hand-made"
+    wb.save(foreign)
+    before = foreign.read_bytes()
+    with pytest.raises(OverwriteRefused, match=r"was not produced by swaytune"):
+        write_workbook(project, foreign)
+    assert foreign.read_bytes() == before
+    write_workbook(project, foreign, force=True)
+    assert openpyxl.load_workbook(foreign)["Summary"] is not None
+    write_workbook(project, foreign)          # ours now: rebuilding over it is fine
+    assert not list(tmp_path.glob("*.tmp"))   # atomic write left nothing behind
+
+
+def test_refuses_to_overwrite_a_workbook_changed_after_the_build(tmp_path):
+    src = tmp_path / "p.toml"
+    src.write_text(MINIMAL, encoding="utf-8")
+    project = load_project(src)
+    out = tmp_path / "p.xlsx"
+    b = write_workbook(project, out)
+    wb = openpyxl.load_workbook(out)
+    stored = [p.value for p in wb.custom_doc_props.props if p.name == DIGEST_PROPERTY]
+    assert stored == [content_digest(wb)]            # digest of the cells as read back
+    write_workbook(project, out)                     # unchanged: rebuilding is fine
+    sheet, coord = b.names["clearance"]
+    wb[sheet]["I5"] = "checked by hand, see my note"  # an engineer's edit
+    wb.save(out)
+    before = out.read_bytes()
+    with pytest.raises(OverwriteRefused, match=r"was changed after swaytune built it"):
+        write_workbook(project, out)
+    assert out.read_bytes() == before
+    write_workbook(project, out, force=True)

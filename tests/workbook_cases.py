@@ -14,6 +14,27 @@ from workbook_builder.project import load_project
 EXAMPLES = Path(__file__).resolve().parent.parent / "example_workbooks"
 NAMES = ["residential_tower", "observation_mast", "office_tower_us"]
 
+#: A small project (invented); its title and notes look like formulas and must stay text.
+MINIMAL = """\
+[project]
+number = "T-1"
+title = "=1+1"
+notes = "=SUM(A1:A3) stays text"
+
+[mode]
+frequency = 0.2
+modal_mass = { value = 10000, unit = "t" }
+structural_damping = 0.01
+
+[wind]
+acceleration = 0.25
+acceleration_limit = 0.15
+
+[damper]
+mass_ratio = 0.02
+clearance = 1.5
+"""
+
 DEN_HARTOG = {
     "project": {"number": "T-6", "title": "Recalc test (invented)"},
     "mode": {"frequency": 0.2, "modal_mass": {"value": 9000, "unit": "t"},
