@@ -37,7 +37,8 @@ from pathlib import Path
 ROOT = Path(__file__).resolve().parent.parent
 sys.path.insert(0, str(ROOT))
 
-from workbook_builder import office, recalc, xlsx_package  # noqa: E402
+from workbook_builder import recalc  # noqa: E402
+from workbook_builder.xlsx import libreoffice, package  # noqa: E402
 from workbook_builder.build import write_workbook  # noqa: E402
 from workbook_builder.project import load_project, parse_project  # noqa: E402
 
@@ -86,18 +87,18 @@ def generate(folder: Path, n: int) -> list[Path]:
 
 def libreoffice_batch(files: list[Path], outdir: Path, timeout: float) -> float:
     """Recalculate every file in ONE soffice process; return the wall time [s]."""
-    if office.find_soffice() is None:
+    if libreoffice.find_soffice() is None:
         raise SystemExit("LibreOffice (soffice) not found: cannot run the comparison")
     t0 = time.perf_counter()
-    # office.convert_many: one soffice process, private profile with OOXMLRecalcMode=0 (always
-    # recalculate on load), macros off, every output checked.
-    office.convert_many(files, outdir, "xlsx:Calc MS Excel 2007 XML", timeout=timeout)
+    # libreoffice.convert_many: one soffice process, private profile with OOXMLRecalcMode=0
+    # (always recalculate on load), macros off, every output checked.
+    libreoffice.convert_many(files, outdir, "xlsx:Calc MS Excel 2007 XML", timeout=timeout)
     return time.perf_counter() - t0
 
 
 def values(path: Path) -> dict[tuple[str, str], float]:
     """Numeric values (cached values of formulas, constants) of the compared sheets."""
-    book = xlsx_package.open_package(path)
+    book = package.open_package(path)
     out = {}
     for title in SHEETS:
         if title not in book.sheets:
@@ -111,12 +112,12 @@ def values(path: Path) -> dict[tuple[str, str], float]:
 
 def error_cells(path: Path) -> list[str]:
     """Cells whose stored value is a spreadsheet error (is it an error, not which one)."""
-    book = xlsx_package.open_package(path)
+    book = package.open_package(path)
     out = []
     for title, sheet in book.sheets.items():
         for cell in sheet.cells.values():
             v = cell.cached if cell.data_type == "f" else cell.value
-            if cell.cached_type == "e" or office.is_error_value(v):
+            if cell.cached_type == "e" or libreoffice.is_error_value(v):
                 out.append(f"{path.name} {title}!{cell.coordinate}={v}")
     return out
 

@@ -1,5 +1,5 @@
 # SPDX-License-Identifier: MIT
-"""Workbook builder: formulas, cached values, names, protection, overwrite guard, CLI.
+"""Workbook builder: formulas, cached values, names, protection, CLI.
 
 Reference values come from the engine (functions/), which has its own tests against published
 sources; here the builder's native formulas and cached values must agree with it.
@@ -16,12 +16,13 @@ import pytest
 from openpyxl.utils import get_column_letter
 
 from workbook_builder import cli
-from workbook_builder.xlsx.files import OverwriteRefused
 from workbook_builder.build import CAUTIONS, BuildError, _Sheet, build_workbook, write_workbook
 from workbook_builder.calcsheet import CROSS_CHECK_TOLERANCE, INPUT_NAMES, all_steps
-from workbook_builder.xlsx.formulas import (ALLOWED_FUNCTIONS, Evaluator, FormulaError,
-                                            check_formula, functions_used, is_error)
+from workbook_builder.xlsx.formulas import (ALLOWED_FUNCTIONS, Evaluator, check_formula,
+                                            functions_used)
 from workbook_builder.project import load_project
+
+from workbook_cases import MINIMAL
 
 EXAMPLES = Path(__file__).resolve().parent.parent / "example_workbooks"
 EXAMPLE_NAMES = ["residential_tower", "observation_mast", "office_tower_us"]
@@ -31,96 +32,8 @@ RESULTS = ["required_damping", "mass_ratio", "damper_mass", "tuning_ratio", "dam
            "pendulum_length", "swing_angle_deg", "small_angle_error", "detuning", "stiffness",
            "dashpot"]
 
-MINIMAL = """\
-[project]
-number = "T-1"
-title = "=1+1"
-notes = "=SUM(A1:A3) stays text"
-
-[mode]
-frequency = 0.2
-modal_mass = { value = 10000, unit = "t" }
-structural_damping = 0.01
-
-[wind]
-acceleration = 0.25
-acceleration_limit = 0.15
-
-[damper]
-mass_ratio = 0.02
-clearance = 1.5
-"""
-
-
-def _eval(formula: str, cells: dict | None = None):
-    wb = openpyxl.Workbook()
-    ws = wb.active
-    ws.title = "S"
-    for coord, value in (cells or {}).items():
-        ws[coord] = value
-    ws["Z99"] = formula
-    return Evaluator(wb).cell("S", 99, 26)
-
 
 # ----------------------------------------------------------------------------- formulas
-@pytest.mark.parametrize("formula, expected", [
-    # Excel operator precedence: negation before ^ (-2^2 = 4), ^ before * and / (Microsoft,
-    # "Calculation operators and precedence in Excel"); functions checked against Python's math.
-    ("=-2^2", 4.0),
-    ("=2^-1", 0.5),
-    ("=1+2*3^2", 19.0),
-    ("=(1+2)*3", 9.0),
-    ("=50%", 0.5),
-    ("=SQRT(2)", math.sqrt(2)),
-    ("=PI()", math.pi),
-    ("=DEGREES(ASIN(0.5))", 30.0),
-    ("=COS(RADIANS(60))", math.cos(math.radians(60))),
-    ("=ATAN2(1,2)", math.atan2(2, 1)),          # Excel's ATAN2 takes x first
-    ("=LN(EXP(2))", 2.0),
-    ("=POWER(2,10)", 1024.0),
-    ("=ABS(-3)", 3.0),
-    ("=MAX(1,5,3)", 5.0),
-    ("=MIN(A1:A3)", 1.0),
-    ("=SUMPRODUCT(A1:A3,POWER(A1:A3,2))", 1 + 8 + 27),
-    ("=INDEX(A1:A3,MATCH(2,A1:A3,0))", 2.0),
-    ('=IF(AND(A1<2,OR(A2>5,TRUE)),"OK","NOT OK")', "OK"),
-    ("=IFERROR(1/0,-1)", -1.0),
-    ("=ROUND(2.5,0)", 3.0),
-    ("=ROUND(-2.345,2)", -2.35),
-    ('="a"&"b"', "ab"),
-    ('=IF("ok"="OK",1,0)', 1.0),               # text comparison ignores case
-])
-def test_evaluator(formula, expected):
-    value = _eval(formula, {"A1": 1, "A2": 2, "A3": 3})
-    assert value == pytest.approx(expected, rel=1e-15) if isinstance(expected, float) \
-        else value == expected
-
-
-@pytest.mark.parametrize("formula", ["=1/0", "=SQRT(-1)", "=ASIN(2)", "=LN(0)", "=NOSUCH(1)",
-                                     "=missing_name+1", "=ATAN2(0,0)"])
-def test_evaluator_errors(formula):
-    assert is_error(_eval(formula))
-
-
-@pytest.mark.parametrize("formula, message", [
-    ("=LET(x,1,x)", r"uses LET, not in the allowed set"),
-    ("=XLOOKUP(1,A1:A3,B1:B3)", r"uses XLOOKUP"),
-    ("=IFS(A1>1,1)", r"uses IFS"),
-    ("=A1:A3*2", r"uses a range outside SUMPRODUCT"),
-    ("=MAX(A1:A3*2)", r"uses a range outside SUMPRODUCT"),
-    ("=SUMPRODUCT(IF(A1:A3>1,1,0))", r"uses a range outside SUMPRODUCT"),
-    ("=1+", r"ends too early"),
-    ("=SQRT(2", r"ends too early"),
-])
-def test_check_formula_refuses(formula, message):
-    with pytest.raises(FormulaError, match=message):
-        check_formula(formula)
-
-
-def test_functions_used():
-    assert functions_used("=SQRT(ABS(x))+IF(a>1,PI(),0)") == {"SQRT", "ABS", "IF", "PI"}
-
-
 @pytest.mark.parametrize("method", ["h2", "hinf", "den_hartog", "white_noise_force",
                                     "nishihara_asami", "harmonic_base", "white_noise_base"])
 @pytest.mark.parametrize("mode", ["chosen_mass_ratio", "chosen_damper_mass", "required"])
@@ -336,25 +249,8 @@ def test_chosen_mass_ratio_chain_recomputes_exactly(tmp_path):
     assert ev.evaluate("=Checks!G5", "Checks") == ("OK" if new.stroke <= 0.1 else "NOT OK")
 
 
-# ----------------------------------------------------------------------------- overwrite guard
-def test_never_overwrites_a_foreign_file(tmp_path):
-    src = tmp_path / "p.toml"
-    src.write_text(MINIMAL, encoding="utf-8")
-    project = load_project(src)
-    foreign = tmp_path / "mine.xlsx"
-    wb = openpyxl.Workbook()
-    wb.active["A1"] = "hand-made"
-    wb.save(foreign)
-    before = foreign.read_bytes()
-    with pytest.raises(OverwriteRefused, match=r"was not produced by swaytune"):
-        write_workbook(project, foreign)
-    assert foreign.read_bytes() == before
-    write_workbook(project, foreign, force=True)
-    assert openpyxl.load_workbook(foreign)["Summary"] is not None
-    write_workbook(project, foreign)          # ours now: rebuilding over it is fine
-    assert not list(tmp_path.glob("*.tmp"))   # atomic write left nothing behind
-
-
+# ----------------------------------------------------------------------------- written file
+# (the overwrite and hand-edit guards of write_workbook: tests/test_xlsx_files.py)
 def test_written_file_is_a_valid_package(built):
     _, path = built["observation_mast"]
     with zipfile.ZipFile(path) as zf:
@@ -538,27 +434,6 @@ def test_engine_refusal_is_reported_with_the_source(tmp_path, capsys):
     assert cli.main(["build", str(src)]) == 1
     assert "no damper is required" in capsys.readouterr().err
     assert not (tmp_path / "calm.xlsx").exists()
-
-
-def test_refuses_to_overwrite_a_workbook_changed_after_the_build(tmp_path):
-    from workbook_builder.xlsx.files import DIGEST_PROPERTY, content_digest
-    src = tmp_path / "p.toml"
-    src.write_text(MINIMAL, encoding="utf-8")
-    project = load_project(src)
-    out = tmp_path / "p.xlsx"
-    b = write_workbook(project, out)
-    wb = openpyxl.load_workbook(out)
-    stored = [p.value for p in wb.custom_doc_props.props if p.name == DIGEST_PROPERTY]
-    assert stored == [content_digest(wb)]            # digest of the cells as read back
-    write_workbook(project, out)                     # unchanged: rebuilding is fine
-    sheet, coord = b.names["clearance"]
-    wb[sheet]["I5"] = "checked by hand, see my note"  # an engineer's edit
-    wb.save(out)
-    before = out.read_bytes()
-    with pytest.raises(OverwriteRefused, match=r"was changed after swaytune built it"):
-        write_workbook(project, out)
-    assert out.read_bytes() == before
-    write_workbook(project, out, force=True)
 
 
 # ----------------------------------------------------------------------------- precision
@@ -819,20 +694,6 @@ def test_undefined_engine_values_are_shown_not_written_as_nan(harmonic):
 
 
 # ----------------------------------------------------------------------------- recalc support
-def test_evaluator_shares_a_parse_cache():
-    """Evaluator(parse_cache=...) fills and reuses the given cache; values do not change."""
-    cache: dict = {}
-    wb = openpyxl.Workbook()
-    ws = wb.active
-    ws.title = "S"
-    ws["A1"], ws["A2"] = 3.0, "=A1*2"
-    assert Evaluator(wb, parse_cache=cache).cell("S", 2, 1) == 6.0
-    assert "=A1*2" in cache
-    ws["A1"] = 4.0
-    assert Evaluator(wb, parse_cache=cache).cell("S", 2, 1) == 8.0     # text -> tree only
-    assert len(cache) == 1
-
-
 def test_format_mark_and_simulation_property(tmp_path):
     """SWAYTUNE_FORMAT holds FORMAT_VERSION; the [simulation] table travels as data."""
     import dataclasses

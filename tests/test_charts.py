@@ -17,11 +17,11 @@ from scipy.special import ellipk
 
 from functions import damper
 from workbook_builder import charts
-from workbook_builder.xlsx import libreoffice as office
+from workbook_builder.xlsx import libreoffice
 
 NS = {"c": "http://schemas.openxmlformats.org/drawingml/2006/chart",
       "a": "http://schemas.openxmlformats.org/drawingml/2006/main"}
-needs_soffice = pytest.mark.skipif(office.find_soffice() is None,
+needs_soffice = pytest.mark.skipif(libreoffice.find_soffice() is None,
                                    reason="LibreOffice (soffice) not installed")
 
 
@@ -259,7 +259,7 @@ def test_with_engine_design_result(method):
 @needs_soffice
 @pytest.mark.skipif(shutil.which("pdftoppm") is None, reason="pdftoppm not installed")
 def test_renders_to_pdf_and_png(saved, tmp_path):
-    pdf = office.export_pdf(saved, tmp_path)
+    pdf = libreoffice.export_pdf(saved, tmp_path)
     assert pdf.read_bytes().startswith(b"%PDF")
     subprocess.run(["pdftoppm", "-png", "-r", "60", "-f", "1", "-l", "1", str(pdf),
                     str(tmp_path / "page")], check=True, timeout=120)

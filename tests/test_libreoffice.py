@@ -16,12 +16,12 @@ from pathlib import Path
 
 import pytest
 
-from workbook_builder.xlsx import libreoffice as office
+from workbook_builder.xlsx import libreoffice
 from workbook_builder.build import write_workbook
 from workbook_builder.calcsheet import CROSS_CHECK_TOLERANCE
 from workbook_builder.project import load_project
 
-pytestmark = pytest.mark.skipif(office.find_soffice() is None,
+pytestmark = pytest.mark.skipif(libreoffice.find_soffice() is None,
                                 reason="LibreOffice (soffice) is not installed")
 
 EXAMPLES = Path(__file__).resolve().parent.parent / "example_workbooks"
@@ -40,7 +40,7 @@ def recalculated(tmp_path_factory):
         folder = tmp_path_factory.mktemp(name)
         path = folder / f"{name}.xlsx"
         built = write_workbook(load_project(EXAMPLES / f"{name}.toml"), path)
-        lo = office.recalculate(path, folder / "lo")
+        lo = libreoffice.recalculate(path, folder / "lo")
         out[name] = (built, path, lo)
     return out
 
@@ -58,13 +58,13 @@ def _same(a, b) -> bool:
 @pytest.mark.parametrize("name", NAMES)
 def test_no_error_cells(recalculated, name):
     _, _, lo = recalculated[name]
-    assert office.find_error_cells(lo) == []
+    assert libreoffice.find_error_cells(lo) == []
 
 
 @pytest.mark.parametrize("name", NAMES)
 def test_results_equal_the_engine(recalculated, name):
     built, _, lo = recalculated[name]
-    values = office.read_values(lo)
+    values = libreoffice.read_values(lo)
     for field in RESULTS:
         sheet, coord = built.names[field]
         got = values[(sheet, coord)]
@@ -76,7 +76,7 @@ def test_results_equal_the_engine(recalculated, name):
 @pytest.mark.parametrize("name", NAMES)
 def test_verdicts_after_recalculation(recalculated, name):
     built, _, lo = recalculated[name]
-    values = office.read_values(lo)
+    values = libreoffice.read_values(lo)
 
     def named(n):
         return values[built.names[n]]
@@ -92,7 +92,7 @@ def test_engine_flags_and_nonlinear_verdict_after_recalculation(recalculated, na
     """Every engine-value flag (Calculation and Nonlinear sheets) reads "current" after a full
     recalculation, and the Nonlinear sheet's verdict is the engine's."""
     built, _, lo = recalculated[name]
-    values = office.read_values(lo)
+    values = libreoffice.read_values(lo)
     flags = [n for n in built.names if n.startswith("engine_flag_")]
     assert flags and all(values[built.names[n]] == "current" for n in flags)
     if built.simulation is None:
@@ -108,8 +108,8 @@ def test_engine_flags_and_nonlinear_verdict_after_recalculation(recalculated, na
 @pytest.mark.parametrize("name", NAMES)
 def test_cached_values_equal_libreoffice(recalculated, name):
     built, path, lo = recalculated[name]
-    mine = office.read_values(path)
-    theirs = office.read_values(lo)
+    mine = libreoffice.read_values(path)
+    theirs = libreoffice.read_values(lo)
     formulas = set(built.values)
     assert len(formulas) > 300
     bad = [(k, mine.get(k), theirs.get(k)) for k in sorted(formulas)
@@ -119,8 +119,8 @@ def test_cached_values_equal_libreoffice(recalculated, name):
 
 def test_viewer_without_recalculation_sees_the_cached_values(recalculated, tmp_path):
     built, path, _ = recalculated["office_tower_us"]
-    kept = office.recalculate(path, tmp_path / "never", recalc="never")
-    values = office.read_values(kept)
+    kept = libreoffice.recalculate(path, tmp_path / "never", recalc="never")
+    values = libreoffice.read_values(kept)
     for field in RESULTS:
         assert values[built.names[field]] == pytest.approx(getattr(built.result, field),
                                                            rel=1e-12, abs=1e-15)
@@ -132,7 +132,7 @@ def test_pdf_export_is_legible(recalculated, tmp_path, name):
     import shutil
     import subprocess
     _, path, _ = recalculated[name]
-    pdf = office.export_pdf(path, tmp_path / "pdf")
+    pdf = libreoffice.export_pdf(path, tmp_path / "pdf")
     assert pdf.read_bytes().startswith(b"%PDF")
     if shutil.which("pdftotext") is None:
         pytest.skip("pdftotext (poppler-utils) is not installed")

@@ -20,59 +20,24 @@ import openpyxl
 import pytest
 
 from workbook_builder import recalc
-from workbook_builder.xlsx import libreoffice as office
-from workbook_builder.xlsx import package as xlsx_package
-from workbook_builder.xlsx import rewrite
 from workbook_builder.build import build_workbook, write_workbook
-from workbook_builder.xlsx.cached import formula_cells
 from workbook_builder.project import load_project, parse_project
 from workbook_builder.recalc import (RecalcError, main_recalc, read_inputs, read_workbook,
                                      recalc_many, recalc_workbook, write_results)
 from workbook_builder.recalc_summary import csv_safe
+from workbook_builder.xlsx import libreoffice, rewrite
+from workbook_builder.xlsx.cached import formula_cells
+
+from workbook_cases import DEN_HARTOG, EXAMPLES, NAMES, example_project
 
 ROOT = Path(__file__).resolve().parent.parent
-EXAMPLES = ROOT / "example_workbooks"
-NAMES = ["residential_tower", "observation_mast", "office_tower_us"]
-SOFFICE = office.find_soffice()
+SOFFICE = libreoffice.find_soffice()
 needs_soffice = pytest.mark.skipif(SOFFICE is None, reason="LibreOffice (soffice) not installed")
-
-DEN_HARTOG = {
-    "project": {"number": "T-6", "title": "Recalc test (invented)"},
-    "mode": {"frequency": 0.2, "modal_mass": {"value": 9000, "unit": "t"},
-             "structural_damping": {"value": 1.0, "unit": "%"}},
-    "wind": {"acceleration": 0.25, "acceleration_limit": 0.15},
-    "damper": {"mass_ratio": 0.02, "clearance": 1.5, "tuning_method": "den_hartog"},
-}
+# The fixture ``built`` (the example workbooks and a den_hartog one) is in conftest.py.
 
 
 def _sha(path: Path) -> str:
     return hashlib.sha256(Path(path).read_bytes()).hexdigest()
-
-
-def _project(name: str, **typed):
-    """An example project without its time-domain simulation, inputs changed as typed."""
-    import dataclasses
-    project = load_project(EXAMPLES / f"{name}.toml")
-    if getattr(project, "simulation", None) is not None:
-        project = dataclasses.replace(project, simulation=None)
-    inputs = dict(project.inputs)
-    for key, value in typed.items():
-        iv = inputs[key]
-        inputs[key] = dataclasses.replace(iv, value=value, si=value * iv.unit.factor)
-    return dataclasses.replace(project, inputs=inputs)
-
-
-@pytest.fixture(scope="module")
-def built(tmp_path_factory) -> dict[str, Path]:
-    """The example workbooks and a closed-form (den_hartog) one, built once."""
-    d = tmp_path_factory.mktemp("built")
-    out = {}
-    for name in NAMES:
-        out[name] = d / f"{name}.xlsx"
-        write_workbook(_project(name), out[name])
-    out["den_hartog"] = d / "den_hartog.xlsx"
-    write_workbook(parse_project(DEN_HARTOG, source="den_hartog.toml"), out["den_hartog"])
-    return out
 
 
 def _copy(src: Path, dest_dir: Path, name: str | None = None) -> Path:
@@ -128,64 +93,6 @@ def _cell_of(path: Path, name: str) -> tuple[str, str]:
 
 
 # ----------------------------------------------------------------------------- safety
-def test_defusedxml_is_active():
-    import openpyxl.xml
-    recalc.assert_defusedxml()
-    assert openpyxl.xml.DEFUSEDXML is True
-
-
-def test_entity_expansion_is_refused(built, tmp_path):
-    # A "billion laughs" shared-strings part: defusedxml refuses entity declarations.
-    src = built["den_hartog"]
-    bomb = tmp_path / "bomb.xlsx"
-    evil = (b'<?xml version="1.0"?><!DOCTYPE lolz [<!ENTITY lol "lol">'
-            b'<!ENTITY lol2 "&lol;&lol;&lol;&lol;&lol;&lol;&lol;&lol;&lol;&lol;">]>'
-            b'<sst xmlns="http://schemas.openxmlformats.org/spreadsheetml/2006/main">'
-            b'<si><t>&lol2;</t></si></sst>')
-    with zipfile.ZipFile(src) as zin, zipfile.ZipFile(bomb, "w") as zout:
-        for info in zin.infolist():
-            zout.writestr(info, zin.read(info))
-        zout.writestr("xl/sharedStrings.xml", evil)
-    res = recalc_workbook(bomb, outdir=tmp_path / "out")
-    assert res.status == "FAILED"
-    assert "refused" in res.error and "entity" in res.error.lower()
-    assert not (tmp_path / "out" / "bomb.xlsx").exists()
-
-
-def test_dtd_is_refused_even_when_the_sheet_is_already_cached(built, tmp_path):
-    # The part cache of a batch must never bypass the DTD check of a later file.
-    src = built["den_hartog"]
-    recalc.clear_caches()
-    assert recalc_workbook(src, outdir=tmp_path / "ok").status in ("OK", "NOT OK")
-    with zipfile.ZipFile(src) as zin:
-        sheet = next(n for n in zin.namelist() if n.startswith("xl/worksheets/sheet"))
-        body = zin.read(sheet)
-    evil = body.replace(b"<worksheet", b'<!DOCTYPE worksheet [<!ENTITY e "x">]><worksheet', 1)
-    bad = tmp_path / "dtd.xlsx"
-    with zipfile.ZipFile(src) as zin, zipfile.ZipFile(bad, "w") as zout:
-        for info in zin.infolist():
-            zout.writestr(info, evil if info.filename == sheet else zin.read(info))
-    res = recalc_workbook(bad, outdir=tmp_path / "out")
-    assert res.status == "FAILED" and "refused" in res.error
-    assert not (tmp_path / "out" / "dtd.xlsx").exists()
-
-
-def test_reading_with_and_without_the_part_cache_agree(built):
-    path = built["residential_tower"]
-    plain = xlsx_package.open_package(Path(path))
-    cache = xlsx_package.PartCache()
-    first = xlsx_package.open_package(Path(path), cache=cache)
-    second = xlsx_package.open_package(Path(path), cache=cache)
-    def content(book):
-        return {title: {key: (c.value, c.data_type) for key, c in sheet.cells.items()}
-                for title, sheet in book.sheets.items()}
-    assert content(first) == content(plain) == content(second)
-    # each read owns its cells: changing one does not leak into the next read
-    title = next(iter(first.sheets))
-    first.sheets[title].cells.clear()
-    assert content(xlsx_package.open_package(Path(path), cache=cache)) == content(plain)
-
-
 def test_garbage_collector_restored_after_success_and_failure(built, tmp_path):
     import gc
     assert gc.isenabled()
@@ -223,7 +130,7 @@ def test_read_inputs_us_units(built):
 
 def test_read_inputs_matches_project(built):
     for name in NAMES:
-        project = _project(name)
+        project = example_project(name)
         data = read_workbook(built[name])
         for key, item in project.inputs.items():
             assert data.project.inputs[key].si == pytest.approx(item.si, rel=1e-15), key
@@ -280,7 +187,7 @@ def test_recalc_equals_fresh_build(built, tmp_path, name, change):
     assert not res.failed, res.error
     # The project with the same change, built from scratch.
     project = (parse_project(DEN_HARTOG, source="den_hartog.toml") if name == "den_hartog"
-               else _project(name))
+               else example_project(name))
     (key, value), = change.items()
     import dataclasses
     iv = project.inputs[key]
@@ -751,8 +658,8 @@ def test_parameter_study(built, tmp_path):
 def test_output_opens_in_libreoffice_without_errors(built, tmp_path):
     res = recalc_workbook(built["observation_mast"], outdir=tmp_path / "ours",
                           inputs={"frequency": 0.4})
-    lo = office.recalculate(res.output, tmp_path / "lo")
-    assert office.find_error_cells(lo) == []
+    lo = libreoffice.recalculate(res.output, tmp_path / "lo")
+    assert libreoffice.find_error_cells(lo) == []
     ours, theirs = _values(res.output), _values(lo)
     n = 0
     for key, v in ours.items():

@@ -26,7 +26,7 @@ __all__ = [
     "parse", "Evaluator", "is_error",
 ]
 
-#: Worksheet functions the builder may write (GUIDE.md, Workbooks section).
+#: Worksheet functions the builder may write (DEVELOPERS.md, Workbooks section).
 ALLOWED_FUNCTIONS = frozenset({
     "SQRT", "PI", "SIN", "COS", "ASIN", "ATAN2", "RADIANS", "DEGREES", "LN", "EXP", "POWER",
     "SUMPRODUCT", "CONVERT", "IF", "AND", "OR", "ABS", "MAX", "MIN", "INDEX", "MATCH",

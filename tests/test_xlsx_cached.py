@@ -15,11 +15,11 @@ import pytest
 from hypothesis import given, settings, strategies as st
 from openpyxl.worksheet.formula import ArrayFormula
 
-from workbook_builder.xlsx import libreoffice as office
+from workbook_builder.xlsx import libreoffice
 from workbook_builder.xlsx.cached import (CellError, formula_cells, insert_cached_values,
                                           write_with_cached_values)
 
-needs_soffice = pytest.mark.skipif(office.find_soffice() is None,
+needs_soffice = pytest.mark.skipif(libreoffice.find_soffice() is None,
                                    reason="LibreOffice (soffice) not installed")
 
 PERIOD_10M = 2 * math.pi * math.sqrt(10 / 9.80665)   # small-angle period, L = 10 m [s]
@@ -146,12 +146,6 @@ def test_bad_values_raise_and_leave_file(tmp_path, values, match):
     assert [p.name for p in tmp_path.iterdir()] == ["keep.xlsx"]   # no temporary left behind
 
 
-@pytest.mark.parametrize("code", ["VALUE", "#value!", "", "#N/A extra"])
-def test_cell_error_rejects_non_codes(code):
-    with pytest.raises(ValueError, match="must be a spreadsheet error code"):
-        CellError(code)
-
-
 def test_numpy_scalars(tmp_path):
     values = {("Calculation", "B2"): np.float64(0.1), ("Calculation", "B5"): np.bool_(False),
               ("Calculation", "B7"): np.int64(7)}
@@ -176,8 +170,8 @@ def test_roundtrip_property(tmp_path_factory, x, s):
 def test_libreoffice_reads_cached_values_without_recalculating(built, tmp_path):
     # A viewer that does not recalculate sees the cached values.
     _, path = built
-    out = office.recalculate(path, tmp_path / "never", recalc="never")
-    v = office.read_values(out)
+    out = libreoffice.recalculate(path, tmp_path / "never", recalc="never")
+    v = libreoffice.read_values(out)
     assert v[("Calculation", "B3")] == pytest.approx(PERIOD_10M, rel=1e-15)
     assert v[("Calculation", "B4")] == "OK"
     assert v[("Calculation", "B5")] is True
@@ -187,14 +181,14 @@ def test_libreoffice_reads_cached_values_without_recalculating(built, tmp_path):
 def test_cached_values_equal_libreoffice_recalculation(built, tmp_path):
     # The cached values written here equal what LibreOffice computes with a forced recalculation.
     _, path = built
-    out = office.recalculate(path, tmp_path / "always")
-    v = office.read_values(out)
+    out = libreoffice.recalculate(path, tmp_path / "always")
+    v = libreoffice.read_values(out)
     for (sheet, coord), cached in VALUES.items():
         got = v[(sheet, coord.replace("$", "").upper())]
         if isinstance(cached, CellError):
-            assert office.is_error_value(got)
+            assert libreoffice.is_error_value(got)
         elif isinstance(cached, float):
             assert got == pytest.approx(cached, rel=1e-12)
         else:
             assert got == cached
-    assert office.find_error_cells(out) == [("Calculation", "B6", v[("Calculation", "B6")])]
+    assert libreoffice.find_error_cells(out) == [("Calculation", "B6", v[("Calculation", "B6")])]

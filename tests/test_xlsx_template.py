@@ -12,7 +12,7 @@ import pytest
 from openpyxl.styles import Font, PatternFill
 from openpyxl.workbook.defined_name import DefinedName
 
-from workbook_builder.xlsx import libreoffice as office
+from workbook_builder.xlsx import libreoffice
 from workbook_builder.xlsx.template import (TITLE_BLOCK_NAMES, add_default_title_block,
                                             open_template, template_fields, unfilled_fields)
 
@@ -90,13 +90,14 @@ def test_text_starting_with_equals_stays_text(tmp_path):
     assert ws["B4"].data_type == "s"
 
 
-@pytest.mark.skipif(office.find_soffice() is None, reason="LibreOffice (soffice) not installed")
+@pytest.mark.skipif(libreoffice.find_soffice() is None,
+                    reason="LibreOffice (soffice) not installed")
 def test_equals_text_is_not_evaluated_by_libreoffice(tmp_path):
     src = make_template(tmp_path / "firm.xlsx")
     wb = open_template(src, {"revision": "=1+1"})
     wb.save(tmp_path / "filled.xlsx")
-    out = office.recalculate(tmp_path / "filled.xlsx", tmp_path / "lo")
-    assert office.read_values(out)[("Calc cover", "B8")] == "=1+1"
+    out = libreoffice.recalculate(tmp_path / "filled.xlsx", tmp_path / "lo")
+    assert libreoffice.read_values(out)[("Calc cover", "B8")] == "=1+1"
 
 
 def test_numbers_and_datetimes_become_text(tmp_path):
