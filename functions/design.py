@@ -106,6 +106,14 @@ class DesignInputs:
         """A copy with some fields changed (validated again)."""
         return DesignInputs(**{**self._values, **changes})
 
+    def __reduce__(self):
+        # pickled (e.g. back from a worker process) as its fields, validated again on loading
+        return (_design_inputs, (self._values,))
+
+
+def _design_inputs(values: dict[str, Any]) -> DesignInputs:
+    return DesignInputs(**values)
+
 
 # --------------------------------------------------------------------------------------------
 # checks
@@ -225,11 +233,12 @@ class DesignResult:
     mode: str
 
     def __getattr__(self, name: str) -> Any:
-        if name.startswith("__"):
-            raise AttributeError(name)
-        for q in design_results():
-            if q.name == name:
-                return self.cells[q.cell_name]
+        # only called for names that are not fields: a declared result, read from the cells
+        if not name.startswith("_"):
+            cells = object.__getattribute__(self, "cells")     # AttributeError while unpickled
+            for q in design_results():
+                if q.name == name:
+                    return cells[q.cell_name]
         raise AttributeError(f"DesignResult has no result {name!r}")
 
     @property

@@ -139,6 +139,10 @@ class Quantity:
         >>> quantity("structural_damping").interval(0.01)
         '(0, 20]'
         """
+        if self.kind == "count":        # whole numbers, shown in full (2^63 included)
+            return (f"{'(' if self.low_open else '['}{int(self.low)}, {int(self.high)}"
+                    f"{')' if self.high_open else ']'}")
+
         def scaled(x: float) -> float:
             return x if math.isinf(x) else float(f"{x / factor:.12g}")
         return interval_text(scaled(self.low), scaled(self.high), self.low_open,

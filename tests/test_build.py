@@ -15,22 +15,25 @@ import openpyxl
 import pytest
 from openpyxl.utils import get_column_letter
 
+from functions.chain import steps as all_steps
+from functions.quantities import DESIGN_INPUTS, DESIGN_RESULTS
+from functions.worksheet import TWIN_TOLERANCE as CROSS_CHECK_TOLERANCE
 from workbook_builder import cli
-from workbook_builder.build import CAUTIONS, BuildError, _Sheet, build_workbook, write_workbook
-from workbook_builder.calcsheet import CROSS_CHECK_TOLERANCE, INPUT_NAMES, all_steps
+from workbook_builder.build import build_workbook, write_workbook
+from workbook_builder.compute import run_design, run_simulation
+from workbook_builder.plan import FORMAT_NAME, PLAN_PROPERTY, PLAN_VERSION, PlanOptions
+from workbook_builder.plan.layout import SHEETS
+from workbook_builder.plan.reference import CAUTIONS
+from workbook_builder.project import load_project
+from workbook_builder.xlsx.draw import DrawError, draw
 from workbook_builder.xlsx.formulas import (ALLOWED_FUNCTIONS, Evaluator, check_formula,
                                             functions_used)
-from workbook_builder.project import load_project
 
 from workbook_cases import MINIMAL
 
 EXAMPLES = Path(__file__).resolve().parent.parent / "example_workbooks"
 EXAMPLE_NAMES = ["residential_tower", "observation_mast", "office_tower_us"]
-RESULTS = ["required_damping", "mass_ratio", "damper_mass", "tuning_ratio", "damper_damping",
-           "damper_frequency", "small_angle_length", "effective_damping",
-           "acceleration_with_damper", "structure_displacement", "stroke_ratio", "stroke",
-           "pendulum_length", "swing_angle_deg", "small_angle_error", "detuning", "stiffness",
-           "dashpot"]
+RESULTS = [q.name for q in DESIGN_RESULTS]
 
 
 # ----------------------------------------------------------------------------- formulas
@@ -118,7 +121,7 @@ def test_checks_sheet_verdicts(built, name):
     assert b.value("all_cross_checks") == "OK"
     assert b.value("fixed_point_converged") == "OK"
     # the workbook's verdicts agree with the engine's checks, in the same order
-    assert [v == "OK" for _, v in b.design_verdicts] == [ok for _, ok in b.engine_checks]
+    assert [v == "OK" for _, v in b.design_verdicts] == [c.ok for c in b.result.checks]
 
 
 @pytest.mark.parametrize("name", EXAMPLE_NAMES)
@@ -126,14 +129,15 @@ def test_names_protection_and_validation(built, name):
     b, path = built[name]
     wb = openpyxl.load_workbook(path)
     names = set(wb.defined_names.keys())
-    for spec_name, defined in INPUT_NAMES.items():
-        if spec_name in b.project.inputs:
-            assert defined in names
+    for q in DESIGN_INPUTS:
+        if q.name in b.project.inputs:
+            assert q.cell_name in names
     assert set(RESULTS) <= names
     for n in names:
         assert not n[:3].isalpha() or not n[3:].isdigit()       # not a cell address
     listed = {c.value for c in wb["Names"]["A"][4:] if c.value}
     assert listed == {n for n in names if n not in ("SWAYTUNE_GENERATOR", "SWAYTUNE_FORMAT")}
+    assert wb.defined_names["SWAYTUNE_FORMAT"].hidden
     for ws in wb.worksheets:
         assert ws.protection.sheet and not ws.protection.password, ws.title
     inputs = wb["Inputs"]
@@ -197,11 +201,16 @@ def test_text_starting_with_equals_stays_text(tmp_path):
     assert all(c.data_type == "s" for c in texts)
 
 
-def test_nan_and_inf_are_refused_by_the_writer():
-    sh = _Sheet(None, openpyxl.Workbook().active)
+def test_nan_and_inf_are_refused_by_the_drawer():
+    from workbook_builder.plan.model import Plan
+    from workbook_builder.plan.sheet import SheetLayout
+    sh = SheetLayout("S")
+    sh.engine(1, 1, ("cell", "x"))
+    plan = Plan(PlanOptions(), [sh.plan])
     for bad in (math.nan, math.inf, -math.inf):
-        with pytest.raises(BuildError, match=r"cannot be written \(NaN and inf are refused\)"):
-            sh.put(1, 1, bad)
+        with pytest.raises(DrawError, match=r"S!A1: .* cannot be written \(NaN and inf are "
+                                            r"refused\)"):
+            draw(plan, {("S", "A1"): bad})
 
 
 def test_formulas_follow_changed_inputs_and_flag_engine_values(built, tmp_path):
@@ -210,8 +219,7 @@ def test_formulas_follow_changed_inputs_and_flag_engine_values(built, tmp_path):
     from functions.design import design_damper
     b, path = built["residential_tower"]
     wb = openpyxl.load_workbook(path)
-    acc = _named_cell(wb, "acceleration")          # SI cell = entered value * factor
-    entered = wb["Inputs"][f"C{acc.row}"]
+    entered = _named_cell(wb, "acceleration_entered")
     entered.value = entered.value * 1.1
     ev = Evaluator(wb)
     kw = b.project.design_kwargs()
@@ -219,10 +227,10 @@ def test_formulas_follow_changed_inputs_and_flag_engine_values(built, tmp_path):
     new = design_damper(**kw)
     assert ev.evaluate("=required_damping", "Calculation") == pytest.approx(
         new.required_damping, rel=1e-12)
-    flag = ev.evaluate("=engine_flag_1", "Calculation")
+    flag = ev.evaluate("=engine_flag_mass_ratio", "Calculation")
     assert flag == "INPUTS CHANGED: rebuild"
     wb2 = openpyxl.load_workbook(path)
-    assert Evaluator(wb2).evaluate("=engine_flag_1", "Calculation") == "current"
+    assert Evaluator(wb2).evaluate("=engine_flag_mass_ratio", "Calculation") == "current"
 
 
 def test_chosen_mass_ratio_chain_recomputes_exactly(tmp_path):
@@ -233,11 +241,8 @@ def test_chosen_mass_ratio_chain_recomputes_exactly(tmp_path):
     src.write_text(MINIMAL, encoding="utf-8")
     b = build_workbook(load_project(src))
     wb = b.workbook
-    sheet, coord = b.names["clearance"]
-    clearance_entered = wb["Inputs"][f"C{wb[sheet][coord].row}"]
-    clearance_entered.value = 0.1
-    acc_row = wb[b.names["acceleration"][0]][b.names["acceleration"][1]].row
-    wb["Inputs"][f"C{acc_row}"].value = 0.3
+    _named_cell(wb, "clearance_entered").value = 0.1
+    _named_cell(wb, "acceleration_entered").value = 0.3
     ev = Evaluator(wb)
     kw = b.project.design_kwargs()
     kw["clearance"] = 0.1
@@ -246,7 +251,7 @@ def test_chosen_mass_ratio_chain_recomputes_exactly(tmp_path):
     for field in RESULTS:
         assert ev.evaluate(f"={field}", "Calculation") == pytest.approx(
             getattr(new, field), rel=1e-9), field
-    assert ev.evaluate("=Checks!G5", "Checks") == ("OK" if new.stroke <= 0.1 else "NOT OK")
+    assert ev.evaluate("=check_stroke", "Checks") == ("OK" if new.stroke <= 0.1 else "NOT OK")
 
 
 # ----------------------------------------------------------------------------- written file
@@ -276,7 +281,7 @@ def test_cli_error_names_key_and_line(tmp_path, capsys):
     src.write_text(MINIMAL.replace("frequency = 0.2", "frequency = -1"), encoding="utf-8")
     assert cli.main(["build", str(src), "-o", str(tmp_path / "x.xlsx")]) == 1
     err = capsys.readouterr().err
-    assert "bad.toml:7: mode.frequency: -1 Hz must be in (0, 20] [Hz]" in err
+    assert "bad.toml:7: mode.frequency: -1 Hz must be in [0.01, 20] [Hz]" in err
     assert "CAUTION" in err
     assert not (tmp_path / "x.xlsx").exists()
 
@@ -343,20 +348,19 @@ def test_template(tmp_path):
     assert {"Summary", "Inputs", "Calculation", "Checks", "Cautions"} <= set(wb.sheetnames)
 
 
-def test_symbols_and_units_come_from_the_engine_declaration():
-    """One declaration: symbols and units of inputs, steps and checks match functions.design."""
-    from functions.design import CHECK_NAMES, QUANTITIES
-    from workbook_builder.calcsheet import design_checks
-    from workbook_builder.project import INPUT_SPECS
-    for spec in INPUT_SPECS:
-        if spec.name in QUANTITIES and spec.name not in ("mass_ratio", "damper_mass"):
-            assert spec.symbol == QUANTITIES[spec.name].symbol, spec.name
-    for method in ("h2", "den_hartog"):
-        for step in all_steps(method, "required"):
-            if step.engine:
-                q = QUANTITIES[step.engine]
-                assert (step.symbol, step.unit) == (q.symbol, q.unit), step.name
-    assert tuple(c.engine_keyword for c in design_checks()) == CHECK_NAMES
+def test_labels_symbols_and_units_come_from_the_declarations(built):
+    """One declaration: the Inputs and Calculation rows show the quantities' own texts."""
+    b, path = built["residential_tower"]
+    wb = openpyxl.load_workbook(path)
+    for q in list(DESIGN_INPUTS) + list(DESIGN_RESULTS):
+        if q.cell_name not in b.names or q.kind == "choice":
+            continue
+        sheet, coord = b.names[q.cell_name]
+        row = wb[sheet][coord].row
+        texts = [c.value for c in wb[sheet][row]]
+        assert q.label in texts and q.unit in texts, q.name
+        assert q.symbol in texts, q.name
+        assert wb[sheet][coord].number_format == q.fmt, q.name
 
 
 def test_closed_form_method_builds_with_formulas(tmp_path):
@@ -368,7 +372,7 @@ def test_closed_form_method_builds_with_formulas(tmp_path):
     b = build_workbook(load_project(src))
     sheet, coord = b.names["tuning_ratio"]
     assert b.workbook[sheet][coord].data_type == "f"
-    assert "engine_flag_1" not in b.names
+    assert not [n for n in b.names if n.startswith("engine_flag")]
     assert all(rel <= CROSS_CHECK_TOLERANCE for *_, rel in b.cross_checks)
     assert b.value("all_cross_checks") == "OK"
 
@@ -408,7 +412,7 @@ def test_formulas_agree_with_the_engine_across_inputs(frequency, zeta, ratio, mo
     worst = max(rel for *_, rel in b.cross_checks)
     assert worst <= CROSS_CHECK_TOLERANCE
     assert b.value("all_cross_checks") == "OK"
-    assert [v == "OK" for _, v in b.design_verdicts] == [ok for _, ok in b.engine_checks]
+    assert [v == "OK" for _, v in b.design_verdicts] == [c.ok for c in b.result.checks]
 
 
 def test_python_m_workbook_builder(tmp_path):
@@ -525,11 +529,10 @@ def test_native_variance_formulas_keep_full_precision(mu, zs):
 # ----------------------------------------------------------------------------- Nonlinear sheet
 def _nonlinear_flag(b):
     return [n for n, (sheet, _) in b.names.items()
-            if n.startswith("engine_flag_") and sheet == "Nonlinear"]
+            if n.startswith("engine_flag_") and sheet == "Nonlinear" and n.count("_") == 2]
 
 
 def test_nonlinear_sheet_only_when_asked(built):
-    from workbook_builder.build import SHEETS
     for name in EXAMPLE_NAMES:
         b, path = built[name]
         wb = openpyxl.load_workbook(path)
@@ -658,8 +661,7 @@ def test_nonlinear_flag_follows_inputs(built):
     wb = openpyxl.load_workbook(path)
     [flag] = _nonlinear_flag(b)
     assert Evaluator(wb).evaluate(f"={flag}", "Nonlinear") == "current"
-    acc = _named_cell(wb, "acceleration")
-    wb["Inputs"][f"C{acc.row}"].value *= 1.01
+    _named_cell(wb, "acceleration_entered").value *= 1.01
     ev = Evaluator(wb)
     assert ev.evaluate(f"={flag}", "Nonlinear") == "INPUTS CHANGED: rebuild"
     [row] = [c.row for c in wb["Summary"]["A"]
@@ -668,12 +670,11 @@ def test_nonlinear_flag_follows_inputs(built):
 
 
 def test_simulation_refused_without_table(tmp_path):
-    from workbook_builder.build import run_engine, run_simulation
     src = tmp_path / "p.toml"
     src.write_text(MINIMAL, encoding="utf-8")
     project = load_project(src)
     with pytest.raises(ValueError, match=r"p\.toml: the project does not ask for a simulation"):
-        run_simulation(project, run_engine(project))
+        run_simulation(project, run_design(project))
 
 
 def test_undefined_engine_values_are_shown_not_written_as_nan(harmonic):
@@ -694,69 +695,61 @@ def test_undefined_engine_values_are_shown_not_written_as_nan(harmonic):
 
 
 # ----------------------------------------------------------------------------- recalc support
-def test_format_mark_and_simulation_property(tmp_path):
-    """SWAYTUNE_FORMAT holds FORMAT_VERSION; the [simulation] table travels as data."""
-    import dataclasses
-    from workbook_builder.xlsx.files import new_file_mode
-    from workbook_builder.build import (FORMAT_NAME, FORMAT_VERSION, SIMULATION_PROPERTY,
-                                        read_simulation_settings)
-    from workbook_builder.project import SimulationSettings, parse_project
+def test_format_mark_plan_and_simulation_properties(tmp_path):
+    """SWAYTUNE_FORMAT holds the plan's version; its options and the [simulation] table
+    travel as data (custom document properties, never formulas)."""
     import tomllib
+    from workbook_builder.build import SIMULATION_PROPERTY
+    from workbook_builder.project import parse_project
+    from workbook_builder.project.model import settings_from_text
+    from workbook_builder.xlsx.files import new_file_mode
     raw = tomllib.loads(MINIMAL)
     raw["simulation"] = {"load": "harmonic", "duration": 120.0, "seed": 7, "tolerance": 0.1}
     project = parse_project(raw, source="sim.toml")
     out = tmp_path / "w.xlsx"
-    write_workbook(project, out)
+    built = write_workbook(project, out)
     wb = openpyxl.load_workbook(out)
-    assert wb.defined_names[FORMAT_NAME].attr_text == str(FORMAT_VERSION)
+    assert wb.defined_names[FORMAT_NAME].attr_text == str(PLAN_VERSION)
     assert wb.defined_names[FORMAT_NAME].hidden
-    prop = next(p for p in wb.custom_doc_props.props if p.name == SIMULATION_PROPERTY)
-    assert not str(prop.value).startswith("=")
-    assert read_simulation_settings(prop.value) == project.simulation
-    assert read_simulation_settings(prop.value) == dataclasses.replace(
-        SimulationSettings(), load="harmonic", duration=120.0, seed=7, tolerance=0.1)
+    props = {p.name: str(p.value) for p in wb.custom_doc_props.props}
+    assert PlanOptions.from_json(props[PLAN_PROPERTY]) == built.plan.options
+    assert settings_from_text(props[SIMULATION_PROPERTY]) == project.simulation
+    assert not any(v.startswith("=") for v in props.values())
     # Normal file permissions (0o644 under umask 022), not a temporary file's private 0o600.
     assert out.stat().st_mode & 0o777 == new_file_mode(tmp_path / "new.xlsx")
 
 
 @pytest.mark.parametrize("text, match", [
-    ("not json", r"SwaytuneSimulation='not json' is not JSON"),
-    ('{"loud": 1}', r"is not a \[simulation\] table"),
-    ('{"duration": -5}', r"duration"),
+    ("not json", r"settings 'not json' are not JSON"),
+    ('{"loud": 1}', r"are not a \[simulation\] table"),
+    ('{"duration": -5}', r"duration=-5\.0? must be in \[60, 3600\]"),
 ])
-def test_read_simulation_settings_refuses(text, match):
-    from workbook_builder.build import read_simulation_settings
+def test_simulation_settings_text_refuses(text, match):
+    from workbook_builder.project.model import settings_from_text
     with pytest.raises(ValueError, match=match):
-        read_simulation_settings(text)
+        settings_from_text(text)
 
 
-def test_engine_cells_list_every_engine_value():
-    """build.engine_cells: every engine-only constant, kinds and values as written."""
-    from workbook_builder.build import ENGINE_KINDS, EngineCell, engine_cells, engine_value
-    from workbook_builder.project import parse_project
+def test_every_engine_value_is_named_or_in_a_named_range():
+    """Recalculation finds each engine value it refreshes through the plan's names only."""
     import tomllib
+    from workbook_builder.project import parse_project
     project = parse_project(tomllib.loads(MINIMAL), source="m.toml")
     built = build_workbook(project)
-    cells = built.engine_cells
-    assert cells == engine_cells(project, built.result)
-    assert {c.kind for c in cells} == {"engine", "chart"} and set(ENGINE_KINDS) >= {"engine"}
-    for c in cells:
-        assert isinstance(c, EngineCell)
-        cell = built.workbook[c.sheet][c.cell]
-        assert cell.data_type == "n" and cell.value == c.value
-        if c.kind == "engine":
-            assert engine_value(project, built.result, c.key) == c.value
-    # Every green (engine) cell of the Calculation and Checks sheets is in the list.
-    listed = {(c.sheet, c.cell) for c in cells}
-    green = 0
+    cells = built.engine_cells()
+    ranges = built.plan.range_names()
+    assert {s for s, _, _ in cells} == {"Checks", "Charts"} or \
+        {s for s, _, _ in cells} >= {"Checks", "Charts"}
+    for sheet, ref, source in cells:
+        cell = built.workbook[sheet][ref]
+        assert cell.data_type == "n"
+        _, planned = next((s, c) for s, c in built.plan.cells()
+                          if s == sheet and c.ref == ref)
+        assert planned.name or any(rs == sheet for rs, _ in ranges.values())
+    # every green (engine) cell of the Calculation and Checks sheets is refreshed
+    listed = {(s, r) for s, r, _ in cells}
     for title in ("Calculation", "Checks"):
         for row in built.workbook[title].iter_rows():
             for cell in row:
                 if cell.fill is not None and cell.fill.fgColor.rgb in ("00E2EFDA", "FFE2EFDA"):
                     assert (title, cell.coordinate) in listed, cell.coordinate
-                    green += 1
-    assert green == sum(1 for c in cells if c.sheet in ("Calculation", "Checks"))
-    # The engine column of the cross-checks holds the engine's value of its quantity.
-    assert any(c.sheet == "Checks" and c.key == "tuning_ratio" for c in cells)
-    with pytest.raises(ValueError, match="name=.nothing. is neither a result field"):
-        engine_value(project, built.result, "nothing")

@@ -298,3 +298,11 @@ def test_mass_ratio_min_zero_means_no_lower_end():
     # the project file and the engine accept the same range [0, 0.2] (functions.quantities)
     r = design_damper(**BASE, mass_ratio=0.002, mass_ratio_min=0.0)
     assert r.check("mass_ratio").ok and r.check("mass_ratio").lower == 0.0
+
+
+def test_results_and_inputs_travel_between_processes():
+    # batch recalculation returns results from worker processes: they must pickle
+    import pickle
+    r = design_damper(**BASE, tuning_method="hinf")
+    back = pickle.loads(pickle.dumps(r))
+    assert back.inputs == r.inputs and back.cells == r.cells and back.stroke == r.stroke

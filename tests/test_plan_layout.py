@@ -13,7 +13,7 @@ from functions.worksheet import formula_names
 from workbook_builder.plan import PLAN_VERSION, PlanOptions, make_plan
 from workbook_builder.plan.inputs import entered_name, factor_name, unit_name
 from workbook_builder.plan.layout import SHEETS
-from workbook_builder.plan.model import REFRESHED_SOURCES, Cell
+from workbook_builder.plan.model import Cell, refreshed
 from workbook_builder.xlsx.formulas import check_formula
 
 NUMERIC = tuple(q.name for q in DESIGN_INPUTS if q.kind != "choice")
@@ -48,7 +48,7 @@ def test_plan_is_consistent(options):
             check_formula(cell.content)
             unknown = set(formula_names(cell.content)) - names
             assert not unknown, f"{sheet}!{cell.ref} {cell.content} reads undefined {unknown}"
-        if cell.kind == "engine" and cell.source[0] in REFRESHED_SOURCES:
+        if refreshed(cell):
             # recalculation writes it through a name or a named range
             assert cell.name or any(sheet == s for s, _ in plan.range_names().values())
     for name in options.inputs:

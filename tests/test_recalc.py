@@ -19,12 +19,13 @@ from pathlib import Path
 import openpyxl
 import pytest
 
-from workbook_builder import recalc
 from workbook_builder.build import build_workbook, write_workbook
 from workbook_builder.project import load_project, parse_project
-from workbook_builder.recalc import (RecalcError, main_recalc, read_inputs, read_workbook,
-                                     recalc_many, recalc_workbook, write_results)
-from workbook_builder.recalc_summary import csv_safe
+from workbook_builder import cli
+from workbook_builder.plan import FORMAT_NAME, PLAN_VERSION
+from workbook_builder.recalc import (RecalcError, read_inputs, read_workbook, recalc_many,
+                                     recalc_workbook, write_results)
+from workbook_builder.recalc.summary import SUMMARY_STEM, csv_safe
 from workbook_builder.xlsx import libreoffice, rewrite
 from workbook_builder.xlsx.cached import formula_cells
 
@@ -92,6 +93,11 @@ def _cell_of(path: Path, name: str) -> tuple[str, str]:
     return data.book.name_cell(name)
 
 
+def main_recalc(args):
+    """``swaytune recalc ARGS``: the exit status."""
+    return cli.main(["recalc", *args])
+
+
 # ----------------------------------------------------------------------------- safety
 def test_garbage_collector_restored_after_success_and_failure(built, tmp_path):
     import gc
@@ -133,6 +139,9 @@ def test_read_inputs_matches_project(built):
         project = example_project(name)
         data = read_workbook(built[name])
         for key, item in project.inputs.items():
+            if isinstance(item.si, str):                  # a choice (tuning method)
+                assert data.project.inputs[key].si == item.si
+                continue
             assert data.project.inputs[key].si == pytest.approx(item.si, rel=1e-15), key
         assert data.project.tuning_method == project.tuning_method
         assert (data.project.floors is None) == (project.floors is None)
@@ -141,10 +150,9 @@ def test_read_inputs_matches_project(built):
 def test_unit_choice_typed_by_the_user(built, tmp_path):
     """The engineer changes the modal mass from 24,000 t to 24,000,000 kg: same design."""
     path = _copy(built["residential_tower"], tmp_path)
-    sheet, coord = _cell_of(path, "modal_mass")          # Inputs!F6 = C6 * E6
-    row = coord[1:]
-    _set_cells(path, {(sheet, f"C{row}"): 24_000_000, (sheet, f"D{row}"): "kg",
-                      (sheet, f"E{row}"): 1.0})
+    _set_cells(path, {_cell_of(path, "modal_mass_entered"): 24_000_000,
+                      _cell_of(path, "modal_mass_unit"): "kg",
+                      _cell_of(path, "modal_mass_factor"): 1.0})
     data = read_workbook(path)
     assert data.typed["modal_mass"] == (24_000_000.0, "kg")
     res = recalc_workbook(path, outdir=tmp_path / "out")
@@ -157,8 +165,7 @@ def test_unit_choice_typed_by_the_user(built, tmp_path):
 
 def test_unknown_unit_fails(built, tmp_path):
     path = _copy(built["residential_tower"], tmp_path)
-    sheet, coord = _cell_of(path, "modal_mass")
-    _set_cells(path, {(sheet, f"D{coord[1:]}"): "tons"})
+    _set_cells(path, {_cell_of(path, "modal_mass_unit"): "tons"})
     res = recalc_workbook(path, outdir=tmp_path / "out")
     assert res.status == "FAILED"
     assert "'tons' is not a mass unit" in res.error
@@ -212,8 +219,8 @@ def test_recalc_equals_fresh_build(built, tmp_path, name, change):
     # what changed is reported with old and new values
     changed = {n for n, _, _ in res.changes}
     (spec,) = change
-    from workbook_builder.calcsheet import INPUT_NAMES
-    assert INPUT_NAMES[spec] in changed
+    from functions.quantities import quantity
+    assert quantity(spec).cell_name in changed
     assert res.issues == [] or all(i.kind not in ("formula_edited", "engine_mismatch")
                                    for i in res.issues)
 
@@ -221,13 +228,13 @@ def test_recalc_equals_fresh_build(built, tmp_path, name, change):
 def test_recalc_after_user_edit_and_stale_flags(built, tmp_path):
     """An input typed in a spreadsheet program (cached values stale) is recalculated."""
     path = _copy(built["residential_tower"], tmp_path)
-    sheet, coord = _cell_of(path, "structure_frequency")
-    _set_cells(path, {(sheet, f"C{coord[1:]}"): 0.18})
+    _set_cells(path, {_cell_of(path, "structure_frequency_entered"): 0.18})
     res = recalc_workbook(path, outdir=tmp_path / "out")
     assert res.status == "OK", res.checks
     assert res.results["structure_frequency"] == 0.18
     # Every engine value current again (the flag compares snapshots with the inputs).
-    assert all(v == "current" for k, v in res.results.items() if k.startswith("engine_flag"))
+    assert all(v in ("current", "OK") for k, v in res.results.items()
+               if k.startswith("engine_flag") and not k.count("_") > 3)
     ref = recalc_workbook(built["residential_tower"], inputs={"frequency": 0.18})
     assert res.results["tuning_ratio"] == ref.results["tuning_ratio"]
 
@@ -260,7 +267,7 @@ def test_formula_edited_by_hand_is_reported_not_fixed(built, tmp_path):
     edits = [i for i in res.issues if i.kind == "formula_edited"]
     assert [i.where for i in edits] == [f"{sheet}!{coord}"]
     assert edits[0].old == "=1/(1+mass_ratio)" and edits[0].new == "=1/(1+mass_ratio)*1.01"
-    mism = {i.where.split(" ")[1].strip("()") for i in res.issues if i.kind == "engine_mismatch"}
+    mism = {i.where for i in res.issues if i.kind == "engine_mismatch"}
     assert {"tuning_ratio", "damper_frequency", "stiffness"} <= mism
     assert ("Workbook formulas agree with the engine", "NOT OK") in res.checks
     # never silently fixed: the output keeps the user's formula, its cached value is the edit's
@@ -289,8 +296,7 @@ def test_equivalent_formula_text_is_not_an_edit(built, tmp_path):
 
 def test_input_outside_valid_range_fails(built, tmp_path):
     path = _copy(built["residential_tower"], tmp_path)
-    sheet, coord = _cell_of(path, "structural_damping")
-    _set_cells(path, {(sheet, f"C{coord[1:]}"): 50})     # 50 % > 20 %
+    _set_cells(path, {_cell_of(path, "structural_damping_entered"): 50})     # 50 % > 20 %
     res = recalc_workbook(path, outdir=tmp_path / "out")
     assert res.status == "FAILED"
     assert "outside their valid range" in res.error and "structural_damping=50 %" in res.error
@@ -299,8 +305,7 @@ def test_input_outside_valid_range_fails(built, tmp_path):
 
 def test_input_not_a_number_fails(built, tmp_path):
     path = _copy(built["residential_tower"], tmp_path)
-    sheet, coord = _cell_of(path, "clearance")
-    _set_cells(path, {(sheet, f"C{coord[1:]}"): "1.6 m"})
+    _set_cells(path, {_cell_of(path, "clearance_entered"): "1.6 m"})
     res = recalc_workbook(path)
     assert res.status == "FAILED" and "'1.6 m', not a number" in res.error
 
@@ -310,7 +315,7 @@ def test_missing_name_fails(built, tmp_path):
     _set_cells(path, {}, delete_names=("clearance",))
     res = recalc_workbook(path, outdir=tmp_path / "out")
     assert res.status == "FAILED"
-    assert "missing defined name(s) clearance" in res.error
+    assert "missing defined name(s) clearance" in res.error and "rebuild" in res.error
 
 
 def test_missing_result_name_fails(built, tmp_path):
@@ -322,7 +327,7 @@ def test_missing_result_name_fails(built, tmp_path):
 
 def test_newer_format_fails(built, tmp_path):
     path = _copy(built["den_hartog"], tmp_path)
-    _set_cells(path, {}, add_names={recalc.FORMAT_NAME: "99"})
+    _set_cells(path, {}, add_names={FORMAT_NAME: "99"})
     res = recalc_workbook(path, outdir=tmp_path / "out")
     assert res.status == "FAILED" and "newer" in res.error
 
@@ -444,10 +449,9 @@ def test_output_guard_refuses_foreign_file(built, tmp_path):
 
 
 def _run_cli(args, **kw):
-    code = ("import sys; from workbook_builder.recalc import main_recalc; "
-            "sys.exit(main_recalc(sys.argv[1:]))")
-    return subprocess.Popen([sys.executable, "-c", code, *args], cwd=ROOT,
-                            stdout=subprocess.PIPE, stderr=subprocess.PIPE, text=True, **kw)
+    return subprocess.Popen([sys.executable, "-m", "workbook_builder", "recalc", *args],
+                            cwd=ROOT, stdout=subprocess.PIPE, stderr=subprocess.PIPE, text=True,
+                            **kw)
 
 
 @pytest.mark.parametrize("sig", [signal.SIGINT, signal.SIGKILL])
@@ -491,7 +495,7 @@ def test_interrupt_or_crash_leaves_originals_intact(built, tmp_path, sig, in_pla
     assert replaced < n                       # stopped mid-batch
     if not in_place and (tmp_path / "out").exists():
         for p in (tmp_path / "out").iterdir():
-            if p.suffix == ".xlsx" and not p.name.startswith(recalc.SUMMARY_STEM):
+            if p.suffix == ".xlsx" and not p.name.startswith(SUMMARY_STEM):
                 assert zipfile.ZipFile(p).testzip() is None
             assert not (sig == signal.SIGINT and p.name.startswith("."))
 
@@ -526,9 +530,9 @@ def test_cli_exit_status_and_summary(built, tmp_path, capsys):
     # a check NOT OK -> 1 (US example with a small clearance fails the stroke check)
     (tmp_path / "nok").mkdir()
     path = tmp_path / "nok" / "office_tower_us.xlsx"
-    sheet, coord = _cell_of(built["office_tower_us"], "clearance")
     # 5 in typed in the clearance cell; cached values still those of the last calculation
-    write_results(built["office_tower_us"], path, constants={(sheet, f"C{coord[1:]}"): 5.0})
+    write_results(built["office_tower_us"], path,
+                  constants={_cell_of(built["office_tower_us"], "clearance_entered"): 5.0})
     assert main_recalc([str(path), "-o", str(tmp_path / "o2"), "--no-progress"]) == 1
     out = capsys.readouterr().out
     assert "NOT OK: Stroke within the clearance" in out
@@ -593,16 +597,18 @@ def test_firm_template_workbook(tmp_path):
     # M* = 12,000 t, mu = 0.02 -> m_d = 240,000 kg
     assert got[("Calc cover", "B5")] == pytest.approx(240_000.0, rel=1e-15)
     assert formula_cells(res.output)[("Calc cover", "B6")] == "=VLOOKUP(1,A1:A2,1,FALSE)"
-    assert read_workbook(res.output).project.info["number"] == "T-6"
+    assert read_workbook(res.output).book.named("TB_PROJECT_NUMBER").value == "T-6"
 
 
-def test_older_format_is_noted(built, tmp_path, monkeypatch):
-    from workbook_builder import build as build_mod
-    path = _copy(built["den_hartog"], tmp_path)
-    _set_cells(path, {}, add_names={recalc.FORMAT_NAME: "1"})
-    monkeypatch.setattr(build_mod, "FORMAT_VERSION", 2, raising=False)
-    res = recalc_workbook(path)
-    assert any(i.kind == "note" and "older" in i.message for i in res.issues)
+def test_workbook_of_swaytune_0_1_is_refused_with_how_to_rebuild(tmp_path):
+    """A workbook built by swaytune 0.1.0 (layout format 2; tests/data) is refused: its cells
+    are found only by their labels. The message says how to rebuild it."""
+    old = ROOT / "tests" / "data" / "format2_office_tower_us.xlsx"
+    res = recalc_workbook(old, outdir=tmp_path / "o")
+    assert res.status == "FAILED"
+    assert "layout format 2 (swaytune 0.1)" in res.error
+    assert "swaytune build PROJECT.toml -o NEW.xlsx" in res.error and "Record sheet" in res.error
+    assert not (tmp_path / "o").exists()
 
 
 def test_nonlinear_sheet_flags_stale_simulation(tmp_path):
@@ -617,18 +623,17 @@ def test_nonlinear_sheet_flags_stale_simulation(tmp_path):
     changed = recalc_workbook(path, outdir=tmp_path / "o", inputs={"frequency": 0.2})
     assert changed.status == "NOT OK"
     stale = [i for i in changed.issues if i.kind == "stale_engine_value"]
-    assert len(stale) == 1 and stale[0].where.startswith("Nonlinear!")
+    assert len(stale) == 1 and stale[0].where == "engine_flag_simulation"
     # the engine values recalc does recompute are current
-    flags = {k: v for k, v in changed.results.items() if k.startswith("engine_flag_")}
-    assert sorted(flags.values()).count("current") == len(flags) - 1
-    # recalc cannot rebuild the Nonlinear layout (its settings are not in cells), yet a hand
-    # edit on the other sheets is still found by text
+    flags = {k: changed.results[k] for k in ("engine_flag_mass_ratio", "engine_flag_tuning",
+                                             "engine_flag_simulation")}
+    assert list(flags.values()) == ["current", "current", "INPUTS CHANGED: rebuild"]
+    # a hand edit is still found on every sheet, the Nonlinear one included
     sheet, coord = _cell_of(path, "damper_frequency")
     _set_cells(path, {(sheet, coord): "=tuning_ratio*structure_frequency*1.02"})
     edited = recalc_workbook(path)
     assert [i.where for i in edited.issues if i.kind == "formula_edited"] == [f"{sheet}!{coord}"]
-    # the [simulation] settings travel with the workbook (document property), so the builder's
-    # layout includes the Nonlinear sheet and every sheet is compared as text
+    # the [simulation] settings travel with the workbook (document property)
     assert read_workbook(path).project.simulation == project.simulation
     assert not [i for i in edited.issues if i.kind == "note"]
     assert "REBUILD NEEDED" in stale[0].message
@@ -674,42 +679,59 @@ def test_output_opens_in_libreoffice_without_errors(built, tmp_path):
 
 
 # ----------------------------------------------------------------------------- format, layout
-def test_workbook_without_format_mark_is_reported_older(built, tmp_path):
-    from workbook_builder.build import FORMAT_NAME, FORMAT_VERSION
+def test_workbook_without_format_mark_is_refused(built, tmp_path):
     path = _copy(built["den_hartog"], tmp_path)
-    assert read_workbook(path).book.defined_names[FORMAT_NAME].attr_text == str(FORMAT_VERSION)
+    assert read_workbook(path).book.defined_names[FORMAT_NAME].attr_text == str(PLAN_VERSION)
     _set_cells(path, {}, delete_names=(FORMAT_NAME,))
     res = recalc_workbook(path)
-    assert res.status == "OK"
-    notes = [i for i in res.issues if i.kind == "note" and i.where == "format"]
-    assert len(notes) == 1 and "format 1" in notes[0].message
+    assert res.status == "FAILED" and "layout format 1" in res.error
 
 
 def test_bad_format_mark_fails(built, tmp_path):
     path = _copy(built["den_hartog"], tmp_path)
-    _set_cells(path, {}, add_names={recalc.FORMAT_NAME: '"two"'})
+    _set_cells(path, {}, add_names={FORMAT_NAME: '"two"'})
     res = recalc_workbook(path)
     assert res.status == "FAILED" and "is not a number" in res.error
 
 
-def test_engine_cells_located_by_the_builder_list(built, tmp_path):
-    """Engine values are written where build.engine_cells says; a moved row fails clearly."""
-    from workbook_builder.build import engine_cells
-    data = read_workbook(built["den_hartog"])
-    listed = engine_cells(data.project)
-    assert {c.kind for c in listed} == {"engine", "chart"}
+def test_engine_values_written_through_the_plans_names(built, tmp_path):
+    """Engine values go where the workbook's names point, wherever that is."""
     res = recalc_workbook(built["den_hartog"], outdir=tmp_path / "o", inputs={"frequency": 0.3})
     got = _values(res.output)
-    fresh = {(c.sheet, c.cell): c.value for c in engine_cells(read_workbook(res.output).project)}
-    assert all(got[k] == pytest.approx(v, rel=1e-15) for k, v in fresh.items())
-    # the label of an engine value's row changed: the value cannot be located -> FAILED
-    check = next(c for c in listed if c.sheet == "Checks")
-    row = check.cell.lstrip("ABCDEFGHIJKLMNOPQRSTUVWXYZ")
+    sheet, coord = _cell_of(res.output, "engine_damper_frequency")
+    # Den Hartog's f = 1/(1+mu) (Den Hartog 1956, s3.3): f_d = 0.3 / 1.02
+    assert got[(sheet, coord)] == pytest.approx(0.3 / 1.02, rel=1e-15)
+    # a named engine value whose name was deleted: the layout is damaged -> FAILED
     path = _copy(built["den_hartog"], tmp_path / "moved")
-    _set_cells(path, {("Checks", f"A{row}"): "Something else"})
+    _set_cells(path, {}, delete_names=("engine_stroke",))
     moved = recalc_workbook(path, outdir=tmp_path / "o2")
-    assert moved.status == "FAILED" and "laid out differently" in moved.error
+    assert moved.status == "FAILED" and "engine_stroke" in moved.error
     assert not (tmp_path / "o2" / path.name).exists()
+
+
+def test_renaming_every_label_changes_nothing_recalc_reads(built, tmp_path):
+    """A firm translates or rewords every label of the workbook: recalc reads and reports the
+    same (it reads cells only through the plan's defined names)."""
+    from workbook_builder.recalc.read import read_workbook as read
+    for name in ("residential_tower", "observation_mast", "office_tower_us"):
+        path = _copy(built[name], tmp_path / "labels")
+        plan = read(path).plan
+        wb = openpyxl.load_workbook(path)
+        renamed = 0
+        for sheet, cell in plan.cells():
+            if cell.kind == "label" and isinstance(cell.content, str) and cell.content:
+                wb[sheet][cell.ref].value = "Übersetzt: " + cell.content[::-1]
+                renamed += 1
+        wb.save(path)
+        assert renamed > 200
+        a = recalc_workbook(built[name], inputs={"frequency": 0.21})
+        b = recalc_workbook(path, inputs={"frequency": 0.21})
+        assert b.status == a.status and b.error is None, b.error
+        assert [str(i) for i in b.issues] == [str(i) for i in a.issues]
+        assert b.checks == a.checks
+        for key, value in a.results.items():
+            if isinstance(value, float):
+                assert b.results[key] == pytest.approx(value, rel=1e-15), key
 
 
 # ----------------------------------------------------------------------------- permissions
@@ -776,7 +798,7 @@ def test_python_m_workbook_builder_recalc(built, tmp_path):
 
 def test_unreadable_simulation_property_is_noted(built, tmp_path):
     from openpyxl.packaging.custom import StringProperty
-    from workbook_builder.build import SIMULATION_PROPERTY
+    from workbook_builder.recalc.read import SIMULATION_PROPERTY
     path = _copy(built["den_hartog"], tmp_path)
     wb = openpyxl.load_workbook(path)
     wb.custom_doc_props.append(StringProperty(name=SIMULATION_PROPERTY, value="{broken"))

@@ -23,7 +23,7 @@ from .compute import SimulationRun, run_design, run_simulation
 from .plan import FORMAT_NAME, PLAN_PROPERTY, PLAN_VERSION, Plan, make_plan, options_for
 from .plan.checks import NONLINEAR_CHECKS, check_name, cross_checked, engine_name
 from .plan.charts import chart_tables
-from .plan.model import REFRESHED_SOURCES
+from .plan.model import refreshed
 from .plan.values import Sources, plan_values
 from .project import Project
 from .project.model import settings_text
@@ -79,8 +79,7 @@ class BuiltWorkbook:
 
     def engine_cells(self) -> list[tuple[str, str, tuple]]:
         """``(sheet, cell, source)`` of every engine value recalculation recomputes."""
-        return [(s, c.ref, c.source) for s, c in self.plan.cells()
-                if c.kind == "engine" and c.source[0] in REFRESHED_SOURCES]
+        return [(s, c.ref, c.source) for s, c in self.plan.cells() if refreshed(c)]
 
 
 def title_fields(project: Project) -> dict[str, str]:

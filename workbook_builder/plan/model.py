@@ -17,7 +17,7 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 from typing import Any, Iterator
 
-__all__ = ["CELL_KINDS", "REFRESHED_SOURCES", "Cell", "Validation", "Series", "Chart",
+__all__ = ["CELL_KINDS", "REFRESHED_SOURCES", "refreshed", "Cell", "Validation", "Series", "Chart",
            "SheetPlan", "Plan"]
 
 #: Kinds of planned cells:
@@ -34,8 +34,15 @@ CELL_KINDS = ("label", "text", "input", "value", "formula", "check", "engine")
 
 #: Sources of engine values that batch recalculation recomputes: cells of the design chain,
 #: snapshots of the inputs they were computed for, chart tables. (The time-domain simulation's
-#: values, source ``sim``, are not rerun.)
+#: values and the snapshots beside them are not rerun.)
 REFRESHED_SOURCES = ("cell", "snapshot", "chart")
+
+
+def refreshed(cell: "Cell") -> bool:
+    """True for an engine value batch recalculation recomputes (see REFRESHED_SOURCES)."""
+    source = cell.source
+    return (cell.kind == "engine" and bool(source) and source[0] in REFRESHED_SOURCES
+            and not (source[0] == "snapshot" and source[1] != "design"))
 
 
 @dataclass(frozen=True)

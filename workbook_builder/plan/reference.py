@@ -52,9 +52,8 @@ def names_sheet(plan: Plan) -> SheetLayout:
     sh.merge(2, 1, 2, 5)
     sh.header(4, ["Name", "Refers to", "Quantity", "Unit", "Value"])
     row = 5
-    entries = [(name, sheet, ref, cell.label, cell.unit, True)
-               for sheet, cell in plan.cells() if cell.name and not cell.name.startswith("TB_")
-               for name, ref in [(cell.name, cell.ref)]]
+    entries = [(cell.name, sheet, cell.ref, cell.label, cell.unit, cell.kind != "text")
+               for sheet, cell in plan.cells() if cell.name]
     entries += [(name, sheet, rng, "range of values", "", False)
                 for name, (sheet, rng) in plan.range_names().items()]
     for name, sheet, ref, label, unit, single in sorted(entries):

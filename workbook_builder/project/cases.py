@@ -19,7 +19,7 @@ from typing import Any
 
 from .model import Project, ProjectError
 from .reader import parse_project
-from .schema import input_keys, simulation_keys
+from .schema import floor_keys, input_keys, simulation_keys
 
 __all__ = ["load_cases"]
 
@@ -46,7 +46,8 @@ def _cell_value(key: str, unit: str | None, cell: str) -> Any:
     if q is not None and q.kind == "flag":
         return {"true": True, "false": False}.get(cell.strip().lower(), cell.strip())
     value = _number(cell)
-    return {"value": value, "unit": unit} if unit else value
+    known = q is not None or key in floor_keys()
+    return {"value": value, "unit": unit} if unit and known else value
 
 
 def load_cases(path: str | Path) -> list[Project]:

@@ -174,8 +174,8 @@ def read_number(ctx: _Context, q: Quantity, key: str, raw: Any, system: str) -> 
         raise ctx.error(key, str(exc)) from None
     si = value * unit.factor if q.kind != "count" else value
     if not (math.isfinite(si) and q.contains(si)):
-        raise ctx.error(key, f"{value:g} {unit.symbol} must be in {q.interval(unit.factor)} "
-                             f"[{unit.symbol}]")
+        shown = f"{value:g}" if unit.symbol == "-" else f"{value:g} {unit.symbol}"
+        raise ctx.error(key, f"{shown} must be in {q.interval(unit.factor)} [{unit.symbol}]")
     return InputValue(q, value, unit, si, note, True, ctx.lines.get(key))
 
 
@@ -305,7 +305,7 @@ def parse_project(data: dict, *, source: str = "<project>", text: str = "",
             close = difflib.get_close_matches(key, sorted(known), n=1)
             hint = f" (did you mean '{close[0]}'?)" if close else ""
             raise ctx.error(key, f"unknown key{hint}")
-    if any(k.startswith("simulation.") for k in flat):
+    if isinstance(data.get("simulation"), dict):   # the table, even empty, asks for it
         flat["simulation"] = {k.split(".", 1)[1]: v for k, v in flat.items()
                               if k.startswith("simulation.")}
     info = {k: _text(ctx, f"project.{k}", flat.get(f"project.{k}", "")) for k in INFO_KEYS}

@@ -284,6 +284,12 @@ def read_workbook(path: str | os.PathLike, *, overrides: Mapping[str, float] | N
     generator = _generator(book)
     plan = _plan(book)
     options = plan.options
+    missing = [n for n in list(plan.names()) + list(plan.range_names())
+               if n not in book.defined_names]
+    if missing:
+        raise RecalcError(f"missing defined name(s) {', '.join(missing[:8])}"
+                          f"{' ...' if len(missing) > 8 else ''}: the workbook's layout is "
+                          "damaged (rebuild it from its project file)")
     names = _Names(book)
     changes = _overrides(overrides)
     issues: list[Issue] = []

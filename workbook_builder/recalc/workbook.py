@@ -31,7 +31,7 @@ from ..compute import run_design
 from ..plan.calculation import engine_flags
 from ..plan.charts import chart_tables
 from ..plan.checks import check_name, cross_checked
-from ..plan.model import REFRESHED_SOURCES, Plan
+from ..plan.model import Plan, refreshed
 from ..plan.values import Sources, source_value
 from ..xlsx.cached import CellError
 from ..xlsx.files import OverwriteRefused, guard_overwrite
@@ -139,7 +139,7 @@ def _engine_constants(data: WorkbookData, result: Any) -> tuple[dict[tuple[str, 
     out: dict[tuple[str, str], float] = {}
     issues: list[Issue] = []
     for sheet, c in plan.cells():
-        if c.kind != "engine" or c.source[0] not in REFRESHED_SOURCES:
+        if not refreshed(c):
             continue
         wsheet, coord = _locate(book, plan, sheet, c.ref, c.name)
         cell = book[wsheet].get(coord)

@@ -1,5 +1,5 @@
 # SPDX-License-Identifier: MIT
-"""Project files: TOML format, CSV table form, units, validation messages."""
+"""Project files (TOML): reading, defaults, units, floor table, [simulation], every refusal."""
 from __future__ import annotations
 
 import math
@@ -7,9 +7,10 @@ from pathlib import Path
 
 import pytest
 
-from workbook_builder.project import (INPUT_SPECS, ProjectError, load_cases, load_project,
-                                      parse_project)
-from workbook_builder.units import UNITS, unit_for
+from functions.quantities import DESIGN_INPUTS
+from workbook_builder.project import ProjectError, load_project, parse_project
+from workbook_builder.project.model import SimulationSettings
+from workbook_builder.project.reader import key_lines
 
 EXAMPLES = Path(__file__).resolve().parent.parent / "example_workbooks"
 
@@ -39,34 +40,6 @@ def write(tmp_path: Path, text: str, name: str = "p.toml") -> Path:
     return path
 
 
-# ----------------------------------------------------------------------------- units
-@pytest.mark.parametrize("kind, symbol, factor", [
-    # Exact by definition: international yard and pound agreement (1959); NIST SP 811 (2008)
-    # Appendix B: 1 ft = 0.3048 m, 1 in = 0.0254 m, 1 lb = 0.45359237 kg.
-    ("length", "ft", 0.3048),
-    ("length", "in", 0.0254),
-    ("mass", "lb", 0.45359237),
-    ("mass", "kip", 453.59237),
-    # Standard gravity 9.80665 m/s^2 exactly (3rd CGPM, 1901).
-    ("acceleration", "milli-g", 0.00980665),
-    ("acceleration", "ft/s^2", 0.3048),
-    ("mass", "t", 1000.0),
-    ("fraction", "%", 0.01),
-])
-def test_unit_factors_are_the_exact_definitions(kind, symbol, factor):
-    assert unit_for(kind, symbol).factor == pytest.approx(factor, rel=1e-15)
-
-
-def test_unknown_unit_lists_the_valid_ones():
-    with pytest.raises(ValueError, match=r"unit 'furlong' is not a length unit; use one of 'm'"):
-        unit_for("length", "furlong")
-
-
-def test_every_kind_has_an_si_unit_first():
-    assert [next(iter(u)) for u in UNITS.values()] == ["Hz", "kg", "-", "m/s^2", "m", "deg"]
-
-
-# ----------------------------------------------------------------------------- loading
 def test_minimal_project_reads_units_and_defaults(tmp_path):
     p = load_project(write(tmp_path, MINIMAL))
     assert p.si("modal_mass") == 10000 * 1000.0
@@ -95,7 +68,7 @@ def test_design_kwargs_are_si_and_complete(tmp_path):
     kw = p.design_kwargs()
     assert kw["modal_mass"] == 1e7 and kw["mass_ratio"] == 0.02 and kw["damper_mass"] is None
     assert kw["tuning_method"] == "h2"
-    assert set(kw) == {s.name for s in INPUT_SPECS} | {"tuning_method"}
+    assert set(kw) == {q.name for q in DESIGN_INPUTS}
 
 
 @pytest.mark.parametrize("name", ["residential_tower", "observation_mast", "office_tower_us"])
@@ -167,8 +140,8 @@ def test_missing_required_input(tmp_path):
 
 def test_mass_ratio_and_damper_mass_together(tmp_path):
     text = MINIMAL.replace("mass_ratio = 0.02", "mass_ratio = 0.02\ndamper_mass = 1000")
-    with pytest.raises(ProjectError, match=r"p\.toml:16: damper\.damper_mass: give "
-                                           r"damper\.mass_ratio or damper\.damper_mass"):
+    with pytest.raises(ProjectError, match=r"p\.toml:16: damper\.damper_mass: damper_mass="
+                                           r"1000\.0 and mass_ratio=0\.02: give at most one"):
         load_project(write(tmp_path, text))
 
 
@@ -194,8 +167,9 @@ def test_unknown_field_in_input_table(tmp_path):
 
 def test_practical_range_must_be_ordered(tmp_path):
     text = MINIMAL + "mass_ratio_min = 0.05\nmass_ratio_max = 0.01\n"
-    with pytest.raises(ProjectError, match=r"damper\.mass_ratio_max: 0\.01 must be above "
-                                           r"mass_ratio_min 0\.05"):
+    with pytest.raises(ProjectError, match=r"p\.toml:18: damper\.mass_ratio_max: "
+                                           r"mass_ratio_max=0\.01 must be above "
+                                           r"mass_ratio_min=0\.05"):
         load_project(write(tmp_path, text))
 
 
@@ -229,8 +203,14 @@ def test_floor_table_and_modal_mass_together(tmp_path):
 @pytest.mark.parametrize("old, new, message", [
     ("masses = [500, 500, 400]", "masses = [500, 500]", r"mode\.floors\.masses: has 2 items, "
                                                         r"heights has 3"),
-    ("building_height = 30", "building_height = 20", r"mode\.floors\.building_height: 20 must "
-                                                     r"be > 0 and not below the highest floor"),
+    ("building_height = 30", "building_height = 20", r"mode\.floors\.building_height: must "
+                                                     r"not be below the highest floor"),
+    ("building_height = 30", "building_height = -30", r"mode\.floors\.building_height: -30 m "
+                                                      r"must be in \(0, 1000\] \[m\]"),
+    ("masses = [500, 500, 400]", "masses = [5e8, 5e8, 4e8]", r"mode\.floors: the modal mass of "
+     r"the floor table, \d\.\d+e\+11 kg, must be in \(0, 1e\+11\] \[kg\] like the "
+     r"modal_mass input"),
+    ("exponent = 1.5", "exponent = 6", r"mode\.floors\.exponent: 6 must be in \(0, 5\] \[-\]"),
     ("exponent = 1.5", "exponent = 1.5\nstructure_type = \"x\"",
      r"mode\.floors: give exactly one of 'exponent' and 'structure_type'"),
     ("exponent = 1.5", "exponent = 1.5\ndamper_level = 4",
@@ -243,49 +223,6 @@ def test_floor_table_errors(tmp_path, old, new, message):
         load_project(write(tmp_path, FLOORS.replace(old, new)))
 
 
-# ----------------------------------------------------------------------------- CSV
-CSV = """\
-case,project.title,mode.frequency [Hz],mode.modal_mass [t],mode.structural_damping [%],\
-wind.acceleration [milli-g],wind.acceleration_limit [milli-g],damper.mass_ratio,damper.clearance [m]
-A,Case A,0.2,10000,1.0,25,15,0.02,1.5
-B,=Case B,0.25,12000,1.2,22,15,,1.2
-"""
-
-
-def test_csv_cases(tmp_path):
-    cases = load_cases(write(tmp_path, CSV, "cases.csv"))
-    assert [c.case for c in cases] == ["A", "B"]
-    a, b = cases
-    assert a.si("modal_mass") == 1e7 and a.si("structural_damping") == pytest.approx(0.01)
-    assert a.si("acceleration") == pytest.approx(25 * 0.00980665, rel=1e-15)
-    assert b.si("mass_ratio") is None           # empty cell: not given
-    assert b.info["title"] == "=Case B"         # text stays text
-    assert a.source_sha256 != b.source_sha256
-
-
-def test_csv_error_names_line_and_column(tmp_path):
-    text = CSV.replace("B,=Case B,0.25", "B,=Case B,-0.25")
-    with pytest.raises(ProjectError, match=r"cases\.csv:3: column mode\.frequency: -0\.25 Hz "
-                                           r"must be in \(0, 20\] \[Hz\]"):
-        load_cases(write(tmp_path, text, "cases.csv"))
-
-
-def test_csv_unknown_column(tmp_path):
-    text = CSV.replace("damper.clearance [m]", "damper.clearence [m]")
-    with pytest.raises(ProjectError, match=r"cases\.csv:2: column damper\.clearence: unknown key"):
-        load_cases(write(tmp_path, text, "cases.csv"))
-
-
-def test_csv_duplicate_case_and_empty(tmp_path):
-    text = CSV.replace("B,=Case B", "A,=Case B")
-    with pytest.raises(ProjectError, match=r"cases\.csv:3: case name 'A' is used twice"):
-        load_cases(write(tmp_path, text, "cases.csv"))
-    with pytest.raises(ProjectError, match=r"e\.csv: the case table has no rows"):
-        load_cases(write(tmp_path, CSV.splitlines()[0] + "\n", "e.csv"))
-    with pytest.raises(ProjectError, match=r"m\.csv: case table not found"):
-        load_cases(tmp_path / "m.csv")
-
-
 def test_parse_project_from_dicts():
     data = {"mode": {"frequency": 0.2, "modal_mass": 1e6, "structural_damping": 0.01},
             "wind": {"acceleration": 0.2, "acceleration_limit": 0.1},
@@ -294,7 +231,6 @@ def test_parse_project_from_dicts():
     assert p.si("frequency") == 0.2 and math.isclose(p.si("g"), 9.80665)
 
 
-# ----------------------------------------------------------------------------- [simulation]
 def test_simulation_table_defaults_and_values(tmp_path):
     from workbook_builder.project import SimulationSettings
     assert load_project(write(tmp_path, MINIMAL)).simulation is None
@@ -308,6 +244,7 @@ def test_simulation_table_defaults_and_values(tmp_path):
                                                'tolerance = 0.1\nload_factor = 2.5\n'))
     assert not p.simulate
     assert p.simulation == SimulationSettings(False, "harmonic", 120.0, 7, 0.1, 2.5)
+    assert type(p.simulation.seed) is int
 
 
 def test_examples_switch_the_simulation():
@@ -317,15 +254,18 @@ def test_examples_switch_the_simulation():
 
 
 @pytest.mark.parametrize("line, message", [
-    ('lode = "random"', r"p\.toml:19: simulation\.lode: unknown key \(did you mean 'load'\?\)"),
+    ('lode = "random"', r"p\.toml:19: simulation\.lode: unknown key \(did you mean "
+                        r"'simulation\.load'\?\)"),
     ('load = "wind"', r"p\.toml:19: simulation\.load: 'wind' must be one of "
                       r"\['random', 'harmonic'\]"),
-    ("duration = 30", r"p\.toml:19: simulation\.duration: 30 must be in \[60, 3600\] \[s\]"),
+    ("duration = 30", r"p\.toml:19: simulation\.duration: 30 s must be in \[60, 3600\] "
+                      r"\[s\]"),
     ("duration = nan", r"simulation\.duration: value nan must be a finite number"),
     ("tolerance = 0", r"p\.toml:19: simulation\.tolerance: 0 must be in \(0, 1\] \[-\]"),
     ("load_factor = 11", r"simulation\.load_factor: 11 must be in \(0, 10\] \[-\]"),
-    ("seed = -1", r"p\.toml:19: simulation\.seed: -1 must be an integer in \[0, 2\^63\)"),
-    ("seed = 1.5", r"simulation\.seed: 1\.5 must be an integer"),
+    ("seed = -1", r"p\.toml:19: simulation\.seed: -1 must be in "
+                  r"\[0, 9223372036854775808\) \[-\]"),
+    ("seed = 1.5", r"simulation\.seed: 1\.5 must be a whole number"),
     ('enabled = "yes"', r"p\.toml:19: simulation\.enabled: 'yes' must be true or false"),
 ])
 def test_simulation_errors_name_key_and_line(tmp_path, line, message):
@@ -333,18 +273,20 @@ def test_simulation_errors_name_key_and_line(tmp_path, line, message):
         load_project(write(tmp_path, MINIMAL + f"\n[simulation]\n{line}\n"))
 
 
-def test_simulation_in_csv_cases(tmp_path):
-    text = ("case,mode.frequency,mode.modal_mass [t],mode.structural_damping,"
-            "wind.acceleration,wind.acceleration_limit,damper.mass_ratio,damper.clearance,"
-            "simulation.enabled,simulation.load,simulation.duration\n"
-            "a,0.2,10000,0.01,0.25,0.15,0.02,1.5,true,harmonic,300\n"
-            "b,0.2,10000,0.01,0.25,0.15,0.02,1.5,false,random,600\n"
-            "c,0.2,10000,0.01,0.25,0.15,0.02,1.5,,,\n")
-    a, b, c = load_cases(write(tmp_path, text, "cases.csv"))
-    assert a.simulate and a.simulation.load == "harmonic" and a.simulation.duration == 300
-    assert not b.simulate and b.simulation.load == "random"
-    assert c.simulation is None and c.case == "c"
-    bad = text.replace("true,harmonic", "maybe,harmonic")
-    with pytest.raises(ProjectError, match=r"bad\.csv:2: column simulation\.enabled: "
-                                           r"'maybe' must be true or false"):
-        load_cases(write(tmp_path, bad, "bad.csv"))
+def test_key_lines_of_tables_and_keys():
+    lines = key_lines(MINIMAL)
+    assert lines["project"] == 1 and lines["mode.frequency"] == 6 and lines["damper"] == 14
+
+
+def test_a_byte_order_mark_is_accepted(tmp_path):
+    path = tmp_path / "bom.toml"
+    path.write_bytes("\ufeff".encode("utf-8") + MINIMAL.encode("utf-8"))
+    assert load_project(path).si("frequency") == 0.2
+
+
+def test_a_huge_integer_is_refused_with_the_key(tmp_path):
+    text = MINIMAL.replace("modal_mass = { value = 10000, unit = \"t\" }",
+                           "modal_mass = 1" + "0" * 400)
+    with pytest.raises(ProjectError, match=r"p\.toml:7: mode\.modal_mass: value 1000+ is too "
+                                           r"large for a number"):
+        load_project(write(tmp_path, text))
