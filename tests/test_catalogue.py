@@ -16,7 +16,6 @@ from functions import catalogue
 from functions.catalogue import FUNCTIONS, NUMBER, PREFIX, ROWS, TEXT, engine_default
 
 ROOT = Path(__file__).resolve().parent.parent
-GUIDE = ROOT / "docs" / "spreadsheet_functions.md"
 
 # Excel's limits: the largest column is XFD (16384) and the largest row 1048576 (Microsoft,
 # "Excel specifications and limits", Excel 2007 and later).
@@ -240,9 +239,3 @@ def test_reference_lists_every_function():
             assert f"`{a.name}`" in text
 
 
-def test_guide_reference_is_current():
-    """docs/spreadsheet_functions.md holds the reference generated from this catalogue."""
-    from workbook_builder.lite_export import update_reference
-    assert not update_reference(GUIDE, check=True), (
-        "the function reference is out of date: run "
-        "python -m workbook_builder.lite_export --docs docs/spreadsheet_functions.md")

@@ -18,7 +18,10 @@ import pytest
 
 from workbook_builder.xlsx import libreoffice
 from workbook_builder.build import write_workbook
-from workbook_builder.calcsheet import CROSS_CHECK_TOLERANCE
+from functions.design import CHECK_RULES
+from functions.quantities import DESIGN_RESULTS
+from functions.worksheet import TWIN_TOLERANCE as CROSS_CHECK_TOLERANCE
+from workbook_builder.plan.checks import check_name
 from workbook_builder.project import load_project
 
 pytestmark = pytest.mark.skipif(libreoffice.find_soffice() is None,
@@ -26,11 +29,7 @@ pytestmark = pytest.mark.skipif(libreoffice.find_soffice() is None,
 
 EXAMPLES = Path(__file__).resolve().parent.parent / "example_workbooks"
 NAMES = ["residential_tower", "observation_mast", "office_tower_us"]
-RESULTS = ["required_damping", "mass_ratio", "damper_mass", "tuning_ratio", "damper_damping",
-           "damper_frequency", "small_angle_length", "effective_damping",
-           "acceleration_with_damper", "structure_displacement", "stroke_ratio", "stroke",
-           "pendulum_length", "swing_angle_deg", "small_angle_error", "detuning", "stiffness",
-           "dashpot"]
+RESULTS = [q.name for q in DESIGN_RESULTS]
 
 
 @pytest.fixture(scope="module")
@@ -82,9 +81,8 @@ def test_verdicts_after_recalculation(recalculated, name):
         return values[built.names[n]]
     assert named("all_cross_checks") == "OK"
     assert named("fixed_point_converged") == "OK"
-    assert named("engine_flag_1") == "current"
-    verdicts = [values[("Checks", f"G{r}")] for r in range(4, 9)]
-    assert [v == "OK" for v in verdicts] == [ok for _, ok in built.engine_checks]
+    verdicts = [named(check_name(rule.name)) for rule in CHECK_RULES]
+    assert [v == "OK" for v in verdicts] == [c.ok for c in built.result.checks]
 
 
 @pytest.mark.parametrize("name", NAMES)
@@ -93,8 +91,10 @@ def test_engine_flags_and_nonlinear_verdict_after_recalculation(recalculated, na
     recalculation, and the Nonlinear sheet's verdict is the engine's."""
     built, _, lo = recalculated[name]
     values = libreoffice.read_values(lo)
-    flags = [n for n in built.names if n.startswith("engine_flag_")]
+    flags = [n for n in ("engine_flag_mass_ratio", "engine_flag_tuning",
+                         "engine_flag_simulation") if n in built.names]
     assert flags and all(values[built.names[n]] == "current" for n in flags)
+    assert all(values[built.names[f"{n}_ok"]] == "OK" for n in flags)
     if built.simulation is None:
         assert "sim_verdict" not in built.names
         return

@@ -193,30 +193,16 @@ def test_literal_round_trip_of_awkward_sources():
 
 
 def test_cli_writes_the_files(tmp_path, capsys):
-    assert lite_export.main_lite_export(["--out", str(tmp_path / "x")]) == 0
+    from workbook_builder import cli
+    assert cli.main(["lite-export", "--out", str(tmp_path / "x")]) == 0
     printed = capsys.readouterr().out
-    assert "CAUTION" in printed and "main.py" in printed
+    assert "CAUTION" in printed and "main.py" in printed and lite_export.NEXT_STEPS in printed
     assert (tmp_path / "x" / "main.py").exists() and (tmp_path / "x" / "requirements.txt").exists()
-
-
-def test_docs_check_and_update(tmp_path, capsys):
-    doc = tmp_path / "guide.md"
-    doc.write_text(f"intro\n{lite_export.BEGIN_MARK}\nold\n{lite_export.END_MARK}\nend\n")
-    assert lite_export.main_function_reference([str(doc), "--check"]) == 1
-    assert lite_export.main_function_reference([str(doc)]) == 0
-    assert lite_export.main_function_reference([str(doc), "--check"]) == 0
-    text = doc.read_text()
-    assert text.startswith("intro\n") and text.endswith(f"{lite_export.END_MARK}\nend\n")
-    assert "#### SWAY_EXACT_PERIOD" in text
-    bad = tmp_path / "none.md"
-    bad.write_text("no markers\n")
-    with pytest.raises(ValueError, match="reference markers not found"):
-        lite_export.update_reference(bad)
 
 
 def test_guide_gives_both_set_ups_and_the_export_command():
     guide = (ROOT / "docs" / "spreadsheet_functions.md").read_text(encoding="utf-8")
-    assert "python -m workbook_builder.lite_export --out swaytune_lite" in guide
+    assert "swaytune lite-export --out swaytune_lite" in guide
     assert "*UDF Modules*: `functions.udf`" in guide          # the classic add-in's module
     assert "xlwings addin install" in guide and "Import Functions" in guide
     assert "requirements.txt" in guide and "numpy\nscipy" in guide

@@ -65,7 +65,7 @@ def _package(path: Path, parts: dict[str, bytes | str | None] | None = None) -> 
 # ----------------------------------------------------------------------------- safety
 def test_defusedxml_is_active():
     import openpyxl.xml
-    recalc.assert_defusedxml()
+    package.assert_defusedxml()
     assert openpyxl.xml.DEFUSEDXML is True
 
 

@@ -13,8 +13,8 @@ wind-tunnel data and the manufacturer's design.
 from .batch import BatchSummary, collect_paths, recalc_many
 from .read import Issue, RecalcError, WorkbookData, read_inputs, read_workbook
 from .summary import SUMMARY_STEM, print_report, write_summary
-from .workbook import RecalcResult, recalc_workbook, write_results
+from .workbook import RecalcResult, clear_caches, recalc_workbook, write_results
 
 __all__ = ["RecalcError", "Issue", "RecalcResult", "BatchSummary", "WorkbookData",
            "read_workbook", "read_inputs", "recalc_workbook", "write_results", "recalc_many",
-           "write_summary", "print_report", "collect_paths", "SUMMARY_STEM"]
+           "write_summary", "print_report", "collect_paths", "SUMMARY_STEM", "clear_caches"]

@@ -27,7 +27,7 @@ from ..project.model import Floors, InputValue, Project, settings_from_text
 from ..project.units import unit_for
 from ..xlsx.files import MARKER_NAME, MARKER_PROPERTY
 from ..xlsx.formulas import Evaluator, FormulaError, is_error
-from ..xlsx.package import Book, Cell, PackageError, PartCache, open_package
+from ..xlsx.package import Book, Cell, PackageError, PartCache, assert_defusedxml, open_package
 
 __all__ = ["RecalcError", "Issue", "WorkbookData", "read_workbook", "read_inputs",
            "PART_CACHE", "SIMULATION_PROPERTY"]
@@ -276,6 +276,7 @@ def read_workbook(path: str | os.PathLike, *, overrides: Mapping[str, float] | N
         or newer format, missing defined names, an unknown unit, a value that is not a number
         or is outside its valid range.
     """
+    assert_defusedxml()
     path = Path(path)
     try:
         book = open_package(path, cache=PART_CACHE)

@@ -30,6 +30,7 @@ from functions.worksheet import TWIN_TOLERANCE
 from ..compute import run_design
 from ..plan.calculation import engine_flags
 from ..plan.charts import chart_tables
+from ..plan import make_plan
 from ..plan.checks import check_name, cross_checked
 from ..plan.model import Plan, refreshed
 from ..plan.values import Sources, source_value
@@ -38,11 +39,11 @@ from ..xlsx.files import OverwriteRefused, guard_overwrite
 from ..xlsx.formulas import Evaluator, FormulaError, is_error
 from ..xlsx.package import Book, Cell, PackageError, split_coord
 from ..xlsx.rewrite import write_package
-from .edits import formula_issues
-from .read import Issue, RecalcError, WorkbookData, read_workbook
+from .edits import CANON_CACHE, formula_issues
+from .read import PART_CACHE, Issue, RecalcError, WorkbookData, read_workbook
 
 __all__ = ["RecalcResult", "recalc_workbook", "write_results", "PARSE_CACHE",
-           "CHANGE_TOLERANCE", "SHORT_LABELS"]
+           "CHANGE_TOLERANCE", "SHORT_LABELS", "clear_caches"]
 
 #: Relative tolerance below which a value counts as unchanged since the last calculation [-].
 CHANGE_TOLERANCE = 1e-12
@@ -88,6 +89,14 @@ class RecalcResult:
         if self.failed:
             return "FAILED"
         return "OK" if self.checks_ok else "NOT OK"
+
+
+def clear_caches() -> None:
+    """Forget parsed formulas, parts, syntax trees and plans (a cold start, e.g. a benchmark)."""
+    PARSE_CACHE.clear()
+    PART_CACHE.clear()
+    CANON_CACHE.clear()
+    make_plan.cache_clear()
 
 
 def _close(a: Any, b: Any, rel: float = CHANGE_TOLERANCE) -> bool:

@@ -18,6 +18,7 @@ Every problem raises :class:`PackageError` (a ``ValueError``) with a reason fit 
 """
 from __future__ import annotations
 
+import importlib.util
 import posixpath
 import re
 import zipfile
@@ -26,10 +27,11 @@ from pathlib import Path
 from typing import Any
 from xml.etree.ElementTree import ParseError, fromstring
 
+import openpyxl.xml
 from openpyxl.formula.translate import Translator
 from openpyxl.utils import column_index_from_string, get_column_letter
 
-__all__ = ["PackageError", "Book", "Sheet", "Cell", "open_package", "PartCache", "sheet_parts",
+__all__ = ["assert_defusedxml", "PackageError", "Book", "Sheet", "Cell", "open_package", "PartCache", "sheet_parts",
            "split_coord", "MAX_MEMBER_BYTES", "MAX_PACKAGE_BYTES", "MAX_RATIO"]
 
 #: Largest uncompressed size of one package member and of the whole package [bytes].
@@ -42,6 +44,25 @@ _OLE_MAGIC = b"\xd0\xcf\x11\xe0\xa1\xb1\x1a\xe1"
 _NS_MAIN = "http://schemas.openxmlformats.org/spreadsheetml/2006/main"
 _NS_REL = "http://schemas.openxmlformats.org/officeDocument/2006/relationships"
 _NS_PKG_REL = "http://schemas.openxmlformats.org/package/2006/relationships"
+
+
+def assert_defusedxml() -> None:
+    """Check that defusedxml is installed and that openpyxl uses it.
+
+    Untrusted workbooks are read by this module's own parser (DTDs refused); openpyxl, which
+    reads a firm's template and a user's edited workbook elsewhere, must resolve no entities.
+
+    Raises
+    ------
+    RuntimeError
+        When defusedxml is missing or openpyxl was imported without it.
+    """
+    if importlib.util.find_spec("defusedxml") is None:  # pragma: no cover - a dependency
+        raise RuntimeError("defusedxml is not installed; it is required to read untrusted "
+                           "workbooks safely (pip install defusedxml)")
+    if not getattr(openpyxl.xml, "DEFUSEDXML", False):  # pragma: no cover
+        raise RuntimeError("openpyxl is not using defusedxml (OPENPYXL_DEFUSEDXML set to "
+                           "False?); refusing to read untrusted workbooks")
 
 
 class PackageError(ValueError):
