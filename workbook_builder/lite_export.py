@@ -27,6 +27,8 @@ import re
 import textwrap
 from pathlib import Path
 
+from functions.catalogue import FUNCTIONS
+
 __all__ = [
     "EXPORT_PACKAGE", "CAUTION", "NEXT_STEPS", "module_name", "engine_sources",
     "engine_packages", "build_main_py", "build_requirements", "export_lite",
@@ -149,8 +151,6 @@ _install()
 
 def build_main_py(engine_dir: Path | None = None) -> str:
     """Text of the exported ``main.py``."""
-    from functions.catalogue import FUNCTIONS
-
     sources = engine_sources(engine_dir)
     packages = engine_packages(engine_dir)
     names = [fn.python_name for fn in FUNCTIONS]
