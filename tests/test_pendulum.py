@@ -128,7 +128,8 @@ def test_near_180_asymptote():
 @pytest.mark.parametrize("amplitude", [0.1, 1.0, 3.0, 5.0, 8.0])
 def test_legendre_series(amplitude):
     # T/T0 = 1 + th^2/16 + 11 th^4/3072 + 173 th^6/737280 + 22931 th^8/1321205760 + O(th^10)
-    # (coefficients computed, see REFERENCES.md; the series in k^2 is A&S 17.3.11).
+    # (coefficients computed by expanding 2K(m)/pi in theta with mpmath; the series in k^2 is
+    # A&S 17.3.11).
     th = math.radians(amplitude)
     series = th**2 / 16 + 11 * th**4 / 3072 + 173 * th**6 / 737280 + 22931 * th**8 / 1321205760
     # truncation ~ th^10 * 1.3e-6 relative to e ~ th^2/16

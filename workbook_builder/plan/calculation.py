@@ -9,7 +9,7 @@ that says whether they have changed since (:func:`engine_flag`).
 """
 from __future__ import annotations
 
-from functions.chain import sections
+from functions import chain
 from functions.quantities import quantity
 
 from ..project.units import US_DISPLAY
@@ -94,7 +94,7 @@ def calculation_sheet(options: PlanOptions) -> SheetLayout:
               + (["Value (US)", "US unit"] if us else []))
     flags = dict(engine_flags(options))
     row = 5
-    for sec in sections(options.tuning_method, options.mass_ratio_mode):
+    for sec in chain.sections(options.tuning_method, options.mass_ratio_mode):
         sh.section(row, sec.title, 7)
         row += 1
         if sec.note:
