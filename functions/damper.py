@@ -305,6 +305,13 @@ def optimal_tuning(mass_ratio, method="den_hartog", structural_damping=0.0):
                 f"method={method!r} (a closed form for an undamped structure); use "
                 f"method='h2' or 'hinf' for a damped structure")
         f, zd = _closed_form(mu, method)
+        bad = ~(np.isfinite(zd) & (zd < 1.0) & np.isfinite(f) & (f > 0.0))
+        if np.any(bad):
+            i = int(np.flatnonzero(bad.ravel())[0])
+            raise ValueError(
+                f"mass_ratio={mu.ravel()[i].item()!r} gives a damper damping of "
+                f"{zd.ravel()[i].item():.3g} (critical or above) for method={method!r}: the "
+                "closed form does not hold for so heavy a damper; use a smaller mass ratio")
         return scalar_or_array(f), scalar_or_array(zd)
     shape = mu.shape
     f, zd = _numerical_optimum(mu.ravel().copy(), zs.ravel().copy(), method)

@@ -407,7 +407,14 @@ def equivalent_length(frequency, amplitude_deg=0.0, g=STANDARD_GRAVITY):
     a = _amplitude(amplitude_deg)
     gg = _gravity(g)
     ratio = 1.0 + _period_ratio_minus_one(a)
-    return scalar_or_array(gg / (2.0 * np.pi * f * ratio) ** 2)
+    with np.errstate(over="ignore", under="ignore", divide="ignore"):
+        length = gg / (2.0 * np.pi * f * ratio) ** 2
+    if not np.all(np.isfinite(length)):
+        f, length = broadcast(frequency=f, length=length)
+        i = int(np.flatnonzero(~np.isfinite(length).ravel())[0])
+        raise ValueError(f"frequency={f.ravel()[i].item()!r} [Hz] is too small for a pendulum: "
+                         "its length g/(2 pi f)^2 is beyond the largest number")
+    return scalar_or_array(length)
 
 
 def compound_pendulum_length(inertia_about_pivot, mass, pivot_to_centre):

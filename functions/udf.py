@@ -84,7 +84,11 @@ def _classify(name: str, value: Any) -> tuple[int, float, str]:
     if isinstance(value, numbers.Real) and not isinstance(value, (bool, np.bool_)):
         try:
             x = float(value)
-        except (OverflowError, ValueError, TypeError):
+        except OverflowError:
+            digits = len(str(abs(int(value))))
+            return _BAD, 0.0, (f"{name}: a number of {digits} digits is too large (the "
+                               "largest is about 1.8e308)")
+        except (ValueError, TypeError):
             x = math.nan
         if math.isfinite(x):
             return _OK, x, ""

@@ -138,7 +138,7 @@ def test_guard_hand_edits_refuses_an_edited_workbook_unless_forced(tmp_path):
     back = openpyxl.load_workbook(path)
     back["Calculation"]["B1"] = 3.0         # an engineer's edit, saved with the old digest
     back.save(path)
-    with pytest.raises(OverwriteRefused, match=r"was changed after swaytune built it"):
+    with pytest.raises(OverwriteRefused, match=r"was changed after swaytune (built|wrote) it"):
         guard_hand_edits(path)
     guard_hand_edits(path, force=True)
 
@@ -184,7 +184,7 @@ def test_refuses_to_overwrite_a_workbook_changed_after_the_build(tmp_path):
     wb[sheet]["I5"] = "checked by hand, see my note"  # an engineer's edit
     wb.save(out)
     before = out.read_bytes()
-    with pytest.raises(OverwriteRefused, match=r"was changed after swaytune built it"):
+    with pytest.raises(OverwriteRefused, match=r"was changed after swaytune (built|wrote) it"):
         write_workbook(project, out)
     assert out.read_bytes() == before
     write_workbook(project, out, force=True)

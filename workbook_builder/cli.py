@@ -19,22 +19,25 @@ from __future__ import annotations
 
 import argparse
 import os
-import re
 import shutil
 import sys
 import tempfile
 from pathlib import Path
 from typing import Sequence
 
+from functions.worksheet import TWIN_TOLERANCE
+
 from . import __version__
-from .build import write_workbook
+from .build import BuildError, BuiltWorkbook, write_workbook
 from .reference_docs import update_docs
 from .lite_export import NEXT_STEPS, export_lite
 from .plan.reference import CAUTIONS
-from .project import ProjectError, load_cases, load_project
+from .progress import Progress
+from .project import ProjectError, load_cases, load_project, output_names
 from .recalc import print_report, recalc_many
 from .xlsx import libreoffice
 from .xlsx.compare import compare_workbooks
+from .xlsx.draw import DrawError
 from .xlsx.files import OverwriteRefused, guard_hand_edits, guard_overwrite
 
 __all__ = ["main", "summary_table", "print_cautions", "EXAMPLES_DIR"]
@@ -53,34 +56,33 @@ def print_cautions(stream=None) -> None:
         print(f"  * {text}", file=stream)
 
 
-def summary_table(rows: list[tuple[str, object]]) -> str:
-    """Plain-text table of key results and verdicts, one line per built workbook.
+def summary_line(label: str, built: BuiltWorkbook) -> list[str]:
+    """One line of the build summary: key results and verdicts of a built workbook."""
+    v = built.value
+    design = "OK" if all(verdict == "OK" for _, verdict in built.design_verdicts) \
+        else "NOT OK: " + ", ".join(lab.split(" within")[0] for lab, verdict in
+                                   built.design_verdicts if verdict != "OK")
+    worst = max(rel for *_, rel in built.cross_checks)
+    nonlinear = "-"
+    if built.simulation is not None:
+        sim = built.simulation.result
+        bad = [lab.split(" within")[0] for lab, verdict in built.nonlinear_verdicts
+               if verdict != "OK"]
+        nonlinear = (f"OK ({sim.departure:.1%}, swing {sim.nonlinear.swing_deg:.1f} deg)"
+                     if not bad else "NOT OK: " + ", ".join(bad))
+    return [label, f"{v('mass_ratio'):.4f}", f"{v('damper_mass'):,.0f}",
+            f"{v('damper_frequency'):.4f}", f"{v('pendulum_length'):.3f}",
+            f"{v('stroke'):.3f}", f"{v('swing_angle_deg'):.2f}",
+            f"{v('acceleration_with_damper'):.4f}", f"{v('acceleration_limit'):.4f}",
+            design, f"OK ({worst:.0e})" if worst <= TWIN_TOLERANCE else f"NOT OK ({worst:.1e})",
+            nonlinear]
 
-    ``rows`` holds ``(label, BuiltWorkbook)`` pairs.
-    """
+
+def summary_table(lines: list[list[str]]) -> str:
+    """Plain-text table of :func:`summary_line` lines, with a header."""
     head = ["Workbook", "mu [-]", "m_d [kg]", "f_d [Hz]", "L [m]", "stroke [m]",
             "swing [deg]", "a_d [m/s^2]", "a_lim [m/s^2]", "design", "cross-check",
             "nonlinear"]
-    lines = []
-    for label, built in rows:
-        v = built.value
-        design = "OK" if all(verdict == "OK" for _, verdict in built.design_verdicts) \
-            else "NOT OK: " + ", ".join(lab.split(" within")[0] for lab, verdict in
-                                       built.design_verdicts if verdict != "OK")
-        worst = max(rel for *_, rel in built.cross_checks)
-        nonlinear = "-"
-        if getattr(built, "simulation", None) is not None:
-            sim = built.simulation.result
-            bad = [lab.split(" within")[0] for lab, verdict in built.nonlinear_verdicts
-                   if verdict != "OK"]
-            nonlinear = (f"OK ({sim.departure:.1%}, swing {sim.nonlinear.swing_deg:.1f} deg)"
-                         if not bad else "NOT OK: " + ", ".join(bad))
-        lines.append([label, f"{v('mass_ratio'):.4f}", f"{v('damper_mass'):,.0f}",
-                      f"{v('damper_frequency'):.4f}", f"{v('pendulum_length'):.3f}",
-                      f"{v('stroke'):.3f}", f"{v('swing_angle_deg'):.2f}",
-                      f"{v('acceleration_with_damper'):.4f}", f"{v('acceleration_limit'):.4f}",
-                      design, f"OK ({worst:.0e})" if worst <= 1e-9 else f"NOT OK ({worst:.1e})",
-                      nonlinear])
     widths = [max(len(str(r[i])) for r in [head] + lines) for i in range(len(head))]
     out = ["  ".join(str(c).ljust(w) for c, w in zip(head, widths))]
     out.append("  ".join("-" * w for w in widths))
@@ -88,17 +90,14 @@ def summary_table(rows: list[tuple[str, object]]) -> str:
     return "\n".join(out)
 
 
-def _safe_name(text: str) -> str:
-    name = re.sub(r"[^A-Za-z0-9._-]+", "_", text).strip("._")
-    return name or "case"
-
-
-def _build_one(project, out: Path, args) -> object:
+def _build_one(project, out: Path, args) -> list[str]:
     built = write_workbook(project, out, force=args.force, template=args.template)
     print(f"wrote {out}")
+    for warning in project.warnings:
+        print(f"warning: {out.name}: {warning}", file=sys.stderr)
     if getattr(args, "pdf", False):
         _pdf(out, out.parent)
-    return built
+    return summary_line(out.name, built)      # the workbook itself is not kept: flat memory
 
 
 def _pdf(path: Path, outdir: Path) -> None:
@@ -111,24 +110,46 @@ def _pdf(path: Path, outdir: Path) -> None:
 
 def _cmd_build(args) -> int:
     source = Path(args.source)
-    rows = []
-    if source.suffix.lower() == ".csv":
-        projects = load_cases(source)
-        outdir = Path(args.output) if args.output else source.with_name(source.stem + "_workbooks")
-        if outdir.suffix.lower() == ".xlsx":
-            print("error: a case table builds one workbook per row; -o must be a directory",
-                  file=sys.stderr)
-            return 2
-        for project in projects:
-            out = outdir / f"{_safe_name(project.case)}.xlsx"
-            rows.append((out.name, _build_one(project, out, args)))
-    else:
+    if source.suffix.lower() != ".csv":
         project = load_project(source)
         out = Path(args.output) if args.output else source.with_suffix(".xlsx")
-        rows.append((out.name, _build_one(project, out, args)))
+        lines = [_build_one(project, out, args)]
+        print()
+        print(summary_table(lines))
+        return 0
+    projects = load_cases(source)
+    names = output_names(projects)           # distinct names, checked before writing anything
+    outdir = Path(args.output) if args.output else source.with_name(source.stem + "_workbooks")
+    if outdir.suffix.lower() == ".xlsx" or (outdir.exists() and not outdir.is_dir()):
+        print(f"error: {outdir}: a case table builds one workbook per row; -o must be a "
+              "folder", file=sys.stderr)
+        return 2
+    lines, failed = [], []
+    bar = Progress(len(projects), enabled=not args.no_progress)
+    try:
+        for project, name in zip(projects, names):
+            try:
+                lines.append(_build_one(project, outdir / name, args))
+                bar.update(name, "written")
+            except (ValueError, BuildError, DrawError, OverwriteRefused) as exc:
+                failed.append((project.case, str(exc)))      # the other rows are built
+                bar.update(name, "FAILED")
+    except KeyboardInterrupt:
+        _report_cases(lines, failed, len(projects))
+        print(f"interrupted after {len(lines)} of {len(projects)} workbooks; every file "
+              "written is complete (atomic writes)", file=sys.stderr)
+        return 130
+    _report_cases(lines, failed, len(projects))
+    return 1 if failed else 0
+
+
+def _report_cases(lines: list[list[str]], failed: list[tuple[str, str]], total: int) -> None:
     print()
-    print(summary_table(rows))
-    return 0
+    if lines:
+        print(summary_table(lines))
+    for case, reason in failed:
+        print(f"FAILED  case {case!r}: {reason}", file=sys.stderr)
+    print(f"\n{len(lines)} of {total} workbook(s) written, {len(failed)} failed")
 
 
 def _cmd_examples(args) -> int:
@@ -137,18 +158,18 @@ def _cmd_examples(args) -> int:
     if not sources:
         print(f"error: no example projects (*.toml) in {folder}", file=sys.stderr)
         return 1
-    rows = []
+    lines = []
     for source in sources:
         project = load_project(source)
         out = source.with_suffix(".xlsx")
         args.template = None
-        rows.append((out.name, _build_example(project, out, args)))
+        lines.append(_build_example(project, out, args))
     print()
-    print(summary_table(rows))
+    print(summary_table(lines))
     return 0
 
 
-def _build_example(project, out: Path, args) -> object:
+def _build_example(project, out: Path, args) -> list[str]:
     """Rebuild an example; leave the file untouched when only timestamps would change.
 
     Keeps a clean working tree after the README's main command when the code has not changed.
@@ -168,7 +189,7 @@ def _build_example(project, out: Path, args) -> object:
             print(f"up to date {out}")
     finally:
         shutil.rmtree(scratch, ignore_errors=True)
-    return built
+    return summary_line(out.name, built)
 
 
 def _cmd_pdf(args) -> int:
@@ -244,6 +265,8 @@ def _parser() -> argparse.ArgumentParser:
     b.add_argument("--force", action="store_true",
                    help="overwrite an existing output even if swaytune did not make it")
     b.add_argument("--pdf", action="store_true", help="also export a PDF (needs LibreOffice)")
+    b.add_argument("--no-progress", action="store_true",
+                   help="no progress bar for a case table")
     b.set_defaults(func=_cmd_build)
 
     e = sub.add_parser("examples", help="build every example project (*.toml) into its .xlsx "
@@ -268,6 +291,8 @@ def _parser() -> argparse.ArgumentParser:
                                            "SWAY_ worksheet functions work in xlwings Lite")
     x.add_argument("--out", default="swaytune_lite",
                    help="folder to write into (created if missing; default: swaytune_lite)")
+    x.add_argument("--force", action="store_true",
+                   help="replace main.py and requirements.txt there even if they differ")
     x.set_defaults(func=_cmd_lite_export)
 
     d = sub.add_parser("docs", help="regenerate the reference tables in docs/ from the "
@@ -280,7 +305,7 @@ def _parser() -> argparse.ArgumentParser:
 
 
 def _cmd_lite_export(args) -> int:
-    for path in export_lite(args.out):
+    for path in export_lite(args.out, force=args.force):
         print(f"wrote {path}")
     print(NEXT_STEPS)
     return 0
@@ -304,8 +329,17 @@ def main(argv: Sequence[str] | None = None) -> int:
     args = _parser().parse_args(argv)
     try:
         status = args.func(args)
-    except (ProjectError, OverwriteRefused, ValueError, FileNotFoundError) as exc:
+    except KeyboardInterrupt:
+        print("\ninterrupted: every file already written is complete (atomic writes); "
+              "nothing half-written was left", file=sys.stderr)
+        return 130
+    except (ProjectError, OverwriteRefused, ValueError) as exc:
         print(f"error: {exc}", file=sys.stderr)
+        print_cautions(sys.stderr)
+        return 1
+    except OSError as exc:       # read-only folder, full disk, a file where a folder belongs
+        where = f"{exc.filename}: " if exc.filename else ""
+        print(f"error: {where}{exc.strerror or exc}", file=sys.stderr)
         print_cautions(sys.stderr)
         return 1
     print_cautions()

@@ -29,6 +29,8 @@ from pathlib import Path
 
 from functions.catalogue import FUNCTIONS
 
+from .xlsx.files import FORCE_HINT, OverwriteRefused, atomic_path
+
 __all__ = [
     "EXPORT_PACKAGE", "CAUTION", "NEXT_STEPS", "module_name", "engine_sources",
     "engine_packages", "build_main_py", "build_requirements", "export_lite",
@@ -180,14 +182,33 @@ def build_requirements() -> str:
     return "numpy\nscipy\n"
 
 
-def export_lite(out_dir: str | Path, engine_dir: Path | None = None) -> list[Path]:
-    """Write ``main.py`` and ``requirements.txt`` for xlwings Lite into ``out_dir``."""
+def export_lite(out_dir: str | Path, engine_dir: Path | None = None, *,
+                force: bool = False) -> list[Path]:
+    """Write ``main.py`` and ``requirements.txt`` for xlwings Lite into ``out_dir``.
+
+    A file already there is replaced only when it holds what would be written anyway, or with
+    ``force``; the files are written atomically.
+
+    Raises
+    ------
+    OverwriteRefused
+        When ``out_dir`` holds a different ``main.py`` or ``requirements.txt`` (a user's own
+        code) and ``force`` is False, or ``out_dir`` is a file.
+    """
     out = Path(out_dir)
-    out.mkdir(parents=True, exist_ok=True)
-    main_py = out / "main.py"
-    requirements = out / "requirements.txt"
-    text = build_main_py(engine_dir)
-    compile(text, str(main_py), "exec")          # refuse to write a file that does not parse
-    main_py.write_text(text, encoding="utf-8")
-    requirements.write_text(build_requirements(), encoding="utf-8")
-    return [main_py, requirements]
+    if out.exists() and not out.is_dir():
+        raise OverwriteRefused(f"{out} is a file; --out must be a folder")
+    files = {out / "main.py": build_main_py(engine_dir),
+             out / "requirements.txt": build_requirements()}
+    compile(files[out / "main.py"], str(out / "main.py"), "exec")   # never write broken code
+    for path, text in files.items():
+        if not force and path.exists() and path.read_text(encoding="utf-8",
+                                                          errors="replace") != text:
+            if not path.read_text(encoding="utf-8", errors="replace").startswith(
+                    "# SPDX-License-Identifier: MIT\n\"\"\"swaytune spreadsheet functions"):
+                raise OverwriteRefused(f"{path} exists and differs from the export; refusing "
+                                       f"to replace it ({FORCE_HINT})")
+    for path, text in files.items():
+        with atomic_path(path) as tmp:
+            tmp.write_text(text, encoding="utf-8")
+    return list(files)

@@ -7,9 +7,9 @@
     reader   TOML project files: parse, validate, name file, line and key in every refusal
     cases    CSV case tables: one project per row
 """
-from .cases import load_cases
+from .cases import load_cases, output_names
 from .model import Floors, InputValue, Project, ProjectError, SimulationSettings
 from .reader import load_project, parse_project
 
-__all__ = ["load_cases", "load_project", "parse_project", "Project", "ProjectError",
+__all__ = ["load_cases", "output_names", "load_project", "parse_project", "Project", "ProjectError",
            "InputValue", "Floors", "SimulationSettings"]

@@ -130,6 +130,8 @@ class Project:
     case: str = ""
     lines: dict[str, int] = field(default_factory=dict, compare=False, repr=False)
     simulation: Any = None            # SimulationSettings; None: no [simulation] table
+    #: Warnings about valid but doubtful inputs (e.g. a damper where the mode hardly moves).
+    warnings: tuple[str, ...] = ()
 
     @property
     def tuning_method(self) -> str:

@@ -62,7 +62,8 @@ from .schema import (FLOOR_LISTS, INFO_KEYS, OPTION_KEYS, floor_keys, input_keys
                      known_keys, simulation_keys)
 from .units import DEFAULT_UNITS, SI_UNIT, unit_for
 
-__all__ = ["parse_project", "load_project", "key_lines", "read_number", "input_quantity_key"]
+__all__ = ["parse_project", "load_project", "key_lines", "read_number", "input_quantity_key",
+           "check_text", "floor_warnings", "ILLEGAL_TEXT", "MAX_TEXT", "SMALL_ORDINATE"]
 
 _HEADER_RE = re.compile(r"^\s*\[\s*([A-Za-z0-9_.\-\s\"']+?)\s*\]\s*(#.*)?$")
 _KEY_RE = re.compile(r"^\s*([A-Za-z0-9_\-\"'.\s]+?)\s*=")
@@ -158,7 +159,7 @@ def read_number(ctx: _Context, q: Quantity, key: str, raw: Any, system: str) -> 
         if "note" in raw:
             if not isinstance(raw["note"], str):
                 raise ctx.error(key, f"note {raw['note']!r} must be text")
-            note = raw["note"]
+            note = check_text(ctx, f"{key}.note", raw["note"])
         raw = raw["value"]
     if q.kind == "count":
         if isinstance(raw, bool) or not isinstance(raw, int):
@@ -253,6 +254,23 @@ def _read_floors(ctx: _Context, flat: dict[str, Any], system: str) -> Floors:
     return floors
 
 
+def floor_warnings(floors: Floors) -> list[str]:
+    """Warnings about a floor table: a damper where the mode hardly moves."""
+    heights = floors.heights_si
+    ratio = (heights[floors.damper_level - 1] / max(heights)) ** floors.exponent
+    if ratio >= SMALL_ORDINATE:
+        return []
+    return [f"the damper's floor {floors.damper_level} moves only {ratio:.0%} as much as the "
+            f"highest floor in this mode: a damper there works poorly, and the modal mass "
+            f"normalised to it ({floors.modal_mass():.4g} kg) grows as 1/phi^2; check the "
+            "damper's floor"]
+
+
+#: Mode ordinate at the damper, relative to the highest floor's, below which a floor table gets
+#: a warning (common practice, no source: dampers sit where the mode moves most).
+SMALL_ORDINATE = 0.5
+
+
 def _read_simulation(ctx: _Context, flat: dict[str, Any]) -> Any:
     raw = flat["simulation"]
     if not isinstance(raw, dict):
@@ -278,12 +296,31 @@ def _read_simulation(ctx: _Context, flat: dict[str, Any]) -> Any:
     return SimulationSettings(**values)
 
 
+#: Characters a workbook cell cannot hold (XML 1.0): control characters but tab, line feed and
+#: carriage return, and the non-characters U+FFFE, U+FFFF.
+ILLEGAL_TEXT = re.compile("[\x00-\x08\x0b\x0c\x0e-\x1f\ufffe\uffff]")
+#: Longest text a cell holds [characters].
+MAX_TEXT = 32767
+
+
+def check_text(ctx: _Context, key: str, text: str) -> str:
+    """Text a cell can hold, or ProjectError naming the key (never cut or changed)."""
+    bad = ILLEGAL_TEXT.search(text)
+    if bad:
+        raise ctx.error(key, f"holds the character U+{ord(bad.group()):04X} at position "
+                             f"{bad.start() + 1}, which a workbook cell cannot store")
+    if len(text) > MAX_TEXT:
+        raise ctx.error(key, f"is {len(text)} characters long; a cell holds at most "
+                             f"{MAX_TEXT}")
+    return text
+
+
 def _text(ctx: _Context, key: str, v: Any) -> str:
     if not isinstance(v, str):
         v = v.isoformat() if hasattr(v, "isoformat") else v
         if not isinstance(v, str):
             raise ctx.error(key, f"{v!r} must be text (in quotes)")
-    return v
+    return check_text(ctx, key, v)
 
 
 def parse_project(data: dict, *, source: str = "<project>", text: str = "",
@@ -335,8 +372,9 @@ def parse_project(data: dict, *, source: str = "<project>", text: str = "",
         raise ctx.error(input_quantity_key(name), message)
     simulation = _read_simulation(ctx, flat) if "simulation" in flat else None
     digest = hashlib.sha256(text.encode("utf-8")).hexdigest()
+    warnings = tuple(floor_warnings(floors)) if floors is not None else ()
     return Project(source, digest, info, system, paper, inputs, floors, case, lines,
-                   simulation)
+                   simulation, warnings)
 
 
 def input_quantity_key(name: str) -> str:
@@ -364,4 +402,9 @@ def load_project(path: str | Path) -> Project:
         data = tomllib.loads(text)
     except tomllib.TOMLDecodeError as exc:
         raise ProjectError(f"{path}: not a valid TOML file: {exc}") from None
+    bad = ILLEGAL_TEXT.search(path.name)
+    if bad:
+        raise ProjectError(f"{path.name!r}: the file name holds the character "
+                           f"U+{ord(bad.group()):04X}, which a workbook cell (its Record "
+                           "sheet) cannot store; rename the file")
     return parse_project(data, source=path.name, text=text)

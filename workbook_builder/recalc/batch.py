@@ -19,7 +19,8 @@ from dataclasses import dataclass
 from pathlib import Path
 from typing import Iterable
 
-from .summary import SUMMARY_STEM, summary_row, write_summary
+from ..progress import Progress
+from .summary import SUMMARY_STEM, guard_summary, summary_row, write_summary
 from .workbook import RecalcResult, _same_file, recalc_workbook
 
 __all__ = ["BatchSummary", "collect_paths", "recalc_many"]
@@ -106,35 +107,6 @@ def _task(args) -> RecalcResult:
     return recalc_workbook(path, output=output, compare_layout=compare, force=force)
 
 
-class _Progress:
-    def __init__(self, total: int, enabled: bool, stream=None):
-        self.total = total
-        self.stream = stream or sys.stderr
-        self.enabled = enabled and total > 0
-        self.tty = bool(getattr(self.stream, "isatty", lambda: False)())
-        self.done = 0
-        self.t0 = time.perf_counter()
-        self.step = max(1, total // 10)
-
-    def update(self, res: RecalcResult) -> None:
-        self.done += 1
-        if not self.enabled:
-            return
-        width = 30
-        filled = int(width * self.done / self.total)
-        elapsed = time.perf_counter() - self.t0
-        eta = elapsed / self.done * (self.total - self.done)
-        line = (f"[{'#' * filled}{'.' * (width - filled)}] {self.done}/{self.total} "
-                f"{elapsed:5.1f}s elapsed, ~{eta:4.1f}s left  {res.path.name}: {res.status}")
-        if self.tty:
-            self.stream.write("\r" + line[:120].ljust(120))
-            if self.done == self.total:
-                self.stream.write("\n")
-        elif self.done % self.step == 0 or self.done == self.total:
-            self.stream.write(line + "\n")
-        self.stream.flush()
-
-
 def recalc_many(paths: Iterable[str | os.PathLike], outdir: str | os.PathLike | None = None,
                 jobs: int = 1, progress: bool = True, *, in_place: bool = False,
                 backup: bool = True, summary: str | os.PathLike | None = None,
@@ -171,13 +143,22 @@ def recalc_many(paths: Iterable[str | os.PathLike], outdir: str | os.PathLike | 
     Raises
     ------
     ValueError
-        When neither ``outdir`` nor ``in_place`` is given, both are, or ``jobs`` < 1.
+        When neither ``outdir`` nor ``in_place`` is given, both are, ``jobs`` < 1, or the
+        output folder is a file.
+    OverwriteRefused
+        When a file named like the summary exists and is not an earlier summary (unless
+        ``force``); checked before any workbook is recalculated.
     """
     t0 = time.perf_counter()
     if in_place == (outdir is not None):
         raise ValueError("give an output folder (outdir) or in_place=True, not both or neither")
     if int(jobs) < 1:
         raise ValueError(f"jobs={jobs!r} must be >= 1")
+    if outdir is not None and Path(outdir).exists() and not Path(outdir).is_dir():
+        raise ValueError(f"the output folder {outdir} is a file; give a folder")
+    base = Path(summary) if summary is not None else (
+        Path(outdir) / SUMMARY_STEM if outdir is not None else Path.cwd() / SUMMARY_STEM)
+    guard_summary(base, force)              # before any work: never clobber the user's files
     items = collect_paths(paths, exclude=outdir)
     tasks = []
     planned: dict[Path, Path] = {}
@@ -199,32 +180,43 @@ def recalc_many(paths: Iterable[str | os.PathLike], outdir: str | os.PathLike | 
     results: list[RecalcResult | None] = [None] * len(items)
     for i, r in pre_failed.items():
         results[i] = r
-    bar = _Progress(len(items), progress)
+    bar = Progress(len(items), progress)
     for r in pre_failed.values():
-        bar.update(r)
+        bar.update(r.path.name, r.status)
     interrupted = False
     try:
         if int(jobs) == 1 or len(tasks) <= 1:
             for i, args in tasks:
                 results[i] = _task(args)
-                bar.update(results[i])
+                bar.update(results[i].path.name, results[i].status)
         else:
             ctx = mp.get_context("fork" if "fork" in mp.get_all_start_methods() else "spawn")
             with cf.ProcessPoolExecutor(max_workers=int(jobs), mp_context=ctx,
                                         initializer=_worker_init) as pool:
                 futures = {pool.submit(_task, args): i for i, args in tasks}
+
+                def collect(fut) -> None:
+                    i = futures[fut]
+                    try:
+                        results[i] = fut.result()
+                    except Exception as exc:  # noqa: BLE001 - a worker died
+                        results[i] = RecalcResult(path=_tasks_path(tasks, i),
+                                                  error=f"worker failed: {exc}")
+                    bar.update(results[i].path.name, results[i].status)
+
                 try:
                     for fut in cf.as_completed(futures):
-                        i = futures[fut]
-                        try:
-                            results[i] = fut.result()
-                        except Exception as exc:  # noqa: BLE001 - a worker died
-                            results[i] = RecalcResult(path=_tasks_path(tasks, i),
-                                                      error=f"worker failed: {exc}")
-                        bar.update(results[i])
+                        collect(fut)
                 except KeyboardInterrupt:
+                    # stop handing out work; the running workers ignore Ctrl-C and finish
+                    # their (atomic) writes: wait for them and report what they did
                     for fut in futures:
                         fut.cancel()
+                    running = [f for f in futures if not f.cancelled()]
+                    cf.wait(running)
+                    for fut in running:
+                        if results[futures[fut]] is None:
+                            collect(fut)
                     raise
     except KeyboardInterrupt:
         interrupted = True
@@ -235,9 +227,7 @@ def recalc_many(paths: Iterable[str | os.PathLike], outdir: str | os.PathLike | 
                                                   error="not recalculated (interrupted)")
             for i, r in enumerate(results)]
     batch = BatchSummary(done, interrupted=interrupted)
-    base = Path(summary) if summary is not None else (
-        Path(outdir) / SUMMARY_STEM if outdir is not None else Path.cwd() / SUMMARY_STEM)
-    batch.summary_xlsx, batch.summary_csv = write_summary(batch, base)
+    batch.summary_xlsx, batch.summary_csv = write_summary(batch, base, force=force)
     batch.seconds = time.perf_counter() - t0
     return batch
 

@@ -24,10 +24,12 @@ from functions.quantities import design_inputs, design_results
 
 from .. import __version__
 from ..plan.reference import CAUTIONS
-from ..xlsx.files import atomic_path
+from ..xlsx.files import (FORCE_HINT, OverwriteRefused, atomic_path, guard_overwrite,
+                          mark_workbook)
 from .workbook import SHORT_LABELS, RecalcResult
 
-__all__ = ["summary_row", "write_summary", "print_report", "csv_safe", "SUMMARY_STEM"]
+__all__ = ["summary_row", "write_summary", "print_report", "csv_safe", "SUMMARY_STEM",
+           "guard_summary", "summary_paths"]
 
 #: File stem of the batch summary (``recalc_summary.xlsx`` and ``.csv``); folder scans skip it.
 SUMMARY_STEM = "recalc_summary"
@@ -83,19 +85,53 @@ def csv_safe(v: Any) -> Any:
     return v
 
 
-def write_summary(batch, base: str | os.PathLike) -> tuple[Path, Path]:
+def summary_paths(base: str | os.PathLike) -> tuple[Path, Path]:
+    """``base.csv`` and ``base.xlsx``."""
+    base = Path(base)
+    return base.with_name(base.name + ".csv"), base.with_name(base.name + ".xlsx")
+
+
+def guard_summary(base: str | os.PathLike, force: bool = False) -> None:
+    """Refuse to replace files named like the summary that are not earlier summaries of ours.
+
+    Raises
+    ------
+    OverwriteRefused
+        When ``base.xlsx`` or ``base.csv`` exists and is not a summary swaytune wrote.
+    """
+    csv_path, xlsx_path = summary_paths(base)
+    guard_overwrite(xlsx_path, force=force)
+    if force or not csv_path.exists():
+        return
+    try:
+        with open(csv_path, encoding="utf-8", newline="") as fh:
+            first = fh.readline()
+    except (OSError, UnicodeDecodeError):
+        first = ""
+    if not first.startswith("workbook,status,reason,output"):
+        raise OverwriteRefused(f"{csv_path} exists and is not a recalc summary; refusing to "
+                               f"overwrite it ({FORCE_HINT})")
+
+
+def write_summary(batch, base: str | os.PathLike, force: bool = False) -> tuple[Path, Path]:
     """Write the batch summary as ``base.xlsx`` and ``base.csv``; return both paths.
 
     The workbook has a sheet per view: Workbooks (one row each: status, reason, key inputs and
     results, every check verdict, changes, issues), Changes (old and new value of every named
     cell that changed), Issues, Cautions. Every text is written as text, never as a formula.
+    A file of either name that is not an earlier summary is never replaced (unless ``force``).
+
+    Raises
+    ------
+    OverwriteRefused
+        When ``base.xlsx`` or ``base.csv`` exists and is not a summary swaytune wrote.
     """
     base = Path(base)
-    base.parent.mkdir(parents=True, exist_ok=True)
     rows = batch.table()
     headers = list(rows[0]) if rows else list(summary_row(RecalcResult(Path("-"))))
-    csv_path = base.with_name(base.name + ".csv")
-    xlsx_path = base.with_name(base.name + ".xlsx")
+    csv_path, xlsx_path = summary_paths(base)
+    guard_summary(base, force)
+    base.parent.mkdir(parents=True, exist_ok=True)
     with atomic_path(csv_path) as tmp:
         with open(tmp, "w", newline="", encoding="utf-8") as fh:
             w = csv.writer(fh)
@@ -160,6 +196,7 @@ def write_summary(batch, base: str | os.PathLike) -> tuple[Path, Path]:
     for sheet in (ws, ch, iss):
         sheet.column_dimensions["A"].width = 40
     wb.properties.creator = f"swaytune {__version__} (recalc summary)"
+    mark_workbook(wb, __version__)
     with atomic_path(xlsx_path) as tmp:
         wb.save(tmp)
     return xlsx_path, csv_path

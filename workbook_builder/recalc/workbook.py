@@ -35,7 +35,7 @@ from ..plan.checks import check_name, cross_checked
 from ..plan.model import Plan, refreshed
 from ..plan.values import Sources, source_value
 from ..xlsx.cached import CellError
-from ..xlsx.files import OverwriteRefused, guard_overwrite
+from ..xlsx.files import OverwriteRefused, atomic_path, guard_hand_edits, guard_overwrite
 from ..xlsx.formulas import Evaluator, FormulaError, is_error
 from ..xlsx.package import Book, Cell, PackageError, split_coord
 from ..xlsx.rewrite import write_package
@@ -299,16 +299,29 @@ def _recalc(res: RecalcResult, path: Path, dest: Path | None, in_place: bool, ba
         res.issues.extend(formula_issues(book, plan, set(data.value_cells.values())))
     if dest is None:
         return
+    if in_place and path.is_symlink():
+        dest = path.resolve()       # replace the file the link points at, keep the link
+        res.issues.append(Issue("note", str(path), f"a symbolic link: recalculated its target "
+                                f"{dest} in place (the link itself is kept)"))
     if not in_place:
         guard_overwrite(dest, force=force)
+        guard_hand_edits(dest, force=force)
     chart_values = None
     if "Charts" in book:
         chart_values = {("Charts", c.coordinate): c.value for c in book["Charts"].cells.values()}
         chart_values.update({k: v for k, v in constants.items() if k[0] == "Charts"})
     if in_place and backup:
-        res.backup = _backup_path(path)
-        shutil.copy2(path, res.backup)
-    write_results(path, dest, constants=constants, cached=cached, chart_values=chart_values)
+        res.backup = _backup_path(dest)
+        with atomic_path(res.backup) as tmp:        # never a partial backup (full disk)
+            shutil.copy2(dest, tmp)
+    try:
+        write_results(dest if in_place else path, dest, constants=constants, cached=cached,
+                      chart_values=chart_values)
+    except BaseException:
+        if res.backup is not None:                  # the original is untouched: no backup
+            res.backup.unlink(missing_ok=True)
+            res.backup = None
+        raise
     res.output = dest
 
 

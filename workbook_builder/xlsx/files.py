@@ -8,19 +8,22 @@ refuses to replace an existing file that carries neither, unless ``force=True``:
 hand-made workbook is never lost to a mistyped ``-o``.
 
 A workbook swaytune built also carries the SHA-256 :func:`content_digest` of its cells in the
-custom document property ``SwaytuneContentDigest`` (:func:`set_digest`); :func:`guard_hand_edits`
-refuses to replace one whose cells no longer match it (edited by hand, or saved by another
-application), unless ``force=True``.
+custom document property ``SwaytuneContentDigest`` (:func:`set_digest`), and every package
+swaytune writes (built or recalculated) the SHA-256 :func:`package_digest` of its parts in
+``SwaytunePackageDigest``; :func:`guard_hand_edits` refuses to replace a file that no longer
+matches them (edited by hand, or saved by another application), unless ``force=True``.
 """
 from __future__ import annotations
 
 import contextlib
 import hashlib
+import html
 import os
+import re
 import tempfile
 import zipfile
 from pathlib import Path
-from typing import Any, Iterator
+from typing import Any, Iterable, Iterator
 
 from openpyxl import load_workbook
 from openpyxl.packaging.custom import StringProperty
@@ -40,7 +43,15 @@ __all__ = [
     "content_digest",
     "set_digest",
     "guard_hand_edits",
+    "PACKAGE_DIGEST_PROPERTY",
+    "package_digest",
+    "with_property",
+    "read_property",
+    "FORCE_HINT",
 ]
+
+#: How every refusal to overwrite tells the user to overwrite anyway.
+FORCE_HINT = "choose another output name, or overwrite it with --force (force=True)"
 
 MARKER_PROPERTY = "SwaytuneGenerator"
 MARKER_NAME = "SWAYTUNE_GENERATOR"
@@ -143,7 +154,7 @@ def guard_overwrite(path: str | os.PathLike, force: bool = False) -> None:
     if not is_swaytune_workbook(p):
         raise OverwriteRefused(
             f"{p} exists and was not produced by swaytune; refusing to overwrite it "
-            "(choose another output name, or force the overwrite)")
+            f"({FORCE_HINT})")
 
 
 def save_workbook(wb: Any, path: str | os.PathLike, *, force: bool = False) -> Path:
@@ -208,6 +219,19 @@ def guard_hand_edits(path: str | os.PathLike, force: bool = False) -> None:
     if force or not p.is_file():
         return
     try:
+        with zipfile.ZipFile(p) as zf:
+            members = [(i.filename, zf.read(i)) for i in zf.infolist()]
+    except (zipfile.BadZipFile, OSError, ValueError):
+        return                  # not readable as a workbook: guard_overwrite decides
+    stored = read_property(dict(members).get("docProps/custom.xml", b""),
+                           PACKAGE_DIGEST_PROPERTY)
+    if stored is not None:
+        if stored == package_digest(members):
+            return              # byte for byte what swaytune wrote
+        raise OverwriteRefused(
+            f"{p} was changed after swaytune wrote it (edited, or saved by another "
+            f"application); refusing to overwrite it ({FORCE_HINT})")
+    try:
         wb = load_workbook(p)
     except Exception:           # not readable as a workbook: guard_overwrite decides
         return
@@ -216,5 +240,58 @@ def guard_hand_edits(path: str | os.PathLike, force: bool = False) -> None:
     if stored is not None and stored != content_digest(wb):
         raise OverwriteRefused(
             f"{p} was changed after swaytune built it (edited, or saved by another "
-            "application); refusing to overwrite it (choose another output name, or force "
-            "the overwrite)")
+            f"application); refusing to overwrite it ({FORCE_HINT})")
+
+
+#: Custom document property holding :func:`package_digest` of the package as written.
+PACKAGE_DIGEST_PROPERTY = "SwaytunePackageDigest"
+#: Parts left out of the package digest: the properties (the digest itself, timestamps).
+_UNHASHED = frozenset({"docProps/custom.xml", "docProps/core.xml", "docProps/app.xml"})
+
+
+def package_digest(members: Iterable[tuple[str, bytes]]) -> str:
+    """SHA-256 of every part of a package (name and bytes) but its document properties."""
+    h = hashlib.sha256()
+    for name, raw in sorted(members):
+        if name not in _UNHASHED:
+            h.update(name.encode("utf-8") + b"\0" + hashlib.sha256(raw).digest())
+    return h.hexdigest()
+
+
+_PROPERTY_RE = r'<(?:\w+:)?property\b[^>]*\bname="{name}"[^>]*>.*?</(?:\w+:)?property>'
+_VALUE_RE = re.compile(r"<(?:\w+:)?lpwstr>(.*?)</(?:\w+:)?lpwstr>", re.S)
+_PID_RE = re.compile(r'\bpid="(\d+)"')
+_FMTID = "{D5CDD505-2E9C-101B-9397-08002B2CF9AE}"
+
+
+def read_property(custom_xml: bytes, name: str) -> str | None:
+    """The text of custom document property ``name`` in ``docProps/custom.xml`` (or None)."""
+    text = custom_xml.decode("utf-8", "replace")
+    m = re.search(_PROPERTY_RE.format(name=re.escape(name)), text, re.S)
+    if m is None:
+        return None
+    v = _VALUE_RE.search(m.group(0))
+    return None if v is None else html.unescape(v.group(1))
+
+
+def with_property(custom_xml: bytes, name: str, value: str) -> bytes:
+    """``docProps/custom.xml`` with text property ``name`` set to ``value`` (added if absent).
+
+    Raises
+    ------
+    ValueError
+        When the part is not a custom-properties part.
+    """
+    text = custom_xml.decode("utf-8")
+    pattern = re.compile(_PROPERTY_RE.format(name=re.escape(name)), re.S)
+    pids = [int(p) for p in _PID_RE.findall(text)]
+    pid = next((int(m) for m in _PID_RE.findall(pattern.search(text).group(0))), None) \
+        if pattern.search(text) else max(pids, default=1) + 1
+    prop = (f'<property fmtid="{_FMTID}" pid="{pid}" name="{html.escape(name)}">'
+            f'<vt:lpwstr>{html.escape(value, quote=False)}</vt:lpwstr></property>')
+    if pattern.search(text):
+        return pattern.sub(lambda _: prop, text, count=1).encode("utf-8")
+    end = re.search(r"</(?:\w+:)?Properties>\s*$", text)
+    if end is None or "vt=" not in text.replace(":vt=", "vt="):
+        raise ValueError("not a custom-properties part (no Properties element or vt prefix)")
+    return (text[:end.start()] + prop + text[end.start():]).encode("utf-8")

@@ -8,7 +8,9 @@ standard library's zip reader and XML parser, after refusing what a workbook nev
 * a document type declaration or entity declaration in any part (entity expansion, external
   entities), stricter than ``defusedxml``'s default;
 * an encrypted member, a member over :data:`MAX_MEMBER_BYTES` or compressed more than
-  :data:`MAX_RATIO` times (zip bombs), a package over :data:`MAX_PACKAGE_BYTES`;
+  :data:`MAX_RATIO` times (zip bombs), a package over :data:`MAX_PACKAGE_BYTES`, compressed
+  more than :data:`MAX_RATIO` times as a whole or with more than :data:`MAX_MEMBERS` members;
+* a part that is not UTF-8 (a UTF-16 part could hide a DTD from the byte search);
 * an OLE compound document (a password-protected workbook or a legacy .xls).
 
 :class:`PartCache` lets a batch parse byte-identical parts once. Writing an updated copy of a
@@ -32,14 +34,20 @@ from openpyxl.formula.translate import Translator
 from openpyxl.utils import column_index_from_string, get_column_letter
 
 __all__ = ["assert_defusedxml", "PackageError", "Book", "Sheet", "Cell", "open_package", "PartCache", "sheet_parts",
-           "split_coord", "MAX_MEMBER_BYTES", "MAX_PACKAGE_BYTES", "MAX_RATIO"]
+           "split_coord", "MAX_MEMBER_BYTES", "MAX_PACKAGE_BYTES", "MAX_RATIO", "MAX_MEMBERS"]
 
-#: Largest uncompressed size of one package member and of the whole package [bytes].
+#: Largest uncompressed size of one package member and of the whole package [bytes]. A
+#: swaytune workbook is a few MB uncompressed (its Nonlinear sheet's time histories included).
 MAX_MEMBER_BYTES = 64 * 1024 * 1024
-MAX_PACKAGE_BYTES = 256 * 1024 * 1024
-#: Largest compression ratio accepted for a member larger than 1 MB (zip bombs) [-].
+MAX_PACKAGE_BYTES = 96 * 1024 * 1024
+#: Largest compression ratio accepted for a member larger than 1 MB, and for the whole package
+#: once it is over 4 MB uncompressed (zip bombs; a workbook deflates about 5 to 20 times) [-].
 MAX_RATIO = 200.0
+#: Largest number of members of a package [-].
+MAX_MEMBERS = 5000
 
+_DECLARED_ENCODING = re.compile(rb'^\s*<\?xml[^>]*encoding\s*=\s*["\']([A-Za-z0-9._-]+)["\']')
+_UTF8 = re.compile(rb"^(?i:utf-?8|us-ascii|ascii)$")
 _OLE_MAGIC = b"\xd0\xcf\x11\xe0\xa1\xb1\x1a\xe1"
 _NS_MAIN = "http://schemas.openxmlformats.org/spreadsheetml/2006/main"
 _NS_REL = "http://schemas.openxmlformats.org/officeDocument/2006/relationships"
@@ -229,8 +237,11 @@ def _parse_xml(data: bytes, part: str):
     fast C parser of the standard library is safe; the refusal is stricter than defusedxml's
     default, which allows a DTD without entities.
     """
-    if data[:2] in (b"\xff\xfe", b"\xfe\xff") or data[:4] in (b"\x00\x00\xfe\xff",
-                                                              b"\xff\xfe\x00\x00"):
+    if data[:2] in (b"\xff\xfe", b"\xfe\xff") or b"\x00" in data[:4] or \
+            _DECLARED_ENCODING.match(data[:200]) and not _UTF8.match(
+                _DECLARED_ENCODING.match(data[:200]).group(1)):
+        # UTF-16 or -32 (with or without a byte-order mark) or another declared encoding: the
+        # byte search for a DTD below would miss it, and a workbook part is always UTF-8
         raise PackageError(f"refused: part {part} is not UTF-8 encoded XML")
     if b"<!DOCTYPE" in data or b"<!ENTITY" in data:
         raise PackageError(f"refused: part {part} holds a DTD or XML entity declarations; a "
@@ -324,6 +335,9 @@ def open_package(path: Path, *, cache: PartCache | None = None) -> Book:
     try:
         with zipfile.ZipFile(path) as zf:
             infos = zf.infolist()
+            if len(infos) > MAX_MEMBERS:
+                raise PackageError(f"refused: the package has {len(infos)} members (limit "
+                                  f"{MAX_MEMBERS})")
             total = 0
             for info in infos:
                 if info.flag_bits & 0x1:
@@ -335,9 +349,12 @@ def open_package(path: Path, *, cache: PartCache | None = None) -> Book:
                                       f"{info.file_size} bytes uncompressed (limit "
                                       f"{MAX_MEMBER_BYTES}, ratio {MAX_RATIO:g})")
                 total += info.file_size
-            if total > MAX_PACKAGE_BYTES:
-                raise PackageError(f"refused: package is {total} bytes uncompressed (limit "
-                                  f"{MAX_PACKAGE_BYTES})")
+            compressed = sum(i.compress_size for i in infos)
+            if total > MAX_PACKAGE_BYTES or (total > 4_000_000
+                                             and total > MAX_RATIO * max(compressed, 1)):
+                raise PackageError(f"refused: package is {total} bytes uncompressed from "
+                                  f"{compressed} bytes (limit {MAX_PACKAGE_BYTES}, ratio "
+                                  f"{MAX_RATIO:g})")
             names = {i.filename for i in infos}
             if "xl/workbook.xml" not in names:
                 raise PackageError("not an Excel workbook: the package has no xl/workbook.xml")

@@ -27,7 +27,7 @@ from typing import Any, Iterable, Mapping
 import numpy as np
 from openpyxl.utils import column_index_from_string, get_column_letter
 
-from .files import atomic_path
+from .files import PACKAGE_DIGEST_PROPERTY, atomic_path, package_digest, with_property
 from .package import PackageError, sheet_parts, split_coord
 
 __all__ = ["CellError", "write_package", "rewrite_cells", "encode_value"]
@@ -329,6 +329,7 @@ def write_package(source: str | os.PathLike, dest: str | os.PathLike, *,
                 and info.filename.endswith(".xml"):
             raw = _refresh_chart_xml(raw.decode("utf-8"), chart_lookup).encode("utf-8")
         out.append((info, raw))
+    out = _with_package_digest(out)
     with atomic_path(target) as tmp:
         with zipfile.ZipFile(tmp, "w") as zout:
             for info, raw in out:
@@ -337,3 +338,18 @@ def write_package(source: str | os.PathLike, dest: str | os.PathLike, *,
                 else:
                     zout.writestr(info, raw, compresslevel=compresslevel)
     return target
+
+
+def _with_package_digest(members: list) -> list:
+    """The members with the package digest stored in ``docProps/custom.xml`` (when there is
+    such a part): a later write can tell whether the file was changed since."""
+    digest = package_digest((info.filename, raw) for info, raw in members)
+    out = []
+    for info, raw in members:
+        if info.filename == "docProps/custom.xml":
+            try:
+                raw = with_property(raw, PACKAGE_DIGEST_PROPERTY, digest)
+            except (ValueError, UnicodeDecodeError):
+                pass                # an unusual part: keep it, the guard falls back
+        out.append((info, raw))
+    return out
