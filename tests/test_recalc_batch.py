@@ -9,6 +9,7 @@ workbook was recalculated with every check OK.
 from __future__ import annotations
 
 import csv
+import io
 import signal
 import subprocess
 import sys
@@ -19,7 +20,9 @@ import openpyxl
 import pytest
 
 from workbook_builder import cli
-from workbook_builder.recalc import read_inputs, recalc_many, recalc_workbook, write_results
+from workbook_builder.recalc import (BatchSummary, RecalcResult, collect_paths, read_inputs,
+                                     recalc_many, recalc_workbook, write_results)
+from workbook_builder.recalc.batch import _Progress
 from workbook_builder.recalc.summary import SUMMARY_STEM
 
 from recalc_helpers import ROOT, cell_of, copy_to, main_recalc, sha256_of
@@ -175,6 +178,123 @@ def test_folder_scan_skips_outputs_backups_and_summaries(built, tmp_path):
     assert (folder / "out" / "sub" / "b.xlsx").is_file()     # relative layout kept
     again = recalc_many([folder], outdir=folder / "out", progress=False)
     assert len(again.results) == 2 and again.exit_status == 0
+
+
+def _touch(folder: Path, *names: str) -> None:
+    for name in names:
+        f = folder / name
+        f.parent.mkdir(parents=True, exist_ok=True)
+        f.write_bytes(b"")
+
+
+def test_collect_paths_folder_rules(tmp_path):
+    """Folders: *.xlsx and *.xlsm at any depth (any letter case), in sorted order, with their
+    path relative to the folder; hidden files and folders, lock files (~$), summaries, other
+    suffixes (.xls, .csv, backups) and everything under ``exclude`` are skipped."""
+    proj = tmp_path / "proj"
+    _touch(proj, "a.xlsx", "B.XLSX", "m.xlsm", "sub/c.xlsx", "out/f.xlsx",
+           "old.xls", "notes.csv", "a.xlsx.20261202-010000.bak", ".hidden.xlsx", "~$a.xlsx",
+           "recalc_summary.xlsx", "sub/recalc_summary_2.xlsx", ".git/d.xlsx", "~$tmp/e.xlsx")
+    (proj / "folder.xlsx").mkdir()                          # a folder is not a workbook
+    got = collect_paths([proj])
+    assert [(f.relative_to(proj), rel) for f, rel in got] == [
+        (Path(n), Path(n)) for n in ("B.XLSX", "a.xlsx", "m.xlsm", "out/f.xlsx", "sub/c.xlsx")]
+    # the output folder inside the input folder: given as text or as a path
+    for exclude in (proj / "out", str(proj / "out")):
+        rels = [rel for _, rel in collect_paths([proj], exclude=exclude)]
+        assert rels == [Path("B.XLSX"), Path("a.xlsx"), Path("m.xlsm"), Path("sub/c.xlsx")]
+
+
+def test_collect_paths_hidden_folder_given_by_name_is_scanned(tmp_path):
+    # hidden is judged below the folder given, not on the folder itself
+    _touch(tmp_path / ".drafts", "a.xlsx")
+    assert [rel for _, rel in collect_paths([tmp_path / ".drafts"])] == [Path("a.xlsx")]
+
+
+def test_collect_paths_files_named_explicitly_are_always_taken(tmp_path):
+    _touch(tmp_path, ".hidden.xlsx", "recalc_summary.xlsx", "notes.txt", "~$lock.xlsx")
+    names = [".hidden.xlsx", "recalc_summary.xlsx", "notes.txt", "~$lock.xlsx", "missing.xlsx"]
+    got = collect_paths([tmp_path / n for n in names])
+    assert [(f, rel) for f, rel in got] == [(tmp_path / n, Path(n)) for n in names]
+
+
+def test_collect_paths_each_file_once(tmp_path):
+    proj = tmp_path / "proj"
+    _touch(proj, "a.xlsx", "sub/b.xlsx")
+    a = proj / "a.xlsx"
+    # found by the folder scan first: its relative path is kept
+    got = collect_paths([proj, a, proj / "sub" / ".." / "a.xlsx", str(a)])
+    assert [rel for _, rel in got] == [Path("a.xlsx"), Path("sub/b.xlsx")]
+    # named first, then found again in its folder
+    got = collect_paths([proj / "sub" / "b.xlsx", proj])
+    assert [rel for _, rel in got] == [Path("b.xlsx"), Path("a.xlsx")]
+    # a missing file named twice
+    assert len(collect_paths([tmp_path / "gone.xlsx", tmp_path / "gone.xlsx"])) == 1
+
+
+def test_two_inputs_for_one_output_and_output_over_the_original(built, tmp_path):
+    one = copy_to(built["den_hartog"], tmp_path / "one")
+    two = copy_to(built["den_hartog"], tmp_path / "two")
+    batch = recalc_many([one, two], outdir=tmp_path / "out", progress=False)
+    assert [r.status for r in batch.results] == ["OK", "FAILED"]
+    assert "would also be written for" in batch.results[1].error and str(one) in \
+        batch.results[1].error
+    assert batch.exit_status == 1
+    same = recalc_many([one], outdir=tmp_path / "one", progress=False)
+    assert same.results[0].status == "FAILED"
+    assert "the output folder holds the original" in same.results[0].error
+
+
+def test_recalc_many_argument_errors(tmp_path):
+    with pytest.raises(ValueError, match="not both or neither"):
+        recalc_many([tmp_path], outdir=tmp_path / "o", in_place=True, progress=False)
+    with pytest.raises(ValueError, match="jobs=0 must be >= 1"):
+        recalc_many([tmp_path], outdir=tmp_path / "o", jobs=0, progress=False)
+
+
+def test_exit_status():
+    ok = RecalcResult(Path("a.xlsx"), checks=[("Stroke within the clearance", "OK")])
+    not_ok = RecalcResult(Path("b.xlsx"), checks=[("Stroke within the clearance", "NOT OK")])
+    failed = RecalcResult(Path("c.xlsx"), error="empty file")
+    assert BatchSummary([ok]).exit_status == 0
+    assert BatchSummary([]).exit_status == 0
+    assert BatchSummary([ok, not_ok]).exit_status == 1
+    assert BatchSummary([ok, failed]).exit_status == 1
+    assert BatchSummary([ok], interrupted=True).exit_status == 130
+    both = BatchSummary([ok, not_ok, failed])
+    assert both.failed == [failed] and both.not_ok == [not_ok]
+
+
+class _Stream(io.StringIO):
+    def __init__(self, tty: bool):
+        super().__init__()
+        self.tty = tty
+
+    def isatty(self) -> bool:
+        return self.tty
+
+
+def test_progress_lines_in_a_log_and_on_a_terminal():
+    done = RecalcResult(Path("w.xlsx"))
+    log = _Stream(tty=False)
+    bar = _Progress(20, True, log)
+    for _ in range(20):
+        bar.update(done)
+    lines = log.getvalue().splitlines()
+    # a log gets a line every tenth of the batch
+    assert [line.split("] ")[1].split()[0] for line in lines] == [
+        f"{k}/20" for k in range(2, 21, 2)]
+    assert lines[-1].startswith("[" + "#" * 30 + "]") and lines[-1].endswith("w.xlsx: OK")
+    term = _Stream(tty=True)
+    bar = _Progress(3, True, term)
+    for _ in range(3):
+        bar.update(done)
+    text = term.getvalue()
+    assert text.count("\r") == 3 and text.endswith("\n") and text.count("\n") == 1
+    quiet = _Stream(tty=True)
+    bar = _Progress(3, False, quiet)
+    bar.update(done)
+    assert quiet.getvalue() == "" and bar.done == 1
 
 
 # -------------------------------------------------------------- swaytune recalc
