@@ -1,0 +1,302 @@
+# SPDX-License-Identifier: MIT
+"""Recalculating one workbook (workbook_builder.recalc.workbook).
+
+Reference values come from the builder itself: a workbook recalculated after an input change
+must hold, cell for cell, what ``build_workbook`` writes for a project with that input (the
+engine behind both is tested against published sources in test_design.py / test_damper.py).
+Engine values are written where the plan's names point, verdicts follow the engine, and the
+updated copy is written atomically (in place with a backup, never over a foreign file).
+"""
+from __future__ import annotations
+
+import dataclasses
+import gc
+import os
+import stat
+
+import openpyxl
+import pytest
+from openpyxl.workbook.defined_name import DefinedName
+
+from functions.quantities import quantity
+from workbook_builder.build import build_workbook, write_workbook
+from workbook_builder.project import load_project, parse_project
+from workbook_builder.recalc import (RecalcError, read_inputs, read_workbook, recalc_many,
+                                     recalc_workbook, write_results)
+from workbook_builder.xlsx import libreoffice, rewrite
+from workbook_builder.xlsx.cached import formula_cells
+
+from recalc_helpers import (assert_numbers_equal, cell_of, cell_values, copy_to, needs_soffice,
+                            set_cells)
+from workbook_cases import DEN_HARTOG, EXAMPLES, NAMES, example_project
+
+# The fixture ``built`` (the example workbooks and a den_hartog one) is in conftest.py.
+
+
+# ----------------------------------------------------------------------- safety
+def test_garbage_collector_restored_after_success_and_failure(built, tmp_path):
+    assert gc.isenabled()
+    recalc_workbook(built["den_hartog"], outdir=tmp_path / "a")
+    assert gc.isenabled()
+    junk = tmp_path / "junk.xlsx"
+    junk.write_bytes(b"not a zip")
+    assert recalc_workbook(junk, outdir=tmp_path / "b").status == "FAILED"
+    assert gc.isenabled()
+
+
+# ---------------------------------------------------------------- recalculation
+@pytest.mark.parametrize("name", NAMES + ["den_hartog"])
+def test_recalc_unchanged_workbook_is_identical(built, tmp_path, name):
+    res = recalc_workbook(built[name], outdir=tmp_path)
+    assert res.status == "OK", res.error or [str(i) for i in res.issues]
+    assert res.issues == [] and res.changes == []
+    assert formula_cells(res.output) == formula_cells(built[name])
+    n = assert_numbers_equal(cell_values(res.output), cell_values(built[name]), rel=1e-15)
+    assert n > 500
+
+
+@pytest.mark.parametrize("name,change", [
+    ("residential_tower", {"frequency": 0.205}),            # h2: engine values, flags
+    ("observation_mast", {"acceleration": 0.36}),           # floor table, chosen mass
+    ("office_tower_us", {"clearance": 40.0}),                 # US units, stroke check fails
+    ("den_hartog", {"modal_mass": 12000.0}),                 # closed forms
+])
+def test_recalc_equals_fresh_build(built, tmp_path, name, change):
+    """Recalculated workbook == the builder's workbook for the changed inputs, every cell."""
+    res = recalc_workbook(built[name], outdir=tmp_path, inputs=change)
+    assert not res.failed, res.error
+    # The project with the same change, built from scratch.
+    project = (parse_project(DEN_HARTOG, source="den_hartog.toml") if name == "den_hartog"
+               else example_project(name))
+    (key, value), = change.items()
+    iv = project.inputs[key]
+    inputs = dict(project.inputs)
+    inputs[key] = dataclasses.replace(iv, value=value, si=value * iv.unit.factor)
+    fresh = build_workbook(dataclasses.replace(project, inputs=inputs))
+    fresh_values = {k: v for k, v in fresh.values.items()}
+    for ws in fresh.workbook.worksheets:
+        for row in ws.iter_rows():
+            for c in row:
+                if c.data_type != "f" and c.value is not None:
+                    fresh_values[(ws.title, c.coordinate)] = c.value
+    got = cell_values(res.output)
+    n = assert_numbers_equal(got, fresh_values, rel=1e-12,
+                              sheets={"Inputs", "Calculation", "Pendulum", "Checks", "Charts",
+                                      "Names", "Summary"})
+    assert n > 700
+    # text results (verdicts, flags) too
+    for key, v in fresh_values.items():
+        if v in ("OK", "NOT OK", "current", "INPUTS CHANGED: rebuild"):
+            assert got.get(key) == v, key
+    # what changed is reported with old and new values
+    changed = {n for n, _, _ in res.changes}
+    (spec,) = change
+    assert quantity(spec).cell_name in changed
+    assert res.issues == [] or all(i.kind not in ("formula_edited", "engine_mismatch")
+                                   for i in res.issues)
+
+
+def test_recalc_after_user_edit_and_stale_flags(built, tmp_path):
+    """An input typed in a spreadsheet program (cached values stale) is recalculated."""
+    path = copy_to(built["residential_tower"], tmp_path)
+    set_cells(path, {cell_of(path, "structure_frequency_entered"): 0.18})
+    res = recalc_workbook(path, outdir=tmp_path / "out")
+    assert res.status == "OK", res.checks
+    assert res.results["structure_frequency"] == 0.18
+    # Every engine value current again (the flag compares snapshots with the inputs).
+    assert all(v in ("current", "OK") for k, v in res.results.items()
+               if k.startswith("engine_flag") and not k.count("_") > 3)
+    ref = recalc_workbook(built["residential_tower"], inputs={"frequency": 0.18})
+    assert res.results["tuning_ratio"] == ref.results["tuning_ratio"]
+
+
+def test_changes_old_and_new(built, tmp_path):
+    res = recalc_workbook(built["den_hartog"], outdir=tmp_path, inputs={"frequency": 0.25})
+    changes = {n: (o, v) for n, o, v in res.changes}
+    assert changes["structure_frequency"] == (0.2, 0.25)
+    old, new = changes["damper_frequency"]
+    # f_d = f f_s with Den Hartog's f = 1/(1+mu) (Den Hartog 1956, s3.3), mu = 0.02
+    assert old == pytest.approx(0.2 / 1.02, rel=1e-14)
+    assert new == pytest.approx(0.25 / 1.02, rel=1e-14)
+    assert "tuning_ratio" not in changes          # depends on the mass ratio only
+
+
+def test_dry_run_writes_nothing(built, tmp_path):
+    before = set(built["den_hartog"].parent.iterdir())
+    res = recalc_workbook(built["den_hartog"])
+    assert res.status == "OK" and res.output is None
+    assert set(built["den_hartog"].parent.iterdir()) == before
+
+
+def test_unevaluable_formula_fails(built, tmp_path):
+    path = copy_to(built["den_hartog"], tmp_path)
+    sheet, coord = cell_of(path, "stroke")
+    set_cells(path, {(sheet, coord): "=stroke_ratio*structure_displacement)"})   # malformed
+    res = recalc_workbook(path, outdir=tmp_path / "out")
+    assert res.status == "FAILED" and "cannot be evaluated" in res.error
+    assert not (tmp_path / "out").exists()
+
+
+# ------------------------------------------------------ engine values, verdicts
+def test_engine_values_written_through_the_plans_names(built, tmp_path):
+    """Engine values go where the workbook's names point, wherever that is."""
+    res = recalc_workbook(built["den_hartog"], outdir=tmp_path / "o", inputs={"frequency": 0.3})
+    got = cell_values(res.output)
+    sheet, coord = cell_of(res.output, "engine_damper_frequency")
+    # Den Hartog's f = 1/(1+mu) (Den Hartog 1956, s3.3): f_d = 0.3 / 1.02
+    assert got[(sheet, coord)] == pytest.approx(0.3 / 1.02, rel=1e-15)
+    # a named engine value whose name was deleted: the layout is damaged -> FAILED
+    path = copy_to(built["den_hartog"], tmp_path / "moved")
+    set_cells(path, {}, delete_names=("engine_stroke",))
+    moved = recalc_workbook(path, outdir=tmp_path / "o2")
+    assert moved.status == "FAILED" and "engine_stroke" in moved.error
+    assert not (tmp_path / "o2" / path.name).exists()
+
+
+def test_nonlinear_sheet_flags_stale_simulation(tmp_path):
+    """recalc does not rerun the time-domain simulation: it says so (NOT OK, rebuild)."""
+    project = load_project(EXAMPLES / "residential_tower.toml")
+    if getattr(project, "simulation", None) is None:
+        pytest.skip("the example has no [simulation] table")
+    path = tmp_path / "sim.xlsx"
+    write_workbook(project, path)
+    same = recalc_workbook(path)
+    assert same.status == "OK", [str(i) for i in same.issues]
+    changed = recalc_workbook(path, outdir=tmp_path / "o", inputs={"frequency": 0.2})
+    assert changed.status == "NOT OK"
+    stale = [i for i in changed.issues if i.kind == "stale_engine_value"]
+    assert len(stale) == 1 and stale[0].where == "engine_flag_simulation"
+    # the engine values recalc does recompute are current
+    flags = {k: changed.results[k] for k in ("engine_flag_mass_ratio", "engine_flag_tuning",
+                                             "engine_flag_simulation")}
+    assert list(flags.values()) == ["current", "current", "INPUTS CHANGED: rebuild"]
+    # a hand edit is still found on every sheet, the Nonlinear one included
+    sheet, coord = cell_of(path, "damper_frequency")
+    set_cells(path, {(sheet, coord): "=tuning_ratio*structure_frequency*1.02"})
+    edited = recalc_workbook(path)
+    assert [i.where for i in edited.issues if i.kind == "formula_edited"] == [f"{sheet}!{coord}"]
+    # the [simulation] settings travel with the workbook (document property)
+    assert read_workbook(path).project.simulation == project.simulation
+    assert not [i for i in edited.issues if i.kind == "note"]
+    assert "REBUILD NEEDED" in stale[0].message
+
+
+def test_firm_template_workbook(tmp_path):
+    """A workbook built on a firm's template: its own sheet is kept, our formulas compared."""
+    firm = openpyxl.Workbook()
+    cover = firm.active
+    cover.title = "Calc cover"
+    cover["A3"], cover["B3"] = "Job", "(fill)"
+    cover["A5"], cover["B5"] = "Damper mass [kg]", "=damper_mass"   # shows one of our names
+    cover["A6"], cover["B6"] = "Firm-only function", "=VLOOKUP(1,A1:A2,1,FALSE)"
+    firm.defined_names.add(DefinedName("TB_PROJECT_NUMBER", attr_text="'Calc cover'!$B$3"))
+    firm.save(tmp_path / "firm.xlsx")
+    out = tmp_path / "on_template.xlsx"
+    write_workbook(parse_project(DEN_HARTOG, source="t.toml"), out,
+                   template=tmp_path / "firm.xlsx")
+    res = recalc_workbook(out, outdir=tmp_path / "o", inputs={"modal_mass": 12000})
+    assert res.status == "OK", res.error or [str(i) for i in res.issues]
+    assert not [i for i in res.issues if i.kind.startswith("formula")]
+    assert any(i.kind == "note" and "Calc cover" in i.where for i in res.issues)  # VLOOKUP
+    got = cell_values(res.output)
+    # M* = 12,000 t, mu = 0.02 -> m_d = 240,000 kg
+    assert got[("Calc cover", "B5")] == pytest.approx(240_000.0, rel=1e-15)
+    assert formula_cells(res.output)[("Calc cover", "B6")] == "=VLOOKUP(1,A1:A2,1,FALSE)"
+    assert read_workbook(res.output).book.named("TB_PROJECT_NUMBER").value == "T-6"
+
+
+# ---------------------------------------------------------------------- writing
+def test_in_place_keeps_backup_and_is_atomic(built, tmp_path, monkeypatch):
+    path = copy_to(built["den_hartog"], tmp_path)
+    original = path.read_bytes()
+    res = recalc_workbook(path, in_place=True, inputs={"frequency": 0.22})
+    assert res.status == "OK" and res.output == path
+    assert res.backup is not None and res.backup.read_bytes() == original
+    assert read_inputs(path)["frequency"] == 0.22
+    # a failure while writing leaves the file as it was and no temporary file
+    before = path.read_bytes()
+
+    def boom(*a, **k):
+        raise OSError("disk full (simulated)")
+
+    monkeypatch.setattr(rewrite, "rewrite_cells", boom)
+    res2 = recalc_workbook(path, in_place=True, backup=False, inputs={"frequency": 0.23})
+    assert res2.status == "FAILED" and "disk full" in res2.error
+    assert path.read_bytes() == before
+    assert sorted(p.name for p in tmp_path.iterdir() if p.name.startswith(".")) == []
+
+
+def test_output_guard_refuses_foreign_file(built, tmp_path):
+    (tmp_path / "out").mkdir()
+    (tmp_path / "out" / "den_hartog.xlsx").write_text("my own notes")
+    res = recalc_workbook(built["den_hartog"], outdir=tmp_path / "out")
+    assert res.status == "FAILED" and "not produced by swaytune" in res.error
+    assert (tmp_path / "out" / "den_hartog.xlsx").read_text() == "my own notes"
+
+
+def test_write_results_refuses_formula_cell(built, tmp_path):
+    sheet, coord = cell_of(built["den_hartog"], "stroke")
+    with pytest.raises(RecalcError, match="not found"):
+        write_results(built["den_hartog"], tmp_path / "x.xlsx", constants={(sheet, coord): 1.0})
+    assert not (tmp_path / "x.xlsx").exists()
+
+
+def test_outputs_have_normal_permissions(built, tmp_path):
+    """Built workbooks, recalc outputs and summaries: 0o644 under umask 022, not 0o600."""
+    old = os.umask(0o022)
+    try:
+        out = tmp_path / "built.xlsx"
+        write_workbook(parse_project(DEN_HARTOG, source="p.toml"), out)
+        src = copy_to(built["den_hartog"], tmp_path / "in")
+        os.chmod(src, 0o600)                   # a private original: the copies are not
+        batch = recalc_many([src], outdir=tmp_path / "out", progress=False)
+        assert batch.exit_status == 0
+        files = [out, batch.results[0].output, batch.summary_xlsx, batch.summary_csv]
+        assert [stat.S_IMODE(f.stat().st_mode) for f in files] == [0o644] * 4
+        # in place: the file keeps its own mode
+        inplace = copy_to(built["den_hartog"], tmp_path / "ip")
+        os.chmod(inplace, 0o640)
+        res = recalc_workbook(inplace, in_place=True, inputs={"frequency": 0.21})
+        assert res.status == "OK" and stat.S_IMODE(inplace.stat().st_mode) == 0o640
+    finally:
+        os.umask(old)
+
+
+# -------------------------------------------------------------- parameter study
+def test_parameter_study(built, tmp_path):
+    """Vary the structure's frequency, recalculate a variant per value, collect a table."""
+    base = built["residential_tower"]
+    table = []
+    for f in (0.17, 0.19, 0.21):
+        res = recalc_workbook(base, output=tmp_path / f"tower_f{f:.2f}.xlsx",
+                              inputs={"frequency": f})
+        table.append((f, res.results["mass_ratio"], res.results["pendulum_length"],
+                      res.status))
+    assert [row[0] for row in table] == [0.17, 0.19, 0.21]
+    # Small-angle length g / (2 pi f_d)^2 falls as the frequency rises (simple pendulum).
+    lengths = [row[2] for row in table]
+    assert lengths[0] > lengths[1] > lengths[2]
+    # The required mass ratio depends on the damping ratios only, not on the frequency.
+    assert table[0][1] == pytest.approx(table[2][1], rel=1e-9)
+    assert len(list(tmp_path.glob("tower_f*.xlsx"))) == 3
+
+
+# ------------------------------------------------------------------ LibreOffice
+@needs_soffice
+def test_output_opens_in_libreoffice_without_errors(built, tmp_path):
+    res = recalc_workbook(built["observation_mast"], outdir=tmp_path / "ours",
+                          inputs={"frequency": 0.4})
+    lo = libreoffice.recalculate(res.output, tmp_path / "lo")
+    assert libreoffice.find_error_cells(lo) == []
+    ours, theirs = cell_values(res.output), cell_values(lo)
+    n = 0
+    for key, v in ours.items():
+        if isinstance(v, float) and key[0] in ("Calculation", "Pendulum", "Checks"):
+            assert theirs[key] == pytest.approx(v, rel=1e-9, abs=1e-12), key
+            n += 1
+    assert n > 400
+    # A workbook saved by LibreOffice (other package layout) is read and recalculated too.
+    again = recalc_workbook(lo, outdir=tmp_path / "again")
+    assert again.status == "OK", again.error or [str(i) for i in again.issues]
+    assert not [i for i in again.issues if i.kind.startswith("formula")]
+
