@@ -34,13 +34,13 @@ def interval_text(low: float, high: float, low_open: bool, high_open: bool) -> s
 
 def _as_float(name: str, value: Any) -> np.ndarray:
     """Convert to a float array without the finiteness check."""
-    if value is None or isinstance(value, (str, bytes, bool, np.bool_)):
+    if value is None or isinstance(value, (str, bytes, bool, np.bool_, complex)):
         raise ValueError(f"{name}={value!r} must be a finite number")
     if isinstance(value, np.ndarray) and value.dtype == np.float64:
         return value
     try:
         arr = np.asarray(value)
-        if arr.dtype == bool or arr.dtype.kind in "OUSMmV":
+        if arr.dtype == bool or arr.dtype.kind in "OUSMmVc":       # c: complex
             raise TypeError
         return arr.astype(float, copy=False)
     except (TypeError, ValueError):

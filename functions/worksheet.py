@@ -11,7 +11,7 @@ place where that function is declared, so the two are read, changed and tested t
                             structural_damping * (acceleration / acceleration_limit) ** 2)
 
 The function's parameters are the defined names its formula reads (checked when the twin is
-made). ``tests/test_worksheet_twins.py`` evaluates every formula with the workbook builder's
+made). ``tests/test_worksheet.py`` evaluates every formula with the workbook builder's
 formula evaluator over the valid range of its inputs and compares it with the numpy result.
 Nothing here imports a spreadsheet library.
 """
@@ -31,7 +31,9 @@ __all__ = ["WorksheetForm", "twin", "formula_names", "form_of", "TWIN_TOLERANCE"
 TWIN_TOLERANCE = 1e-9
 
 # Strings, numbers (with exponents) and names; a name followed by "(" is a function.
-_TOKEN = re.compile(r'"(?:[^"]|"")*"|\d+(?:\.\d*)?(?:[Ee][+-]?\d+)?|\.\d+(?:[Ee][+-]?\d+)?'
+_TOKEN = re.compile(r'"(?:[^"]|"")*"|\'(?:[^\']|\'\')*\'!|[A-Za-z_][A-Za-z0-9_.]*!'
+                    r"|\$?[A-Za-z]{1,3}\$?\d+(?![A-Za-z0-9_.(])"
+                    r"|\d+(?:\.\d*)?(?:[Ee][+-]?\d+)?|\.\d+(?:[Ee][+-]?\d+)?"
                     r"|[A-Za-z_][A-Za-z0-9_.]*(?:\s*\()?")
 _CELL = re.compile(r"^\$?[A-Za-z]{1,3}\$?\d+$")
 
@@ -58,8 +60,9 @@ def formula_names(formula: str) -> tuple[str, ...]:
     """
     names: list[str] = []
     for token in _TOKEN.findall(formula):
-        if token.startswith('"') or token[0].isdigit() or token[0] == ".":
-            continue
+        if token.startswith(('"', "$", "'")) or token[0].isdigit() or token[0] == "." or \
+                token.endswith("!"):
+            continue                                  # a text, a number, a sheet, a cell
         if token.rstrip().endswith("("):
             continue                                  # a worksheet function
         if token.upper() in ("TRUE", "FALSE") or _CELL.match(token):

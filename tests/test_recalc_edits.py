@@ -191,8 +191,6 @@ def test_edit_of_a_moved_named_formula_is_still_found(built, tmp_path):
     assert [(i.old, i.new) for i in edits] == [("=1/(1+mass_ratio)", "=1/(1+mass_ratio)*1.01")]
 
 
-@pytest.mark.xfail(strict=True, reason="edits.formula_issues names the plan's reference "
-                   "(where the cell was), not the cell the defined name now points at")
 def test_edit_of_a_moved_named_formula_is_reported_where_the_cell_is(built, tmp_path):
     edits, where = _edit_moved_tuning_ratio(built, tmp_path)
     assert [i.where for i in edits] == [where]

@@ -133,8 +133,6 @@ def test_dates_refused():
         check_range("x", np.datetime64("2026-01-01"))
 
 
-@pytest.mark.xfail(strict=True, reason="_validation._as_float does not refuse complex dtype "
-                   "(kind 'c'): the imaginary part is dropped with a ComplexWarning")
 def test_complex_numbers_refused():
     with warnings.catch_warnings():
         warnings.simplefilter("ignore", np.exceptions.ComplexWarning)

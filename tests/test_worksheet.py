@@ -155,15 +155,11 @@ def test_formula_names(formula, names):
     assert formula_names(formula) == names
 
 
-@pytest.mark.xfail(strict=True, reason="worksheet._TOKEN does not take the $ of an absolute "
-                   "row: $B$2 and A$1 give the names B and A")
 @pytest.mark.parametrize("formula", ["=$B$2*a", "=A$1*a"])
 def test_formula_names_absolute_row_references_are_not_names(formula):
     assert formula_names(formula) == ("a",)
 
 
-@pytest.mark.xfail(strict=True, reason="worksheet.formula_names reads the sheet of a "
-                   "reference (Inputs!B5, 'Calc sheet'!B5) as names")
 @pytest.mark.parametrize("formula", ["=Inputs!B5*a", "='Calc sheet'!B5*a"])
 def test_formula_names_sheet_prefixes_are_not_names(formula):
     assert formula_names(formula) == ("a",)

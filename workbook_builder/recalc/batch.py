@@ -60,7 +60,7 @@ def collect_paths(paths: Iterable[str | os.PathLike],
                   exclude: str | os.PathLike | None = None) -> list[tuple[Path, Path]]:
     """Expand files and folders into (workbook, path relative to its root) pairs.
 
-    Folders are searched recursively for ``*.xlsx``; hidden files, spreadsheet lock files
+    Folders are searched recursively for ``*.xlsx`` and ``*.xlsm``; hidden files, spreadsheet lock files
     (``~$*``), temporary files, batch summaries (``recalc_summary*``) and anything under
     ``exclude`` (the output folder) are skipped. Files named explicitly are always taken (so a
     wrong file fails with its reason).
@@ -116,7 +116,7 @@ def recalc_many(paths: Iterable[str | os.PathLike], outdir: str | os.PathLike | 
     Parameters
     ----------
     paths : iterable of path-like
-        Workbooks and folders (searched recursively for .xlsx) [-].
+        Workbooks and folders (searched recursively for .xlsx and .xlsm) [-].
     outdir : path-like, optional
         Output folder; a workbook found in a folder keeps its relative path under it [-].
     jobs : int, optional
@@ -156,6 +156,11 @@ def recalc_many(paths: Iterable[str | os.PathLike], outdir: str | os.PathLike | 
         raise ValueError(f"jobs={jobs!r} must be >= 1")
     if outdir is not None and Path(outdir).exists() and not Path(outdir).is_dir():
         raise ValueError(f"the output folder {outdir} is a file; give a folder")
+    paths = list(paths)
+    if outdir is not None and any(Path(p).is_dir() and _same_file(Path(p), Path(outdir))
+                                  for p in paths):
+        raise ValueError(f"the output folder {outdir} is the folder being recalculated: "
+                         "choose another folder, or --in-place")
     base = Path(summary) if summary is not None else (
         Path(outdir) / SUMMARY_STEM if outdir is not None else Path.cwd() / SUMMARY_STEM)
     guard_summary(base, force)              # before any work: never clobber the user's files

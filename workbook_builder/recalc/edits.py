@@ -77,6 +77,7 @@ def formula_issues(book: Book, plan: Plan, typed_cells: set[tuple[str, str]]) ->
         ws = book.sheets.get(sheet)
         if ws is None:
             continue
+        where = f"{sheet}!{c.ref}"
         if sheet in moved:
             if not c.name:
                 continue
@@ -84,9 +85,9 @@ def formula_issues(book: Book, plan: Plan, typed_cells: set[tuple[str, str]]) ->
             if loc is None:
                 continue
             cell = book[loc[0]].get(loc[1])
+            where = f"{loc[0]}!{loc[1]}"            # where the cell is now
         else:
             cell = ws.cells.get(split_coord(c.ref)) or Cell(0, 0, None, "n")
-        where = f"{sheet}!{c.ref}"
         expected = c.content if c.kind in ("formula", "check") else None
         if expected is not None and cell.data_type == "f" and cell.value == expected:
             continue                                  # the same text: the common case
