@@ -243,7 +243,8 @@ def _cmd_recalc(args) -> int:
                         compare_layout=not args.no_layout_check)
     print_report(batch)
     if not batch.results:
-        print("error: no workbooks (*.xlsx, *.xlsm) found in " + ", ".join(args.paths), file=sys.stderr)
+        print("error: no workbooks (*.xlsx, *.xlsm) found in " + ", ".join(args.paths),
+              file=sys.stderr)
         return 1
     return batch.exit_status
 
