@@ -242,6 +242,9 @@ def _cmd_recalc(args) -> int:
                         backup=not args.no_backup, summary=args.summary, force=args.force,
                         compare_layout=not args.no_layout_check)
     print_report(batch)
+    if batch.interrupted:
+        print("interrupted: every file already written is complete; the summary says what "
+              "happened to each workbook", file=sys.stderr)
     if not batch.results:
         print("error: no workbooks (*.xlsx, *.xlsm) found in " + ", ".join(args.paths),
               file=sys.stderr)
