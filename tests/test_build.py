@@ -25,7 +25,6 @@ from workbook_builder.plan import FORMAT_NAME, PLAN_PROPERTY, PLAN_VERSION, Plan
 from workbook_builder.plan.layout import SHEETS
 from workbook_builder.plan.reference import CAUTIONS
 from workbook_builder.project import load_project
-from workbook_builder.xlsx.draw import DrawError, draw
 from workbook_builder.xlsx.formulas import (ALLOWED_FUNCTIONS, Evaluator, check_formula,
                                             functions_used)
 
@@ -199,18 +198,6 @@ def test_text_starting_with_equals_stays_text(tmp_path):
              if isinstance(c.value, str) and c.value in ("=1+1", "=SUM(A1:A3) stays text")]
     assert len(texts) == 2
     assert all(c.data_type == "s" for c in texts)
-
-
-def test_nan_and_inf_are_refused_by_the_drawer():
-    from workbook_builder.plan.model import Plan
-    from workbook_builder.plan.sheet import SheetLayout
-    sh = SheetLayout("S")
-    sh.engine(1, 1, ("cell", "x"))
-    plan = Plan(PlanOptions(), [sh.plan])
-    for bad in (math.nan, math.inf, -math.inf):
-        with pytest.raises(DrawError, match=r"S!A1: .* cannot be written \(NaN and inf are "
-                                            r"refused\)"):
-            draw(plan, {("S", "A1"): bad})
 
 
 def test_formulas_follow_changed_inputs_and_flag_engine_values(built, tmp_path):
