@@ -651,17 +651,6 @@ def test_format_mark_plan_and_simulation_properties(tmp_path):
     assert out.stat().st_mode & 0o777 == new_file_mode(tmp_path / "new.xlsx")
 
 
-@pytest.mark.parametrize("text, match", [
-    ("not json", r"settings 'not json' are not JSON"),
-    ('{"loud": 1}', r"are not a \[simulation\] table"),
-    ('{"duration": -5}', r"duration=-5\.0? must be in \[60, 3600\]"),
-])
-def test_simulation_settings_text_refuses(text, match):
-    from workbook_builder.project.model import settings_from_text
-    with pytest.raises(ValueError, match=match):
-        settings_from_text(text)
-
-
 def test_every_engine_value_is_named_or_in_a_named_range():
     """Recalculation finds each engine value it refreshes through the plan's names only."""
     import tomllib
