@@ -16,6 +16,7 @@ from workbook_builder.plan import PlanOptions
 from workbook_builder.plan.checks import NONLINEAR_CHECKS
 from workbook_builder.plan.reference import CAUTIONS
 from workbook_builder.plan.summary import HEADING, TITLE_BLOCK, key_results, summary_sheet
+from workbook_builder.xlsx.template import TITLE_BLOCK_NAMES
 
 from plan_workbooks import evaluator, plan_workbook
 
@@ -99,6 +100,8 @@ def test_title_block_carries_the_template_names_unless_a_template_holds_it():
     own = summary_sheet(PlanOptions()).plan
     names = {c.name: c for c in own.cells.values() if c.name}
     assert {name for *_, name in TITLE_BLOCK} == {n for n in names if n.startswith("TB_")}
+    # the names a firm's template marks its title block with: a built workbook can serve as one
+    assert {n for n in names if n.startswith("TB_")} == set(TITLE_BLOCK_NAMES.values())
     for row, col, label, key, name in TITLE_BLOCK:
         cell = names[name]
         assert (cell.kind, cell.source) == ("text", ("info", key))

@@ -14,7 +14,9 @@ import numpy as np
 import openpyxl
 import pytest
 from openpyxl.styles import Alignment
+from openpyxl.utils import get_column_letter
 from openpyxl.utils.cell import absolute_coordinate
+from openpyxl.workbook.defined_name import DefinedName
 
 from workbook_builder.compute import run_design
 from workbook_builder.plan import PlanOptions, make_plan, options_for
@@ -145,7 +147,7 @@ def test_merges_widths_freeze_and_charts_as_planned(drawn):
         ws = wb[sp.title]
         assert {str(r) for r in ws.merged_cells.ranges} == set(sp.merges)
         for i, width in enumerate(sp.widths, start=1):
-            assert ws.column_dimensions[openpyxl.utils.get_column_letter(i)].width == width
+            assert ws.column_dimensions[get_column_letter(i)].width == width
         assert ws.freeze_panes == sp.freeze
         assert len(ws._charts) == len(sp.charts)
     assert len(wb["Charts"]._charts) == 3
@@ -190,8 +192,8 @@ def test_a_templates_stale_copies_of_our_names_are_replaced(tmp_path):
     ws = firm.active
     ws.title = "Firm cover"
     for name, ref in (("stroke", "B2"), ("chart_period", "B3:C9"), ("FIRM_JOB", "B10")):
-        firm.defined_names.add(openpyxl.workbook.defined_name.DefinedName(
-            name, attr_text=f"'Firm cover'!{absolute_coordinate(ref)}"))
+        firm.defined_names.add(DefinedName(name, attr_text=f"'Firm cover'!"
+                                                    f"{absolute_coordinate(ref)}"))
     plan, _, wb = _drawn(template=firm)
     assert wb.sheetnames[0] == "Firm cover"
     sheet, ref = plan.names()["stroke"]
