@@ -1,5 +1,8 @@
 # SPDX-License-Identifier: MIT
-"""The workbook plan: complete, self-consistent and independent of the numbers."""
+"""The workbook plan: complete, self-consistent and independent of the numbers.
+
+Options and their JSON: test_plan_options.py; cell kinds: test_plan_model.py.
+"""
 from __future__ import annotations
 
 import itertools
@@ -10,10 +13,10 @@ from functions.chain import MASS_RATIO_MODES
 from functions.damper import OPTIMAL_TUNING_METHODS
 from functions.quantities import DESIGN_INPUTS
 from functions.worksheet import formula_names
-from workbook_builder.plan import PLAN_VERSION, PlanOptions, make_plan
+from workbook_builder.plan import PlanOptions, make_plan
 from workbook_builder.plan.inputs import entered_name, factor_name, unit_name
 from workbook_builder.plan.layout import SHEETS
-from workbook_builder.plan.model import Cell, refreshed
+from workbook_builder.plan.model import refreshed
 from workbook_builder.xlsx.formulas import check_formula
 
 NUMERIC = tuple(q.name for q in DESIGN_INPUTS if q.kind != "choice")
@@ -59,30 +62,6 @@ def test_plan_is_consistent(options):
     for sheet in plan.sheets:
         for v in sheet.validations:
             check_formula(v.formula)
-
-
-def test_same_options_same_plan_and_json_round_trip():
-    o = OPTIONS[5]
-    assert PlanOptions.from_json(o.to_json()) == o
-    assert make_plan(o) is make_plan(PlanOptions.from_json(o.to_json()))
-    assert o.version == PLAN_VERSION
-
-
-@pytest.mark.parametrize("text, match", [
-    ("not json", "is not JSON"),
-    ('{"colour": 1}', "does not hold the options"),
-    ('{"tuning_method": "best"}', "tuning_method='best' must be one of"),
-])
-def test_bad_options_are_refused(text, match):
-    with pytest.raises(ValueError, match=match):
-        PlanOptions.from_json(text)
-
-
-def test_cell_kinds_are_checked():
-    with pytest.raises(ValueError, match="kind='colour' must be one of"):
-        Cell("A1", "colour")
-    with pytest.raises(ValueError, match="a formula cell needs a formula"):
-        Cell("A1", "formula", "1+1")
 
 
 def test_every_engine_value_of_the_chain_is_flagged():

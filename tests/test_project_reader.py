@@ -7,7 +7,6 @@ from pathlib import Path
 
 import pytest
 
-from functions.quantities import DESIGN_INPUTS
 from workbook_builder.project import ProjectError, load_project, parse_project
 from workbook_builder.project.model import SimulationSettings
 from workbook_builder.project.reader import key_lines
@@ -61,14 +60,6 @@ def test_us_project_reads_bare_numbers_in_us_units(tmp_path):
     assert p.si("clearance") == pytest.approx(5 * 0.3048, rel=1e-15)
     assert p.si("acceleration") == pytest.approx(0.25 * 0.3048, rel=1e-15)   # ft/s^2
     assert p.paper == "Letter"
-
-
-def test_design_kwargs_are_si_and_complete(tmp_path):
-    p = load_project(write(tmp_path, MINIMAL))
-    kw = p.design_kwargs()
-    assert kw["modal_mass"] == 1e7 and kw["mass_ratio"] == 0.02 and kw["damper_mass"] is None
-    assert kw["tuning_method"] == "h2"
-    assert set(kw) == {q.name for q in DESIGN_INPUTS}
 
 
 @pytest.mark.parametrize("name", ["residential_tower", "observation_mast", "office_tower_us"])

@@ -35,6 +35,15 @@ mass_ratio = 0.02
 clearance = 1.5
 """
 
+#: MINIMAL with a harmonic storm: the load four times the wind input, a short record.
+HARMONIC = MINIMAL + """
+[simulation]
+load = "harmonic"
+duration = 120
+load_factor = 4
+tolerance = 0.01
+"""
+
 DEN_HARTOG = {
     "project": {"number": "T-6", "title": "Recalc test (invented)"},
     "mode": {"frequency": 0.2, "modal_mass": {"value": 9000, "unit": "t"},

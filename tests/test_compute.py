@@ -1,0 +1,168 @@
+# SPDX-License-Identifier: MIT
+"""The engine runs of a workbook: the design, the time-domain simulation and its load.
+
+References are named beside each value: Davenport's peak factor, the resonant response of a
+single-degree-of-freedom system, the small-angle pendulum, the power-spectral integral of the
+bare building's response (scipy.integrate.quad).
+"""
+from __future__ import annotations
+
+import math
+import tomllib
+import types
+from pathlib import Path
+
+import pytest
+
+from workbook_builder.compute import run_design, run_simulation
+from workbook_builder.plan import options_for
+from workbook_builder.plan.charts import MAX_TIME_POINTS
+from workbook_builder.project import load_project, parse_project
+
+from workbook_cases import HARMONIC, MINIMAL
+
+EXAMPLES = Path(__file__).resolve().parent.parent / "example_workbooks"
+#: MINIMAL without a chosen mass: the structure already meets the limit, no damper is needed.
+CALM = MINIMAL.replace("mass_ratio = 0.02\n", "").replace("acceleration = 0.25",
+                                                          "acceleration = 0.1")
+
+
+@pytest.fixture(scope="module")
+def residential():
+    """The residential example (random load, 600 s): its design and simulation."""
+    project = load_project(EXAMPLES / "residential_tower.toml")
+    result = run_design(project)
+    return project, result, run_simulation(project, result)
+
+
+@pytest.fixture(scope="module")
+def harmonic():
+    project = parse_project(tomllib.loads(HARMONIC), source="h.toml")
+    result = run_design(project)
+    return project, result, run_simulation(project, result)
+
+
+# ----------------------------------------------------------------------------- design
+@pytest.mark.parametrize("case, prefix", [("", r"calm\.toml: "),
+                                          ("tower B", r"calm\.toml: tower B: ")])
+def test_engine_refusal_names_the_source_and_case(case, prefix):
+    project = parse_project(tomllib.loads(CALM), source="calm.toml", case=case)
+    with pytest.raises(ValueError, match=prefix + r"the design cannot be computed: "
+                                                  r"acceleration=0\.1 is already within") as err:
+        run_design(project)
+    assert isinstance(err.value.__cause__, ValueError)        # the engine's own refusal
+
+
+def test_design_runs_on_the_projects_si_inputs():
+    project = parse_project(tomllib.loads(MINIMAL), source="m.toml")
+    result = run_design(project)
+    assert result.inputs.modal_mass == 10000 * 1000.0          # 10 000 t (1 t = 1000 kg)
+    assert result.mass_ratio == 0.02 and result.mode == "chosen_mass_ratio"
+    assert result.damper_mass == pytest.approx(0.02 * 1e7, rel=1e-15)
+
+
+# ----------------------------------------------------------------------------- simulation
+def test_random_load_is_calibrated_to_the_wind_input(residential):
+    """Bare building under the random force: RMS acceleration x Davenport peak factor equals
+    the input peak acceleration. Reference variance by numerical integration of |H_a|^2 S_F
+    (scipy.integrate.quad), peak factor from Davenport (Proc. ICE 28(2), 1964):
+    g = sqrt(2 ln(nu T)) + 0.5772 / sqrt(2 ln(nu T)), nu = f_s, T = 600 s."""
+    from scipy.integrate import quad
+    from functions.simulation import force_spectrum
+    _, result, run = residential
+    i = result.inputs
+    ws, M, zs = 2 * math.pi * i.frequency, i.modal_mass, i.structural_damping
+
+    def integrand(f):
+        w = 2 * math.pi * f
+        h = w * w / abs(M * (ws * ws - w * w) + 2j * zs * M * ws * w)
+        return h * h * force_spectrum(f, run.force, i.frequency)
+
+    var = sum(quad(integrand, lo, hi, limit=400)[0] for lo, hi in
+              ((0, 0.9 * i.frequency), (0.9 * i.frequency, 1.1 * i.frequency),
+               (1.1 * i.frequency, 20 * i.frequency)))
+    var += quad(integrand, 20 * i.frequency, math.inf, limit=400)[0]
+    lnvt = 2 * math.log(i.frequency * 600.0)
+    g_peak = math.sqrt(lnvt) + 0.5772 / math.sqrt(lnvt)
+    assert run.peak_factor == pytest.approx(g_peak, rel=1e-4)       # Euler's constant to 4 digits
+    assert math.sqrt(var) * g_peak == pytest.approx(i.acceleration, rel=1e-4)
+
+
+def test_harmonic_load_is_calibrated_to_the_wind_input(harmonic):
+    """Bare building forced at resonance: steady peak acceleration F0 / (2 zeta_s M) (textbook
+    single-degree-of-freedom result, Den Hartog 1956, s2.4) = load factor x input peak; the
+    record is sampled 32 times a period, so the sampled peak is low by up to
+    1 - cos(pi/32) = 0.5 %."""
+    _, result, run = harmonic
+    i = result.inputs
+    assert run.force == pytest.approx(4 * i.acceleration * 2 * i.structural_damping
+                                      * i.modal_mass, rel=1e-12)
+    peak = run.result.without_damper.acceleration_peak
+    assert 4 * i.acceleration * (1 - 0.005) <= peak <= 4 * i.acceleration * (1 + 1e-6)
+
+
+def test_simulation_refused_without_table(tmp_path):
+    src = tmp_path / "p.toml"
+    src.write_text(MINIMAL, encoding="utf-8")
+    project = load_project(src)
+    with pytest.raises(ValueError, match=r"p\.toml: the project does not ask for a simulation"):
+        run_simulation(project, run_design(project))
+
+
+def test_simulation_switched_off_is_refused():
+    raw = tomllib.loads(HARMONIC)
+    raw["simulation"]["enabled"] = False
+    project = parse_project(raw, source="off.toml")
+    assert project.simulation is not None and not project.simulate
+    with pytest.raises(ValueError, match=r"off\.toml: the project does not ask for a simulation"):
+        run_simulation(project, run_design(project))
+
+
+def test_engine_refusal_of_the_simulation_names_the_source_and_case(harmonic):
+    """A stand-in design result with an impossible hanger length (the engine refuses it)."""
+    _, result, _ = harmonic
+    project = parse_project(tomllib.loads(HARMONIC), source="h.toml", case="storm")
+    bad = types.SimpleNamespace(inputs=result.inputs, damper_mass=result.damper_mass,
+                                pendulum_length=-2.0, damper_damping=result.damper_damping,
+                                damper_frequency=result.damper_frequency)
+    with pytest.raises(ValueError, match=r"h\.toml: storm: the simulation cannot be run: "
+                                         r"length=-2\.0 must be in"):
+        run_simulation(project, bad)
+
+
+@pytest.mark.parametrize("which", ["residential", "harmonic"])
+def test_simulation_runs_the_designed_damper(which, request):
+    """The design's hanger and dashpot: small-angle frequency sqrt(g/L) / (2 pi) (simple
+    pendulum, textbook), damping on it zeta_d f_d / f_L (the same c_d = 2 m_d omega zeta)."""
+    _, result, run = request.getfixturevalue(which)
+    i = result.inputs
+    assert run.length == result.pendulum_length and run.damper_mass == result.damper_mass
+    assert run.load_frequency == i.frequency
+    f_l = math.sqrt(i.g / result.pendulum_length) / (2 * math.pi)
+    assert run.hanger_frequency == pytest.approx(f_l, rel=1e-14)
+    assert run.damper_damping * f_l == pytest.approx(result.damper_damping
+                                                     * result.damper_frequency, rel=1e-13)
+    assert (run.peak_factor is None) == (which == "harmonic")
+    assert run.settings.load == ("harmonic" if which == "harmonic" else "random")
+
+
+@pytest.mark.parametrize("which", ["residential", "harmonic"])
+def test_simulation_tables_have_the_sizes_the_layout_takes(which, request):
+    """The whole record thinned to at most MAX_TIME_POINTS rows with a constant stride; the
+    window spans 10 damper periods around the peak swing with every sample."""
+    project, _, run = request.getfixturevalue(which)
+    sim = run.result
+    n = sim.time.size
+    stride = math.ceil(n / MAX_TIME_POINTS)
+    rows = run.time_table.rows
+    assert len(rows) == math.ceil(n / stride) <= MAX_TIME_POINTS
+    assert rows[0][0] == pytest.approx(sim.time[0], abs=1e-9)
+    assert rows[1][0] - rows[0][0] == pytest.approx(stride * sim.time_step, rel=1e-5)
+    window = run.window_table.rows
+    span = window[-1][0] - window[0][0]
+    assert span == pytest.approx(10.0 / sim.damper_frequency, abs=1.01 * sim.time_step)
+    steps = round(span / sim.time_step)
+    assert len(window) == steps + 1
+    for table in (run.time_table, run.window_table):
+        assert table.spec.rows == len(table.rows)
+    assert options_for(project, run).simulation == (run.settings.load, len(rows), len(window))

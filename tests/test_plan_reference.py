@@ -1,0 +1,89 @@
+# SPDX-License-Identifier: MIT
+"""The reference sheets: Names lists every defined name of the plan, Cautions, Record.
+
+No reference values: the Names sheet is checked against the names the other sheets define
+(workbook_builder.plan.model.Plan), the Record rows against their declaration.
+"""
+from __future__ import annotations
+
+import pytest
+
+from functions.quantities import DESIGN_INPUTS
+from workbook_builder.plan import PlanOptions, make_plan
+from workbook_builder.plan.model import Cell, Plan, SheetPlan
+from workbook_builder.plan.reference import (CAUTIONS, RECORD_ROWS, cautions_sheet,
+                                             names_sheet, record_sheet)
+
+NUMERIC = tuple(q.name for q in DESIGN_INPUTS if q.kind != "choice" and q.name != "modal_mass")
+FULL = PlanOptions(units="US", tuning_method="h2", mass_ratio_mode="chosen_damper_mass",
+                   inputs=NUMERIC, floors=3, simulation=("random", 30, 12))
+
+
+def _listed(sheet):
+    """Name -> (refers to, quantity, unit, value cell) of the Names sheet's rows."""
+    out = {}
+    row = 5
+    while f"A{row}" in sheet.cells:
+        out[sheet.cells[f"A{row}"].content] = tuple(
+            sheet.cells[f"{c}{row}"] for c in "BCDE")
+        row += 1
+    return out
+
+
+@pytest.mark.parametrize("options", [PlanOptions(), FULL], ids=["plain", "full"])
+def test_names_sheet_lists_every_name_of_the_plan_once(options):
+    plan = make_plan(options)
+    names = plan.sheet("Names")
+    assert not any(c.name for c in names.cells.values())    # the list defines no name itself
+    listed = _listed(names)
+    expected = dict(plan.names()) | dict(plan.range_names())
+    assert set(listed) == set(expected) and len(listed) == len(expected)
+    assert list(listed) == sorted(listed)
+    for name, (refers, label, unit, value) in listed.items():
+        sheet, where = expected[name]
+        assert refers.content == f"{sheet}!{where}", name
+        if name in plan.range_names():
+            assert (label.content, value.kind, value.content) == ("range of values", "label",
+                                                                  None)
+            continue
+        _, cell = plan.named(name)
+        assert label.content == (cell.label or "helper cell") and unit.content == cell.unit
+        if cell.kind == "text":            # user text: never read through a formula
+            assert value.kind == "label" and value.content is None, name
+        else:
+            assert (value.kind, value.content) == ("formula", f"={name}"), name
+
+
+def test_names_sheet_of_a_hand_made_plan():
+    plan = Plan(PlanOptions(), [SheetPlan("S", cells={
+        "A1": Cell("A1", "formula", "=2", name="zeta", unit="-", label="Zeta"),
+        "B1": Cell("B1", "text", source=("info", "notes"), name="alpha"),
+        "C1": Cell("C1", "value", 3.0, name="beta")}, ranges={"gamma": "A5:B6"})])
+    listed = _listed(names_sheet(plan).plan)
+    assert list(listed) == ["alpha", "beta", "gamma", "zeta"]
+    assert [c.content for c in listed["zeta"]] == ["S!A1", "Zeta", "-", "=zeta"]
+    assert [c.content for c in listed["beta"]] == ["S!C1", "helper cell", "", "=beta"]
+    assert [c.content for c in listed["alpha"]][:2] == ["S!B1", "helper cell"]
+    assert listed["alpha"][3].content is None and listed["gamma"][3].content is None
+
+
+def test_record_rows_are_named_texts_from_the_record():
+    sheet = record_sheet().plan
+    for row, (label, key, name) in enumerate(RECORD_ROWS, start=3):
+        assert sheet.cells[f"A{row}"].content == label
+        value = sheet.cells[f"B{row}"]
+        assert (value.kind, value.source, value.name) == ("text", ("record", key), name)
+    keys = [key for _, key, _ in RECORD_ROWS]
+    assert {"program", "engine", "source", "sha256", "rebuild"} <= set(keys)
+    assert len(set(keys)) == len(keys)
+
+
+def test_cautions_are_numbered_in_order():
+    sheet = cautions_sheet().plan
+    for i, text in enumerate(CAUTIONS, start=1):
+        assert sheet.cells[f"A{i + 2}"].content == f"{i}."
+        assert sheet.cells[f"B{i + 2}"].content == text
+    words = " ".join(CAUTIONS)
+    for word in ("preliminary design aid", "licensed", "local codes", "wind-tunnel",
+                 "manufacturer"):
+        assert word in words
