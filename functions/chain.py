@@ -34,7 +34,7 @@ from functions.pendulum import pendulum_length, small_angle_error
 from functions.worksheet import form_of, twin
 
 __all__ = ["Step", "Section", "MASS_RATIO_MODES", "mass_ratio_mode", "sections", "steps",
-           "all_variants", "VARIANCE_SOURCE"]
+           "all_variants", "VARIANCE_SOURCE", "SMALL_SWING_ERROR"]
 
 #: How the mass ratio is set: a chosen ratio, a chosen damper mass, or the required ratio.
 MASS_RATIO_MODES = ("chosen_mass_ratio", "chosen_damper_mass", "required")
@@ -109,6 +109,13 @@ def _step(name: str, formula: str, compute: Callable[..., Any], expression: str,
 
 
 _TWO_PI = 2.0 * np.pi
+
+# T/T0 - 1 on the worksheet: the series in theta [rad] below 0.1 rad (truncation below
+# 3e-13 relative there), 1/AGM - 1 above it (cancellation below 1e-12 relative there): full
+# precision at every swing, where 1/AGM - 1 alone loses digits as the swing falls (computed).
+_T = "RADIANS(swing_angle_deg)"
+SMALL_SWING_ERROR = (f"=IF({_T}<0.1,{_T}^2/16+11*{_T}^4/3072+173*{_T}^6/737280"
+                     f"+22931*{_T}^8/1321205760,1/agm_at_swing-1)")
 
 
 def _mass_steps(mode: str) -> tuple[Step, ...]:
@@ -274,8 +281,11 @@ def sections(method: str, mode: str) -> tuple[Section, ...]:
                   lambda stroke, pendulum_length:
                   np.degrees(np.arcsin(stroke / pendulum_length)), "asin(x_d / L)"),
             Step("small_angle_error", lambda swing_angle_deg: small_angle_error(swing_angle_deg),
-                 "T / T_0 - 1 = 1 / AGM(1, cos(theta/2)) - 1", "A&S 17.6; Pendulum sheet",
-                 "=1/agm_at_swing-1"),
+                 "T / T_0 - 1 = 1 / AGM(1, cos(theta/2)) - 1; below 0.1 rad the series "
+                 "theta^2/16 + 11 theta^4/3072 + 173 theta^6/737280 + 22931 theta^8/"
+                 "1321205760",
+                 "A&S 17.6 (AGM, Pendulum sheet); the series (A&S 17.3.11) keeps full "
+                 "precision at small swings, where 1/AGM - 1 would cancel", SMALL_SWING_ERROR),
             _step("detuning", "=-small_angle_error/(1+small_angle_error)",
                   lambda small_angle_error: -small_angle_error / (1.0 + small_angle_error),
                   "1 / (1 + e) - 1 = -e / (1 + e)", "Frequency ratio = period ratio^-1"),

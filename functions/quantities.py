@@ -178,9 +178,11 @@ class Quantity:
             if not isinstance(value, bool):
                 raise ValueError(f"{self.name}={value!r} must be true or false")
             return value
-        if self.kind == "count" and (isinstance(value, bool) or not isinstance(value, int)):
-            raise ValueError(f"{self.name}={value!r} must be a whole number in "
-                             f"{self.interval()}")
+        if self.kind == "count":        # compared as integers: no rounding near 2^63
+            if isinstance(value, bool) or not isinstance(value, int) or not self.contains(value):
+                raise ValueError(f"{self.name}={value!r} must be a whole number in "
+                                 f"{self.interval()}")
+            return value
         arr = check_range(self.name, value, self.low, self.high, low_open=self.low_open,
                           high_open=self.high_open, unit=self.unit if self.unit != "-" else "-")
         if arr.ndim:

@@ -20,13 +20,16 @@ import math
 
 import numpy as np
 import pytest
+from openpyxl import Workbook
+from openpyxl.workbook.defined_name import DefinedName
 from scipy.special import ellipk
 
+from functions.chain import SMALL_SWING_ERROR
 from functions.pendulum import STANDARD_GRAVITY, pendulum_length, small_angle_error
 from functions.worksheet import TWIN_TOLERANCE
 from workbook_builder.plan.pendulum import (AGM_STEPS, CONVERGENCE, FIXED_POINT_ITERATIONS,
                                             pendulum_sheet)
-from workbook_builder.xlsx.formulas import is_error
+from workbook_builder.xlsx.formulas import Evaluator, is_error
 
 from plan_workbooks import evaluator, plan_workbook, set_values
 
@@ -106,7 +109,7 @@ def test_small_angle_error_equals_the_engine(cases):
     """=1/agm_at_swing-1 against functions.pendulum.small_angle_error: relative 1e-12 from a
     swing of 3.5 deg (e >= 2.3e-4); below it the subtraction of two numbers near 1 leaves an
     absolute error of a few units in the last place of 1 (2 eps), whatever the swing
-    (computed; see the xfail tests below for what it means for small swings)."""
+    (computed; the Calculation sheet's formula uses a series there, tested below)."""
     for f, ratio, _, _, _, swing, sheet in cases:
         got = 1.0 / sheet["agm_at_swing"] - 1.0
         want = float(small_angle_error(swing))
@@ -120,28 +123,26 @@ SMALL_SWINGS = (0.01, 0.03, 0.1, 0.5, 1.0, 2.0)          # [deg]
 
 
 def _sheet_error_at(sheet_workbook, swing):
+    """The Calculation sheet's small-angle error at ``swing``: the step's formula
+    (functions.chain.SMALL_SWING_ERROR) over the Pendulum sheet's AGM at that swing."""
     stroke = math.sin(math.radians(swing))                  # L = 1 m at that swing
     out = _evaluate(sheet_workbook, {}, 1.0, stroke, 1.0, swing)
-    return 1.0 / out["agm_at_swing"] - 1.0
+    wb = Workbook()
+    ws = wb.active
+    ws.title = "V"
+    for i, (name, value) in enumerate((("swing_angle_deg", swing),
+                                       ("agm_at_swing", out["agm_at_swing"])), start=1):
+        ws.cell(i, 1, value)
+        wb.defined_names.add(DefinedName(name, attr_text=f"V!$A${i}"))
+    return Evaluator(wb).evaluate(SMALL_SWING_ERROR, "V")
 
 
-@pytest.mark.xfail(strict=True, reason="BUG (plan/pendulum.py with functions/chain.py "
-                   "small_angle_error '=1/agm_at_swing-1'): 1/AGM - 1 subtracts two numbers "
-                   "near 1, so its relative error grows like 2 eps / e as the swing falls "
-                   "(e ~ theta^2/16): 1e-11 at 0.5 deg, 1e-10 at 0.06 deg; relative 1e-12 "
-                   "holds only from about 3 deg")
 def test_small_angle_error_keeps_relative_precision_at_small_swings(sheet_workbook):
     for swing in SMALL_SWINGS:
         got = _sheet_error_at(sheet_workbook, swing)
         assert abs(got / small_angle_error(swing) - 1) <= 1e-12, swing
 
 
-@pytest.mark.xfail(strict=True, reason="BUG (same cancellation): below a design swing of "
-                   "about 0.04 deg the sheet's small-angle error departs from the engine's by "
-                   "more than the Checks sheet's cross-check tolerance (functions.worksheet."
-                   "TWIN_TOLERANCE = 1e-9), so a valid project reads NOT OK in "
-                   "all_cross_checks (e.g. acceleration 0.002 m/s^2, limit 0.001 m/s^2, "
-                   "mass ratio 0.02 at 0.2 Hz: swing 0.027 deg, relative difference 8e-9)")
 def test_small_angle_error_passes_the_cross_check_at_small_valid_swings(sheet_workbook):
     for swing in SMALL_SWINGS:
         got = _sheet_error_at(sheet_workbook, swing)

@@ -143,12 +143,6 @@ def test_settings_text_round_trip(settings):
     assert back == settings and type(back.seed) is int and type(back.duration) is float
 
 
-@pytest.mark.xfail(strict=True, reason="BUG (functions/quantities.py Quantity.validate for a "
-                   "count): the seed's declared range is [0, 2^63) and the project reader "
-                   "accepts 2^63 - 1 (Quantity.contains compares the int), but validate "
-                   "checks float(seed), which rounds 2^63 - 512 .. 2^63 - 1 up to 2^63: "
-                   "settings_from_text refuses the settings stored with such a workbook "
-                   "(SwaytuneSimulation), so they do not round-trip")
 def test_the_largest_seed_a_project_accepts_round_trips():
     raw = tomllib.loads(MINIMAL)
     raw["simulation"] = {"seed": 2 ** 63 - 1}

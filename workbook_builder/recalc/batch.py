@@ -10,6 +10,8 @@ out work and lets the running workers finish their atomic writes.
 from __future__ import annotations
 
 import concurrent.futures as cf
+import ctypes
+import ctypes.util
 import multiprocessing as mp
 import os
 import signal
@@ -93,10 +95,21 @@ def collect_paths(paths: Iterable[str | os.PathLike],
     return out
 
 
-def _worker_init() -> None:
+def _worker_init(parent: int) -> None:
     # Workers ignore Ctrl-C: the parent stops handing out work and lets the running ones
     # finish their (atomic) writes.
     signal.signal(signal.SIGINT, signal.SIG_IGN)
+    # A worker must not outlive a parent killed outright (kill -9): on Linux the kernel sends
+    # it SIGTERM when the parent dies (prctl PR_SET_PDEATHSIG); elsewhere it ends when its
+    # task queue is closed.
+    if sys.platform.startswith("linux"):
+        try:
+            libc = ctypes.CDLL(ctypes.util.find_library("c") or "libc.so.6", use_errno=True)
+            libc.prctl(1, signal.SIGTERM, 0, 0, 0)          # 1 = PR_SET_PDEATHSIG
+        except (OSError, AttributeError):
+            pass
+        if os.getppid() != parent:                           # died before prctl took hold
+            os._exit(1)
 
 
 def _task(args) -> RecalcResult:
@@ -190,44 +203,21 @@ def recalc_many(paths: Iterable[str | os.PathLike], outdir: str | os.PathLike | 
         bar.update(r.path.name, r.status)
     interrupted = False
     try:
-        if int(jobs) == 1 or len(tasks) <= 1:
-            for i, args in tasks:
-                results[i] = _task(args)
-                bar.update(results[i].path.name, results[i].status)
-        else:
-            ctx = mp.get_context("fork" if "fork" in mp.get_all_start_methods() else "spawn")
-            with cf.ProcessPoolExecutor(max_workers=int(jobs), mp_context=ctx,
-                                        initializer=_worker_init) as pool:
-                futures = {pool.submit(_task, args): i for i, args in tasks}
-
-                def collect(fut) -> None:
-                    i = futures[fut]
-                    try:
-                        results[i] = fut.result()
-                    except Exception as exc:  # noqa: BLE001 - a worker died
-                        results[i] = RecalcResult(path=_tasks_path(tasks, i),
-                                                  error=f"worker failed: {exc}")
+        with _StopOnCtrlC() as stop:
+            if int(jobs) == 1 or len(tasks) <= 1:
+                for i, args in tasks:
+                    if stop.requested:
+                        break
+                    results[i] = _task(args)
                     bar.update(results[i].path.name, results[i].status)
-
-                try:
-                    for fut in cf.as_completed(futures):
-                        collect(fut)
-                except KeyboardInterrupt:
-                    # stop handing out work; the running workers ignore Ctrl-C and finish
-                    # their (atomic) writes: wait for them and report what they did
-                    for fut in futures:
-                        fut.cancel()
-                    running = [f for f in futures if not f.cancelled()]
-                    cf.wait(running)
-                    for fut in running:
-                        if results[futures[fut]] is None:
-                            collect(fut)
-                    raise
-    except KeyboardInterrupt:
-        interrupted = True
-        if progress:
-            sys.stderr.write("\ninterrupted: stopping; files already written are complete, "
-                             "originals untouched\n")
+            else:
+                _run_pool(tasks, results, int(jobs), bar, stop)
+            interrupted = stop.requested
+    except KeyboardInterrupt:               # a second Ctrl-C, or no handler (not the main
+        interrupted = True                  # thread): the current write is atomic anyway
+    if interrupted and progress:
+        sys.stderr.write("\ninterrupted: files already written are complete, originals "
+                         "untouched; the summary says what happened to each workbook\n")
     done = [r if r is not None else RecalcResult(path=items[i][0],
                                                   error="not recalculated (interrupted)")
             for i, r in enumerate(results)]
@@ -235,6 +225,57 @@ def recalc_many(paths: Iterable[str | os.PathLike], outdir: str | os.PathLike | 
     batch.summary_xlsx, batch.summary_csv = write_summary(batch, base, force=force)
     batch.seconds = time.perf_counter() - t0
     return batch
+
+
+class _StopOnCtrlC:
+    """Ctrl-C during a batch: stop handing out work and let the workbooks under way finish
+    (their writes are atomic), so the summary can say what happened to each; a second Ctrl-C
+    stops at once. Outside the main thread Ctrl-C raises KeyboardInterrupt as usual."""
+
+    def __init__(self) -> None:
+        self.requested = False
+        self.previous = None
+
+    def __enter__(self) -> "_StopOnCtrlC":
+        try:
+            self.previous = signal.signal(signal.SIGINT, self._handler)
+        except ValueError:                  # not the main thread
+            self.previous = None
+        return self
+
+    def _handler(self, signum, frame) -> None:
+        if self.requested:
+            raise KeyboardInterrupt
+        self.requested = True
+
+    def __exit__(self, *exc) -> None:
+        if self.previous is not None:
+            signal.signal(signal.SIGINT, self.previous)
+
+
+def _run_pool(tasks: list, results: list, jobs: int, bar: Progress, stop: _StopOnCtrlC) -> None:
+    """Recalculate ``tasks`` in ``jobs`` worker processes, filling ``results``."""
+    ctx = mp.get_context("fork" if "fork" in mp.get_all_start_methods() else "spawn")
+    with cf.ProcessPoolExecutor(max_workers=jobs, mp_context=ctx, initializer=_worker_init,
+                                initargs=(os.getpid(),)) as pool:
+        futures = {pool.submit(_task, args): i for i, args in tasks}
+        pending = set(futures)
+        while pending:
+            done, pending = cf.wait(pending, timeout=0.2, return_when=cf.FIRST_COMPLETED)
+            for fut in done:
+                i = futures[fut]
+                if fut.cancelled():
+                    continue
+                try:
+                    results[i] = fut.result()
+                except Exception as exc:  # noqa: BLE001 - a worker died
+                    results[i] = RecalcResult(path=_tasks_path(tasks, i),
+                                              error=f"worker failed: {exc}")
+                bar.update(results[i].path.name, results[i].status)
+            if stop.requested:              # hand out no more work; wait for the running
+                for fut in pending:
+                    fut.cancel()
+                pending = {f for f in pending if not f.cancelled()}
 
 
 def _tasks_path(tasks, i: int) -> Path:
