@@ -6,7 +6,7 @@ import pytest
 
 from pathlib import Path
 
-from workbook_builder.project import ProjectError, load_cases
+from workbook_builder.project import ProjectError, load_cases, output_names
 
 
 def write(tmp_path: Path, text: str, name: str = "p.toml") -> Path:
@@ -72,3 +72,65 @@ def test_simulation_in_csv_cases(tmp_path):
     with pytest.raises(ProjectError, match=r"bad\.csv:2: column simulation\.enabled: "
                                            r"'maybe' must be true or false"):
         load_cases(write(tmp_path, bad, "bad.csv"))
+
+
+# ----------------------------------------------------------------------------- hostile tables
+HEAD = ("case,mode.frequency,mode.modal_mass [t],mode.structural_damping,wind.acceleration,"
+        "wind.acceleration_limit,damper.mass_ratio,damper.clearance")
+ROW = "0.2,10000,0.01,0.25,0.15,0.02,1.5"
+
+
+def test_quoted_line_breaks_stay_in_their_cell(tmp_path):
+    text = ("case,project.notes," + HEAD.split(",", 1)[1] + "\n"
+            'a,"line1\r\nline2",' + ROW + "\n"
+            'b,"x\u2028y",' + ROW + "\n")
+    a, b = load_cases(write(tmp_path, text, "nl.csv"))
+    assert a.info["notes"] == "line1\r\nline2"       # not "line1line2"
+    assert b.info["notes"] == "x\u2028y"              # U+2028 does not split the row
+    bad = text + "c,note," + ROW.replace("0.2,", "-0.2,", 1) + "\n"
+    # the error names the line where row c starts (line 5: row a spans lines 2 and 3)
+    with pytest.raises(ProjectError, match=r"nl\.csv:5: column mode\.frequency"):
+        load_cases(write(tmp_path, bad, "nl.csv"))
+
+
+@pytest.mark.parametrize("header, message", [
+    (HEAD + ",mode.frequency", r"columns 2 \(mode\.frequency\) and 9 \(mode\.frequency\) set "
+                               r"the same input"),
+    (HEAD.replace("mode.frequency", "mode.frequency.value") + ",mode.frequency",
+     r"columns 2 \(mode\.frequency\.value\) and 9 \(mode\.frequency\) set the same input"),
+    (HEAD + ",project.title [m]", r"column 9 \(project\.title\) is text, not a number: it "
+                                  r"takes no unit \[m\]"),
+    (HEAD + ",damper.tuning_method [%]", r"column 9 \(damper\.tuning_method\) is text"),
+])
+def test_colliding_columns_and_units_on_texts_are_refused(tmp_path, header, message):
+    text = header + "\n" + "a," + ROW + ",x\n"
+    with pytest.raises(ProjectError, match=r"cols\.csv:1: " + message):
+        load_cases(write(tmp_path, text, "cols.csv"))
+
+
+def _cases(tmp_path, names):
+    text = HEAD + "\n" + "".join(f'"{n}",{ROW}\n' for n in names)
+    return load_cases(write(tmp_path, text, "names.csv"))
+
+
+@pytest.mark.parametrize("a, b", [("a/b", "a_b"), ("Café", "Cafè"), (".x.", "x"),
+                                  ("Tower", "tower")])
+def test_cases_that_would_share_a_file_name_are_refused(tmp_path, a, b):
+    projects = _cases(tmp_path, [a, b])
+    with pytest.raises(ProjectError, match=r"cases .* would both be written to .*\.xlsx; "
+                                           r"rename one of them \(nothing was written\)"):
+        output_names(projects)
+
+
+def test_output_names_are_portable_distinct_and_short(tmp_path):
+    long_a, long_b = "tower " + "a" * 300, "tower " + "a" * 299 + "b"
+    names = output_names(_cases(tmp_path, ["tower A", "Café", long_a, long_b]))
+    assert names[:2] == ["tower_A.xlsx", "Cafe.xlsx"]
+    assert len(set(names)) == 4 and all(len(n) <= 105 for n in names)
+
+
+def test_a_case_name_a_cell_cannot_hold_is_refused(tmp_path):
+    text = HEAD + "\n" + f'"bad\x07case",{ROW}\n'
+    with pytest.raises(ProjectError, match=r"names\.csv:2: column case: holds the character "
+                                           r"U\+0007"):
+        load_cases(write(tmp_path, text, "names.csv"))

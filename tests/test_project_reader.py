@@ -281,3 +281,40 @@ def test_a_huge_integer_is_refused_with_the_key(tmp_path):
     with pytest.raises(ProjectError, match=r"p\.toml:7: mode\.modal_mass: value 1000+ is too "
                                            r"large for a number"):
         load_project(write(tmp_path, text))
+
+
+# ----------------------------------------------------------------------------- hostile texts
+@pytest.mark.parametrize("key, line", [("structure", 4), ("client", 4), ("notes", 4)])
+def test_text_longer_than_a_cell_is_refused_not_cut(tmp_path, key, line):
+    text = MINIMAL.replace('title = "Test"\n', f'title = "Test"\n{key} = "{"x" * 32768}"\n')
+    with pytest.raises(ProjectError, match=rf"p\.toml:{line}: project\.{key}: is 32768 "
+                                           r"characters long; a cell holds at most 32767"):
+        load_project(write(tmp_path, text))
+    ok = MINIMAL.replace('title = "Test"\n', f'title = "Test"\n{key} = "{"x" * 32767}"\n')
+    assert load_project(write(tmp_path, ok)).info[key] == "x" * 32767
+
+
+@pytest.mark.parametrize("char", ["\\u0007", "\\u001b", "\\ufffe", "\\uffff"])
+def test_characters_a_cell_cannot_hold_are_refused(tmp_path, char):
+    text = MINIMAL.replace('title = "Test"\n', f'title = "Test"\nstructure = "a{char}b"\n')
+    with pytest.raises(ProjectError, match=r"p\.toml:4: project\.structure: holds the "
+                                           r"character U\+"):
+        load_project(write(tmp_path, text))
+    note = MINIMAL.replace("clearance = 1.5", f'clearance = {{ value = 1.5, note = "n{char}" }}')
+    with pytest.raises(ProjectError, match=r"damper\.clearance\.note: holds the character"):
+        load_project(write(tmp_path, note))
+
+
+def test_a_file_name_a_cell_cannot_hold_is_refused(tmp_path):
+    path = tmp_path / "bad\x07name.toml"
+    path.write_text(MINIMAL, encoding="utf-8")
+    with pytest.raises(ProjectError, match=r"the file name holds the character U\+0007"):
+        load_project(path)
+
+
+def test_a_damper_where_the_mode_hardly_moves_is_warned_about(tmp_path):
+    # (z/h)^k at the damper's floor: (10/30)^1.5 = 0.19 of the top floor's ordinate
+    low = FLOORS.replace("exponent = 1.5", "exponent = 1.5\ndamper_level = 1")
+    p = load_project(write(tmp_path, low))
+    assert len(p.warnings) == 1 and "moves only 19% as much" in p.warnings[0]
+    assert load_project(write(tmp_path, FLOORS)).warnings == ()

@@ -117,7 +117,8 @@ def load_cases(path: str | Path) -> list[Project]:
     """
     path = Path(path)
     try:
-        text = path.read_text(encoding="utf-8-sig")
+        with path.open(encoding="utf-8-sig", newline="") as fh:   # keep CR LF inside cells
+            text = fh.read()
     except FileNotFoundError:
         raise ProjectError(f"{path}: case table not found") from None
     except (OSError, UnicodeDecodeError) as exc:
