@@ -327,6 +327,9 @@ def test_method_list():
     (lambda: optimal_tuning(-0.02, "h2"), r"mass_ratio=-0\.02 must be in \[0\.0001, 2\]"),
     (lambda: optimal_tuning(3.0, "hinf"), r"mass_ratio=3\.0 must be in \[0\.0001, 2\]"),
     (lambda: optimal_tuning(2.0, "harmonic_base"), r"mass_ratio=2\.0 must be in \(0, 2\)"),
+    # A closed form that gives a damper damping at or above critical is refused, not returned.
+    (lambda: optimal_tuning(1.9, "harmonic_base"),
+     r"mass_ratio=1\.9 gives a damper damping of 2\.22 \(critical or above\).*use a smaller"),
     (lambda: optimal_tuning(0.02, "bogus"), r"method='bogus' must be one of"),
     (lambda: optimal_tuning(0.02, "den_hartog", 0.02),
      r"structural_damping=0\.02 must be 0 for method='den_hartog'.*use method='h2' or 'hinf'"),

@@ -207,3 +207,39 @@ def test_guide_gives_both_set_ups_and_the_export_command():
     assert "xlwings addin install" in guide and "Import Functions" in guide
     assert "requirements.txt" in guide and "numpy\nscipy" in guide
     assert "CAUTION" in guide
+
+
+def test_a_different_main_py_is_never_replaced_without_force(tmp_path, capsys):
+    """The user's own main.py (or one edited since the export) is kept; --force replaces it.
+
+    Before: ``lite-export --out DIR`` replaced an existing main.py and requirements.txt silently.
+    """
+    from workbook_builder import cli
+    from workbook_builder.xlsx.files import OverwriteRefused
+    out = tmp_path / "lite"
+    lite_export.export_lite(out)
+    lite_export.export_lite(out)                   # the same export again: nothing to keep
+    for name in ("main.py", "requirements.txt"):
+        mine = "# my own macros\n"
+        (out / name).write_text(mine, encoding="utf-8")
+        with pytest.raises(OverwriteRefused, match=rf"{name} exists and differs from the "
+                                                   r"export.*--force"):
+            lite_export.export_lite(out)
+        assert (out / name).read_text(encoding="utf-8") == mine
+        assert cli.main(["lite-export", "--out", str(out)]) == 1
+        err = capsys.readouterr().err
+        assert "error:" in err and name in err and "Traceback" not in err
+        assert (out / name).read_text(encoding="utf-8") == mine
+        assert cli.main(["lite-export", "--out", str(out), "--force"]) == 0
+        assert (out / name).read_text(encoding="utf-8") != mine
+    assert sorted(p.name for p in out.iterdir()) == ["main.py", "requirements.txt"]
+
+
+def test_out_that_is_a_file_is_refused(tmp_path, capsys):
+    from workbook_builder import cli
+    a_file = tmp_path / "notes.txt"
+    a_file.write_text("mine")
+    assert cli.main(["lite-export", "--out", str(a_file)]) == 1
+    err = capsys.readouterr().err
+    assert "notes.txt is a file; --out must be a folder" in err and "Traceback" not in err
+    assert a_file.read_text() == "mine"

@@ -306,6 +306,9 @@ def test_detuning_is_minus_error_over_one_plus_error():
     (lambda: amplitude_for_error(-0.1), r"error=-0\.1 must be in \[0, 10\]"),
     (lambda: amplitude_for_error(11.0), r"error=11\.0 must be in \[0, 10\]"),
     (lambda: equivalent_length(0.0), r"frequency=0\.0 must be in \(0, inf\) \[Hz\]"),
+    # A length beyond the largest float is named as such (no inf, no RuntimeWarning).
+    (lambda: equivalent_length(1e-300, 10.0),
+     r"frequency=1e-300 \[Hz\] is too small for a pendulum.*beyond the largest number"),
     (lambda: pendulum_frequency(1.0, 190.0), r"amplitude_deg=190\.0 must be in \[0, 180\)"),
     (lambda: compound_pendulum_length(1.0, 10.0, 1.0),
      r"inertia_about_pivot=1\.0 must be in \[mass\*pivot_to_centre\^2, inf\) = \[10, inf\)"),

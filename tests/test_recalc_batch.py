@@ -23,6 +23,7 @@ from workbook_builder import cli
 from workbook_builder.recalc import (BatchSummary, RecalcResult, collect_paths, read_inputs,
                                      recalc_many, recalc_workbook, write_results)
 from workbook_builder.recalc.summary import SUMMARY_STEM
+from workbook_builder.xlsx.files import OverwriteRefused
 
 from recalc_helpers import ROOT, cell_of, copy_to, main_recalc, sha256_of
 from workbook_cases import NAMES
@@ -272,6 +273,56 @@ def test_two_inputs_for_one_output_and_output_over_the_original(built, tmp_path)
     same = recalc_many([one], outdir=tmp_path / "one", progress=False)
     assert same.results[0].status == "FAILED"
     assert "the output folder holds the original" in same.results[0].error
+
+
+@pytest.mark.parametrize("suffix", [".xlsx", ".csv"])
+def test_the_users_own_file_named_like_the_summary_is_refused_before_any_work(built, tmp_path,
+                                                                              suffix):
+    """``--summary NAME`` where NAME.xlsx / NAME.csv is the user's own file: refused before a
+    single workbook is recalculated (before: silently replaced)."""
+    folder = tmp_path / "in"
+    copy_to(built["den_hartog"], folder)
+    mine = tmp_path / f"budget{suffix}"
+    mine.write_text("my own table\n")
+    with pytest.raises(OverwriteRefused, match=rf"budget\{suffix}.*(not produced by swaytune|"
+                                               r"not a recalc summary).*--force"):
+        recalc_many([folder], outdir=tmp_path / "out", summary=tmp_path / "budget",
+                    progress=False)
+    assert mine.read_text() == "my own table\n"
+    assert not (tmp_path / "out").exists()                 # no workbook was recalculated
+    assert main_recalc([str(folder), "-o", str(tmp_path / "out"), "--summary",
+                        str(tmp_path / "budget"), "--no-progress"]) == 1
+    assert mine.read_text() == "my own table\n"
+    batch = recalc_many([folder], outdir=tmp_path / "out", summary=tmp_path / "budget",
+                        progress=False, force=True)
+    assert batch.summary_csv.read_text().startswith("workbook,status")
+
+
+def test_an_earlier_summary_is_replaced(built, tmp_path):
+    folder = tmp_path / "in"
+    copy_to(built["den_hartog"], folder)
+    for _ in range(2):
+        batch = recalc_many([folder], outdir=tmp_path / "out", progress=False)
+        assert batch.exit_status == 0 and batch.summary_xlsx.name == f"{SUMMARY_STEM}.xlsx"
+
+
+def test_output_folder_that_is_a_file_or_the_input_folder_is_refused(built, tmp_path, capsys):
+    folder = tmp_path / "in"
+    copy_to(built["den_hartog"], folder)
+    a_file = tmp_path / "notes.txt"
+    a_file.write_text("mine")
+    with pytest.raises(ValueError, match=r"the output folder .*notes\.txt is a file"):
+        recalc_many([folder], outdir=a_file, progress=False)
+    with pytest.raises(ValueError, match=r"is the folder being recalculated"):
+        recalc_many([folder], outdir=folder, progress=False)
+    # the command: a message, no traceback, exit 1, nothing written
+    assert main_recalc([str(folder), "-o", str(a_file), "--no-progress"]) == 1
+    err = capsys.readouterr().err
+    assert "error: the output folder" in err and "Traceback" not in err
+    assert a_file.read_text() == "mine"
+    assert cli.main(["recalc", str(folder), "-o", str(folder), "--no-progress"]) == 1
+    assert "is the folder being recalculated" in capsys.readouterr().err
+    assert sorted(p.name for p in folder.iterdir()) == ["den_hartog.xlsx"]
 
 
 def test_recalc_many_argument_errors(tmp_path):

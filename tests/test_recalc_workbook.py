@@ -12,6 +12,7 @@ from __future__ import annotations
 import dataclasses
 import gc
 import os
+import shutil
 import stat
 
 import openpyxl
@@ -224,6 +225,74 @@ def test_in_place_keeps_backup_and_is_atomic(built, tmp_path, monkeypatch):
     assert res2.status == "FAILED" and "disk full" in res2.error
     assert path.read_bytes() == before
     assert sorted(p.name for p in tmp_path.iterdir() if p.name.startswith(".")) == []
+
+
+def test_a_failed_write_leaves_no_backup(built, tmp_path, monkeypatch):
+    """A full disk while writing: the original is untouched, so no backup may be left beside it
+    (before: .bak files of 0-40 KB next to workbooks that were never modified)."""
+    path = copy_to(built["den_hartog"], tmp_path)
+    before = path.read_bytes()
+
+    def boom(*a, **k):
+        raise OSError(28, "No space left on device")
+
+    monkeypatch.setattr(rewrite, "rewrite_cells", boom)
+    res = recalc_workbook(path, in_place=True, inputs={"frequency": 0.23})
+    assert res.status == "FAILED" and "No space left" in res.error and res.backup is None
+    assert path.read_bytes() == before
+    assert sorted(p.name for p in tmp_path.iterdir()) == [path.name]
+
+
+def test_a_failed_backup_leaves_no_partial_backup(built, tmp_path, monkeypatch):
+    path = copy_to(built["den_hartog"], tmp_path)
+    before = path.read_bytes()
+
+    def half_copy(src, dst, *a, **k):
+        with open(src, "rb") as f, open(dst, "wb") as g:
+            g.write(f.read(4096))
+        raise OSError(27, "File too large")
+
+    monkeypatch.setattr(shutil, "copy2", half_copy)
+    res = recalc_workbook(path, in_place=True, inputs={"frequency": 0.23})
+    assert res.status == "FAILED" and "File too large" in res.error
+    assert path.read_bytes() == before
+    assert sorted(p.name for p in tmp_path.iterdir()) == [path.name]
+
+
+def test_in_place_through_a_symbolic_link_replaces_the_target_and_keeps_the_link(built, tmp_path):
+    target = copy_to(built["den_hartog"], tmp_path / "store")
+    (tmp_path / "desk").mkdir()
+    link = tmp_path / "desk" / "tower.xlsx"
+    link.symlink_to(target)
+    original = target.read_bytes()
+    res = recalc_workbook(link, in_place=True, inputs={"frequency": 0.22})
+    assert res.status == "OK"
+    assert link.is_symlink() and link.resolve() == target.resolve()
+    assert read_inputs(target)["frequency"] == 0.22
+    assert res.output == target.resolve()
+    assert res.backup is not None and res.backup.parent == target.parent.resolve()
+    assert res.backup.read_bytes() == original
+    assert [i for i in res.issues if i.kind == "note" and "symbolic link" in i.message
+            and str(target.resolve()) in i.message]
+    assert list((tmp_path / "desk").iterdir()) == [link]
+
+
+def test_an_output_edited_since_recalc_wrote_it_is_not_replaced(built, tmp_path):
+    out = tmp_path / "out"
+    first = recalc_workbook(built["den_hartog"], outdir=out, inputs={"frequency": 0.22})
+    assert first.status == "OK"
+    again = recalc_workbook(built["den_hartog"], outdir=out, inputs={"frequency": 0.23})
+    assert again.status == "OK"                 # unchanged since recalc wrote it: replaced
+    sheet, coord = cell_of(again.output, "clearance")
+    set_cells(again.output, {(sheet, "I5"): "checked on site, see my note"})
+    edited = again.output.read_bytes()
+    res = recalc_workbook(built["den_hartog"], outdir=out, inputs={"frequency": 0.24})
+    assert res.status == "FAILED" and res.output is None
+    assert "was changed after swaytune" in res.error and "--force" in res.error
+    assert again.output.read_bytes() == edited
+    forced = recalc_workbook(built["den_hartog"], outdir=out, inputs={"frequency": 0.24},
+                             force=True)
+    assert forced.status == "OK" and read_inputs(forced.output)["frequency"] == 0.24
 
 
 def test_output_guard_refuses_foreign_file(built, tmp_path):

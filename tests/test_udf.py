@@ -601,3 +601,15 @@ def test_lookup_tables_cell_and_range():
     assert got[0] == [STRUCTURAL_LOG_DECREMENTS[names[0]], None]
     assert got[1][1] == STRUCTURAL_LOG_DECREMENTS[names[2]]
     assert got[1][0] == "building_type='brick' must be one of: " + ", ".join(names)
+
+
+def test_a_huge_whole_number_is_named_in_digits_not_as_inf():
+    """A cell holding 10^400 (Python hands it over as an int) is too large, said in the cell's terms.
+
+    Before: "length=inf must be a finite number", although the user typed no inf.
+    """
+    for value in (10**400, -10**400):
+        got = udf.sway_exact_period(value, 10.0)
+        assert got == ("length: a number of 401 digits is too large "
+                       "(the largest is about 1.8e308)")
+    assert udf.sway_exact_period(10**300, 10.0) == udf.sway_exact_period(1e300, 10.0)

@@ -6,16 +6,22 @@ Behaviour tests of our own rules: common practice, no source.
 """
 from __future__ import annotations
 
+import zipfile
+
 import openpyxl
 import pytest
+from openpyxl.packaging.custom import CustomPropertyList
 from openpyxl.styles import Font
+from openpyxl.xml.functions import fromstring
 
 from workbook_builder.build import write_workbook
 from workbook_builder.project import load_project
-from workbook_builder.xlsx.files import (DIGEST_PROPERTY, MARKER_NAME, OverwriteRefused,
+from workbook_builder.xlsx.files import (DIGEST_PROPERTY, MARKER_NAME,
+                                         PACKAGE_DIGEST_PROPERTY, OverwriteRefused,
                                          atomic_path, content_digest, guard_hand_edits,
                                          guard_overwrite, is_swaytune_workbook, mark_workbook,
-                                         save_workbook, set_digest)
+                                         package_digest, read_property, save_workbook,
+                                         set_digest, with_property)
 
 from workbook_cases import MINIMAL
 
@@ -149,6 +155,70 @@ def test_guard_hand_edits_leaves_other_files_to_guard_overwrite(tmp_path):
     guard_hand_edits(tmp_path / "plain.xlsx")           # no digest
     (tmp_path / "junk.xlsx").write_bytes(b"not a workbook")
     guard_hand_edits(tmp_path / "junk.xlsx")            # not readable: guard_overwrite decides
+
+
+# ----------------------------------------------------------------------------- package digest
+# recalc rewrites a package part by part (no openpyxl round trip), so it guards its outputs with
+# a digest of the package's bytes rather than of the cells as openpyxl reads them.
+_CUSTOM = ('<?xml version="1.0" encoding="UTF-8" standalone="yes"?>\n<Properties xmlns='
+           '"http://schemas.openxmlformats.org/officeDocument/2006/custom-properties" xmlns:vt='
+           '"http://schemas.openxmlformats.org/officeDocument/2006/docPropsVTypes">'
+           '<property fmtid="{D5CDD505-2E9C-101B-9397-08002B2CF9AE}" pid="2" name="Checked by">'
+           '<vt:lpwstr>C.D.</vt:lpwstr></property></Properties>').encode()
+
+
+def test_package_digest_covers_every_part_but_the_properties():
+    parts = [("xl/workbook.xml", b"<workbook/>"), ("xl/worksheets/sheet1.xml", b"<ws>1</ws>"),
+             ("docProps/custom.xml", b"a"), ("docProps/core.xml", b"b"), ("docProps/app.xml", b"c")]
+    base = package_digest(parts)
+    assert len(base) == 64 and package_digest(reversed(parts)) == base      # order of members
+    props = [(n, b"other" if n.startswith("docProps/") else raw) for n, raw in parts]
+    assert package_digest(props) == base          # the digest itself, timestamps: not hashed
+    for k in range(2):
+        edited = list(parts)
+        edited[k] = (parts[k][0], parts[k][1] + b" ")
+        assert package_digest(edited) != base
+    assert package_digest(parts + [("xl/extra.xml", b"")]) != base
+    assert package_digest([("xl/a", b"bc")]) != package_digest([("xl/ab", b"c")])
+
+
+def test_properties_are_added_replaced_and_read_back():
+    assert read_property(_CUSTOM, "Checked by") == "C.D."
+    assert read_property(_CUSTOM, PACKAGE_DIGEST_PROPERTY) is None
+    once = with_property(_CUSTOM, PACKAGE_DIGEST_PROPERTY, "a<b & c")
+    assert read_property(once, PACKAGE_DIGEST_PROPERTY) == "a<b & c"
+    assert b'pid="3"' in once and read_property(once, "Checked by") == "C.D."
+    twice = with_property(once, PACKAGE_DIGEST_PROPERTY, "new")
+    assert read_property(twice, PACKAGE_DIGEST_PROPERTY) == "new"
+    assert twice.count(PACKAGE_DIGEST_PROPERTY.encode()) == 1 and b'pid="3"' in twice
+    read_by_openpyxl = CustomPropertyList.from_tree(fromstring(twice))
+    assert {p.name: p.value for p in read_by_openpyxl.props} == {
+        "Checked by": "C.D.", PACKAGE_DIGEST_PROPERTY: "new"}
+    with pytest.raises(ValueError, match="not a custom-properties part"):
+        with_property(b"<other/>", PACKAGE_DIGEST_PROPERTY, "x")
+
+
+def _package_with_digest(path, sheet=b"<ws>1</ws>"):
+    members = [("xl/workbook.xml", b"<workbook/>"), ("xl/worksheets/sheet1.xml", sheet)]
+    custom = with_property(_CUSTOM, PACKAGE_DIGEST_PROPERTY, package_digest(members))
+    with zipfile.ZipFile(path, "w") as zf:
+        for name, raw in members + [("docProps/custom.xml", custom)]:
+            zf.writestr(name, raw)
+    return path
+
+
+def test_guard_hand_edits_checks_the_package_digest_when_there_is_one(tmp_path):
+    path = _package_with_digest(tmp_path / "recalculated.xlsx")
+    guard_hand_edits(path)                      # byte for byte as written: fine
+    with zipfile.ZipFile(path) as zf:
+        members = {i.filename: zf.read(i) for i in zf.infolist()}
+    members["xl/worksheets/sheet1.xml"] = b"<ws>2</ws>"             # an edit, old digest kept
+    with zipfile.ZipFile(path, "w") as zf:
+        for name, raw in members.items():
+            zf.writestr(name, raw)
+    with pytest.raises(OverwriteRefused, match=r"was changed after swaytune wrote it .*--force"):
+        guard_hand_edits(path)
+    guard_hand_edits(path, force=True)
 
 
 # ----------------------------------------------------------------------------- through the builder

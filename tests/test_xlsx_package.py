@@ -176,6 +176,63 @@ def test_utf16_part_and_broken_xml_are_refused(tmp_path):
         open_package(path)
 
 
+# The issue's reproduction: a sheet whose DTD declares an internal entity and uses it in a cell
+# text. Encoded as UTF-16 the bytes "<!DOCTYPE" never occur, so a byte search alone let it through
+# and the entity's text came back as the cell's value.
+_ENTITY_STRINGS = ('<?xml version="1.0" encoding="{enc}"?><!DOCTYPE sst [<!ENTITY e "INJECTED">]>'
+                   + STRINGS.replace("label", "&e;"))
+
+
+@pytest.mark.parametrize("codec, declared", [("utf-16", "UTF-16"), ("utf-16-le", "UTF-16"),
+                                             ("utf-16-be", "UTF-16"), ("utf-32", "UTF-32"),
+                                             ("iso-8859-1", "ISO-8859-1")])
+def test_a_dtd_in_a_part_not_encoded_as_utf8_is_refused(tmp_path, codec, declared):
+    data = _ENTITY_STRINGS.format(enc=declared).encode(codec)
+    assert (b"<!DOCTYPE" in data) == (codec == "iso-8859-1")
+    path = _package(tmp_path / "enc.xlsx", {"xl/sharedStrings.xml": data})
+    with pytest.raises(PackageError, match=r"refused: part xl/sharedStrings\.xml is not UTF-8 "
+                                           r"encoded XML"):
+        open_package(path)
+
+
+def test_a_dtd_in_an_ascii_part_is_refused_as_a_dtd(tmp_path):
+    # US-ASCII is a subset of UTF-8, so the part is read as such and its DTD found by the search.
+    data = _ENTITY_STRINGS.format(enc="US-ASCII").encode("ascii")
+    path = _package(tmp_path / "ascii.xlsx", {"xl/sharedStrings.xml": data})
+    with pytest.raises(PackageError, match=r"part xl/sharedStrings\.xml holds a DTD"):
+        open_package(path)
+
+
+def test_a_utf8_declaration_in_any_spelling_is_read(tmp_path):
+    for spelling in ("UTF-8", "utf-8", "utf8", "UTF8"):
+        text = f'<?xml version="1.0" encoding="{spelling}"?>' + STRINGS
+        book = open_package(_package(tmp_path / f"{spelling}.xlsx",
+                                     {"xl/sharedStrings.xml": text}))
+        assert book["Calc & data"].get("C1").value == "label"
+
+
+def test_many_members_each_under_the_member_limit_are_refused_as_a_whole(tmp_path):
+    """250 members of 999,999 zero bytes: each passes the per-member check (under 1 MB, where a
+    small part may be very compressible), the package as a whole is a bomb (~250 MB from ~250 KB)."""
+    path = _package(tmp_path / "many.xlsx",
+                    {f"docProps/f{k}.bin": b"\0" * 999_999 for k in range(250)})
+    with zipfile.ZipFile(path) as zf:
+        infos = [i for i in zf.infolist() if i.filename.startswith("docProps/f")]
+    assert all(i.file_size < 1_000_000 for i in infos)
+    assert path.stat().st_size < 400_000
+    with pytest.raises(PackageError, match=r"refused: package is \d+ bytes uncompressed from "
+                                           r"\d+ bytes \(limit \d+, ratio 200\)"):
+        open_package(path)
+
+
+def test_too_many_members_are_refused(tmp_path):
+    extra = {f"docProps/m{k}": b"" for k in range(package.MAX_MEMBERS)}
+    path = _package(tmp_path / "members.xlsx", extra)
+    with pytest.raises(PackageError, match=rf"refused: the package has {package.MAX_MEMBERS + 5} "
+                                           rf"members \(limit {package.MAX_MEMBERS}\)"):
+        open_package(path)
+
+
 def test_missing_sheet_part_and_bad_shared_string_index(tmp_path):
     path = _package(tmp_path / "m.xlsx", {"xl/worksheets/sheet1.xml": None})
     with pytest.raises(PackageError, match=r"sheet 'Calc & data' part xl/worksheets/sheet1.xml "

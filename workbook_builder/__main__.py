@@ -2,7 +2,7 @@
 """``python -m workbook_builder`` runs the swaytune command line."""
 import sys
 
-from .cli import main
+from .launch import main
 
 if __name__ == "__main__":
     sys.exit(main())
