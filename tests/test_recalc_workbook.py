@@ -12,6 +12,7 @@ from __future__ import annotations
 import dataclasses
 import gc
 import os
+import re
 import shutil
 import stat
 
@@ -225,6 +226,20 @@ def test_in_place_keeps_backup_and_is_atomic(built, tmp_path, monkeypatch):
     assert res2.status == "FAILED" and "disk full" in res2.error
     assert path.read_bytes() == before
     assert sorted(p.name for p in tmp_path.iterdir() if p.name.startswith(".")) == []
+
+
+@pytest.mark.parametrize("name, value, message", [
+    ("frequency", 1e-300, r"frequency=1e-300 Hz must be in \[0\.01, 20\] \[Hz\]"),
+    ("frequency", 1e300, r"frequency=1e\+300 Hz must be in \[0\.01, 20\]"),
+    ("modal_mass", 1e300, r"modal_mass=1e\+300 .* must be in"),
+])
+def test_extreme_inputs_are_refused_with_the_range_not_an_unexpected_error(built, tmp_path,
+                                                                           name, value, message):
+    """Before: ``frequency = 1e-300`` gave "unexpected error (ZeroDivisionError)"."""
+    res = recalc_workbook(built["den_hartog"], outdir=tmp_path, inputs={name: value})
+    assert res.status == "FAILED" and "unexpected" not in res.error
+    assert re.search(message, res.error), res.error
+    assert not list(tmp_path.iterdir())
 
 
 def test_a_failed_write_leaves_no_backup(built, tmp_path, monkeypatch):
