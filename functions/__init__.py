@@ -30,7 +30,7 @@ from functions.simulation import *  # noqa: F401,F403
 from functions.structure import *  # noqa: F401,F403
 from functions.worksheet import *  # noqa: F401,F403
 
-__version__ = "0.1.0"
+__version__ = "0.2.0"
 
 __all__ = sorted({*pendulum.__all__, *structure.__all__, *closed_forms.__all__,
                   *damper.__all__, *optima.__all__, *quantities.__all__, *worksheet.__all__,

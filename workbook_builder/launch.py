@@ -22,8 +22,11 @@ def main(argv: Sequence[str] | None = None) -> int:
 
     Examples
     --------
-    >>> main(["--version"])  # doctest: +SKIP
-    swaytune 0.2.0
+    >>> import contextlib, io
+    >>> with contextlib.redirect_stdout(io.StringIO()), contextlib.redirect_stderr(io.StringIO()):
+    ...     status = main(["examples", "--dir", "a folder without example projects"])
+    >>> status
+    1
     """
     try:    # lazy import: the second it takes is the window this function guards
         from .cli import main as run
