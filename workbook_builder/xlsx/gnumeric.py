@@ -20,12 +20,11 @@ from __future__ import annotations
 
 import os
 import shutil
-import signal
-import subprocess
 import tempfile
 from pathlib import Path
 
 from .files import atomic_path
+from .libreoffice import find_program, run_program
 
 __all__ = ["GnumericError", "find_ssconvert", "recalculate"]
 
@@ -43,17 +42,9 @@ def find_ssconvert() -> str | None:
     Looks at the ``SWAYTUNE_SSCONVERT`` environment variable first, then ``ssconvert`` on
     ``PATH``, then the usual install locations on Linux and macOS.
     """
-    env = os.environ.get("SWAYTUNE_SSCONVERT")
-    if env and Path(env).is_file() and os.access(env, os.X_OK):
-        return str(Path(env))
-    found = shutil.which("ssconvert")
-    if found:
-        return found
-    for cand in ("/usr/bin/ssconvert", "/usr/local/bin/ssconvert", "/opt/homebrew/bin/ssconvert",
-                 "/opt/local/bin/ssconvert"):
-        if Path(cand).is_file() and os.access(cand, os.X_OK):
-            return cand
-    return None
+    return find_program("SWAYTUNE_SSCONVERT", ("ssconvert",),
+                        ["/usr/bin/ssconvert", "/usr/local/bin/ssconvert",
+                         "/opt/homebrew/bin/ssconvert", "/opt/local/bin/ssconvert"])
 
 
 def _private_env(home: Path) -> dict[str, str]:
@@ -65,23 +56,6 @@ def _private_env(home: Path) -> dict[str, str]:
     env["XDG_CACHE_HOME"] = str(home / ".cache")
     env["GSETTINGS_BACKEND"] = "memory"
     return env
-
-
-def _run(cmd: list[str], timeout: float, env: dict[str, str]) -> subprocess.CompletedProcess:
-    """Run ``cmd`` in its own process group; kill the whole group on timeout."""
-    proc = subprocess.Popen(cmd, stdout=subprocess.PIPE, stderr=subprocess.PIPE, env=env,
-                            start_new_session=True, text=True, errors="replace")
-    try:
-        out, err = proc.communicate(timeout=timeout)
-    except subprocess.TimeoutExpired:
-        try:
-            os.killpg(proc.pid, signal.SIGKILL)
-        except (ProcessLookupError, PermissionError):
-            proc.kill()
-        proc.communicate()
-        raise GnumericError(f"Gnumeric (ssconvert) did not finish within {timeout:g} s: "
-                            f"{' '.join(cmd)}") from None
-    return subprocess.CompletedProcess(cmd, proc.returncode, out, err)
 
 
 def recalculate(path: str | os.PathLike, outdir: str | os.PathLike, timeout: float = 180, *,
@@ -123,7 +97,8 @@ def recalculate(path: str | os.PathLike, outdir: str | os.PathLike, timeout: flo
         work_out.mkdir()
         produced = work_out / dest.name
         cmd = [exe, f"--import-type={XLSX_IMPORTER}", "--recalc", str(src), str(produced)]
-        result = _run(cmd, timeout, _private_env(home))
+        result = run_program(cmd, timeout, _private_env(home), error=GnumericError,
+                             program="Gnumeric (ssconvert)")
         detail = (result.stderr.strip() or result.stdout.strip() or "no message")[-2000:]
         if result.returncode != 0:
             raise GnumericError(f"Gnumeric (ssconvert) failed on {src.name} (exit status "

@@ -35,6 +35,8 @@ from .files import atomic_path
 __all__ = [
     "OfficeError",
     "find_soffice",
+    "find_program",
+    "run_program",
     "recalculate",
     "export_pdf",
     "convert",
@@ -74,19 +76,28 @@ class OfficeError(RuntimeError):
     """LibreOffice is missing, timed out, or did not produce the expected output file."""
 
 
+def find_program(variable: str, names: tuple[str, ...], candidates: list[str]) -> str | None:
+    """The path of an external program, or None: the environment variable ``variable`` first,
+    then each of ``names`` on ``PATH``, then the usual install locations ``candidates``."""
+    env = os.environ.get(variable)
+    if env and Path(env).is_file() and os.access(env, os.X_OK):
+        return str(Path(env))
+    for name in names:
+        found = shutil.which(name)
+        if found:
+            return found
+    for cand in candidates:
+        if Path(cand).is_file() and os.access(cand, os.X_OK):
+            return cand
+    return None
+
+
 def find_soffice() -> str | None:
     """Return the path of the LibreOffice ``soffice`` program, or None.
 
     Looks at the ``SWAYTUNE_SOFFICE`` environment variable first, then ``soffice`` and
     ``libreoffice`` on ``PATH``, then the usual install locations on Linux, macOS and Windows.
     """
-    env = os.environ.get("SWAYTUNE_SOFFICE")
-    if env and Path(env).is_file() and os.access(env, os.X_OK):
-        return str(Path(env))
-    for name in ("soffice", "libreoffice"):
-        found = shutil.which(name)
-        if found:
-            return found
     candidates = [
         "/usr/lib/libreoffice/program/soffice",
         "/opt/libreoffice/program/soffice",
@@ -95,10 +106,7 @@ def find_soffice() -> str | None:
         r"C:\Program Files (x86)\LibreOffice\program\soffice.exe",
     ]
     candidates += sorted(str(p) for p in Path("/opt").glob("libreoffice*/program/soffice"))
-    for cand in candidates:
-        if Path(cand).is_file() and os.access(cand, os.X_OK):
-            return cand
-    return None
+    return find_program("SWAYTUNE_SOFFICE", ("soffice", "libreoffice"), candidates)
 
 
 def _write_profile(profile: Path, recalc: str) -> None:
@@ -109,8 +117,11 @@ def _write_profile(profile: Path, recalc: str) -> None:
         _XCU_TEMPLATE.format(mode=_RECALC_MODES[recalc]), encoding="utf-8")
 
 
-def _run(cmd: list[str], timeout: float, env: dict[str, str]) -> subprocess.CompletedProcess:
-    """Run ``cmd`` in its own process group; kill the whole group on timeout."""
+def run_program(cmd: list[str], timeout: float, env: dict[str, str], *,
+                error: type[Exception] = OfficeError,
+                program: str = "LibreOffice") -> subprocess.CompletedProcess:
+    """Run ``cmd`` in its own process group; kill the whole group on timeout and raise
+    ``error`` naming ``program``."""
     proc = subprocess.Popen(cmd, stdout=subprocess.PIPE, stderr=subprocess.PIPE, env=env,
                             start_new_session=True, text=True, errors="replace")
     try:
@@ -121,8 +132,8 @@ def _run(cmd: list[str], timeout: float, env: dict[str, str]) -> subprocess.Comp
         except (ProcessLookupError, PermissionError):
             proc.kill()
         proc.communicate()
-        raise OfficeError(f"LibreOffice did not finish within {timeout:g} s: "
-                          f"{' '.join(cmd)}") from None
+        raise error(f"{program} did not finish within {timeout:g} s: "
+                    f"{' '.join(cmd)}") from None
     return subprocess.CompletedProcess(cmd, proc.returncode, out, err)
 
 
@@ -206,7 +217,7 @@ def convert_many(paths: Iterable[str | os.PathLike], outdir: str | os.PathLike,
                "--outdir", str(work_out)] + [str(src) for src in srcs]
         env = dict(os.environ)
         env.setdefault("SAL_USE_VCLPLUGIN", "svp")
-        result = _run(cmd, timeout, env)
+        result = run_program(cmd, timeout, env)
         missing = [src.name for src, dest in zip(srcs, dests)
                    if not (work_out / dest.name).is_file()
                    or (work_out / dest.name).stat().st_size == 0]
