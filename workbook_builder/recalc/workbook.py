@@ -111,33 +111,44 @@ def _plain(v: Any) -> Any:
     return str(v) if is_error(v) else v
 
 
-def _locate(book: Book, plan: Plan, sheet: str, ref: str, name: str) -> tuple[str, str]:
-    """Where a planned cell is in the workbook: through its name, or its named range."""
-    if name:
-        loc = book.name_cell(name)
-        if loc is None:
-            raise RecalcError(f"missing defined name {name}: the workbook's layout is damaged "
-                              "(rebuild it from its project file)")
-        return loc
-    r, c = split_coord(ref)
-    for rname, (rsheet, rng) in plan.range_names().items():
-        if rsheet != sheet:
-            continue
-        first, _, last = rng.partition(":")
-        (r1, c1), (r2, c2) = split_coord(first), split_coord(last)
-        if r1 <= r <= r2 and c1 <= c <= c2:
-            found = book.name_range(rname)
+class _Locator:
+    """Where planned cells are in the workbook: through their names, or their named ranges
+    (each range's cells looked up once per workbook, not once per cell)."""
+
+    def __init__(self, book: Book, plan: Plan):
+        self.book = book
+        self.ranges = []
+        for rname, (rsheet, rng) in plan.range_names().items():
+            first, _, last = rng.partition(":")
+            self.ranges.append((rname, rsheet, split_coord(first), split_coord(last)))
+        self.found: dict[str, tuple[str, list[Cell]]] = {}
+
+    def _range(self, rname: str, rows: int, width: int) -> tuple[str, list[Cell]]:
+        if rname not in self.found:
+            found = self.book.name_range(rname)
             if found is None:
                 raise RecalcError(f"missing defined name {rname}: the workbook's layout is "
                                   "damaged (rebuild it from its project file)")
-            wsheet, cells = found
-            width = c2 - c1 + 1
-            if len(cells) != (r2 - r1 + 1) * width:
-                raise RecalcError(f"{rname} holds {len(cells)} cells, the plan "
-                                  f"{(r2 - r1 + 1) * width}: the layout is damaged")
-            cell = cells[(r - r1) * width + (c - c1)]
-            return wsheet, cell.coordinate
-    raise RecalcError(f"{sheet}!{ref}: an engine value without a name (a bug of the plan)")
+            if len(found[1]) != rows * width:
+                raise RecalcError(f"{rname} holds {len(found[1])} cells, the plan "
+                                  f"{rows * width}: the layout is damaged")
+            self.found[rname] = found
+        return self.found[rname]
+
+    def __call__(self, sheet: str, ref: str, name: str) -> tuple[str, str]:
+        if name:
+            loc = self.book.name_cell(name)
+            if loc is None:
+                raise RecalcError(f"missing defined name {name}: the workbook's layout is "
+                                  "damaged (rebuild it from its project file)")
+            return loc
+        r, c = split_coord(ref)
+        for rname, rsheet, (r1, c1), (r2, c2) in self.ranges:
+            if rsheet == sheet and r1 <= r <= r2 and c1 <= c <= c2:
+                width = c2 - c1 + 1
+                wsheet, cells = self._range(rname, r2 - r1 + 1, width)
+                return wsheet, cells[(r - r1) * width + (c - c1)].coordinate
+        raise RecalcError(f"{sheet}!{ref}: an engine value without a name (a bug of the plan)")
 
 
 def _engine_constants(data: WorkbookData, result: Any) -> tuple[dict[tuple[str, str], float],
@@ -147,10 +158,11 @@ def _engine_constants(data: WorkbookData, result: Any) -> tuple[dict[tuple[str, 
     sources = Sources(data.project, result, chart_tables(result))
     out: dict[tuple[str, str], float] = {}
     issues: list[Issue] = []
+    locate = _Locator(book, plan)
     for sheet, c in plan.cells():
         if not refreshed(c):
             continue
-        wsheet, coord = _locate(book, plan, sheet, c.ref, c.name)
+        wsheet, coord = locate(sheet, c.ref, c.name)
         cell = book[wsheet].get(coord)
         where = f"{wsheet}!{coord}"
         if cell.data_type == "f":
