@@ -91,13 +91,7 @@ def summary_table(lines: list[list[str]]) -> str:
 
 
 def _build_one(project, out: Path, args) -> list[str]:
-    try:
-        built = write_workbook(project, out, force=args.force, template=args.template)
-    except OSError as exc:      # full disk, file-size limit, read-only folder: name the file
-        if exc.filename is None:
-            raise OSError(exc.errno, f"cannot write it: {exc.strerror or exc}", str(out)) \
-                from None
-        raise
+    built = write_workbook(project, out, force=args.force, template=args.template)
     print(f"wrote {out}")
     for warning in project.warnings:
         print(f"warning: {out.name}: {warning}", file=sys.stderr)

@@ -113,11 +113,9 @@ def _worker_init(parent: int) -> None:
 
 
 def _task(args) -> RecalcResult:
-    path, output, in_place, backup, compare, force = args
-    if in_place:
-        return recalc_workbook(path, in_place=True, backup=backup, compare_layout=compare,
-                               force=force)
-    return recalc_workbook(path, output=output, compare_layout=compare, force=force)
+    path, output, in_place, backup, compare, force = args       # output None when in place
+    return recalc_workbook(path, output=output, in_place=in_place, backup=backup,
+                           compare_layout=compare, force=force)
 
 
 def recalc_many(paths: Iterable[str | os.PathLike], outdir: str | os.PathLike | None = None,
@@ -258,28 +256,21 @@ def _run_pool(tasks: list, results: list, jobs: int, bar: Progress, stop: _StopO
     ctx = mp.get_context("fork" if "fork" in mp.get_all_start_methods() else "spawn")
     with cf.ProcessPoolExecutor(max_workers=jobs, mp_context=ctx, initializer=_worker_init,
                                 initargs=(os.getpid(),)) as pool:
-        futures = {pool.submit(_task, args): i for i, args in tasks}
+        futures = {pool.submit(_task, args): (i, args[0]) for i, args in tasks}
         pending = set(futures)
         while pending:
             done, pending = cf.wait(pending, timeout=0.2, return_when=cf.FIRST_COMPLETED)
             for fut in done:
-                i = futures[fut]
+                i, path = futures[fut]
                 if fut.cancelled():
                     continue
                 try:
                     results[i] = fut.result()
                 except Exception as exc:  # noqa: BLE001 - a worker died
-                    results[i] = RecalcResult(path=_tasks_path(tasks, i),
-                                              error=f"worker failed: {exc}")
+                    results[i] = RecalcResult(path=path, error=f"worker failed: {exc}")
                 bar.update(results[i].path.name, results[i].status)
             if stop.requested:              # hand out no more work; wait for the running
                 for fut in pending:
                     fut.cancel()
                 pending = {f for f in pending if not f.cancelled()}
 
-
-def _tasks_path(tasks, i: int) -> Path:
-    for j, args in tasks:
-        if j == i:
-            return args[0]
-    return Path("?")

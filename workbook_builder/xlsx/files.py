@@ -82,7 +82,9 @@ def atomic_path(dest: str | os.PathLike) -> Iterator[Path]:
     The temporary file lives in the destination's directory so :func:`os.replace` is atomic: a
     reader sees either the old file or the complete new one, never half a file. On an exception
     the temporary file is removed and ``dest`` is left untouched. The new file gets the mode of
-    the file it replaces, or the usual mode for a new file (see :func:`new_file_mode`).
+    the file it replaces, or the usual mode for a new file (see :func:`new_file_mode`). An
+    error while writing that names no file (a full disk, a file-size limit) is raised again
+    naming ``dest``.
 
     Examples
     --------
@@ -103,6 +105,14 @@ def atomic_path(dest: str | os.PathLike) -> Iterator[Path]:
         yield tmp
         os.chmod(tmp, new_file_mode(target))
         os.replace(tmp, target)
+    except OSError as exc:
+        tmp.unlink(missing_ok=True)
+        if exc.errno is None or exc.filename is not None:
+            raise
+        # a write into the open temporary file (full disk, file-size limit) names no file:
+        # name the one the user asked for
+        raise OSError(exc.errno, f"cannot write it: {exc.strerror or exc}", str(target)) \
+            from None
     except BaseException:
         tmp.unlink(missing_ok=True)
         raise
