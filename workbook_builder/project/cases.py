@@ -40,21 +40,20 @@ def _number(text: str) -> Any:
         return text
 
 
-def _cell_value(key: str, unit: str | None, cell: str) -> Any:
-    """The value of one cell as the project reader takes it for ``key``."""
-    q = input_keys().get(key) or simulation_keys().get(key)
-    if key.startswith("project.") or (q is not None and q.kind == "choice"):
+def _cell_value(kind: str, unit: str | None, cell: str) -> Any:
+    """The value of one cell, as the project reader takes it for a column of ``kind``."""
+    if kind == "text":
         return cell.strip()
-    if q is not None and q.kind == "flag":
+    if kind == "flag":
         return {"true": True, "false": False}.get(cell.strip().lower(), cell.strip())
     value = _number(cell)
-    known = q is not None or key in floor_keys()
-    return {"value": value, "unit": unit} if unit and known else value
+    return {"value": value, "unit": unit} if unit else value
 
 
-def _columns(path: Path, header: list[str]) -> list[tuple[str, str | None]]:
-    """(key, unit) of every header cell; colliding keys and units on texts refused."""
-    columns: list[tuple[str, str | None]] = []
+def _columns(path: Path, header: list[str]) -> list[tuple[str, str | None, str]]:
+    """(key, unit, kind) of every header cell, kind ``text``, ``flag`` or ``number`` as the
+    declarations say; colliding keys and units on texts refused."""
+    columns: list[tuple[str, str | None, str]] = []
     seen: dict[str, int] = {}
     for i, cell in enumerate(header, start=1):
         m = _HEADER_UNIT_RE.match(cell)
@@ -67,13 +66,18 @@ def _columns(path: Path, header: list[str]) -> list[tuple[str, str | None]]:
                 raise ProjectError(f"{path}:1: columns {j} ({other}) and {i} ({key}) set the "
                                    "same input; keep one of them")
         q = input_keys().get(key) or simulation_keys().get(key)
-        numeric = (q is not None and q.kind not in ("choice", "flag")) or key in floor_keys()
-        if unit and (key == "case" or key.startswith("project.") or (q is not None
-                                                                      and not numeric)):
+        if key == "case" or key.startswith("project.") or (q is not None
+                                                            and q.kind == "choice"):
+            kind = "text"
+        else:
+            kind = "flag" if q is not None and q.kind == "flag" else "number"
+        if unit and kind != "number":
             raise ProjectError(f"{path}:1: column {i} ({key}) is text, not a number: it takes "
                                f"no unit [{unit}]")
+        if q is None and key not in floor_keys():
+            unit = None             # an unknown key: the reader refuses it by name
         seen[key] = i
-        columns.append((key, unit))
+        columns.append((key, unit, kind))
     return columns
 
 
@@ -148,20 +152,18 @@ def load_cases(path: str | Path) -> list[Project]:
         data: dict[str, Any] = {}
         case = ""
         lines: dict[str, int] = {}
-        for (key, unit), cell in zip(columns, row):
+        for (key, unit, kind), cell in zip(columns, row):
             if not cell.strip():
                 continue
             lines[key] = number
             if key == "case":
                 case = cell.strip()
                 continue
-            parts = key.split(".")
+            *tables, last = key.split(".")
             node = data
-            for p in parts[:-1]:
-                node = node.setdefault(p, {})
-                if not isinstance(node, dict):
-                    raise ProjectError(f"{path}:{number}: column {key} conflicts with another")
-            node[parts[-1]] = _cell_value(key, unit, cell)
+            for table in tables:        # no column is a prefix of another (see _columns)
+                node = node.setdefault(table, {})
+            node[last] = _cell_value(kind, unit, cell)
         case = case or str(data.get("project", {}).get("number", "")) or f"case_{index}"
         bad = ILLEGAL_TEXT.search(case)
         if bad:
@@ -173,7 +175,7 @@ def load_cases(path: str | Path) -> list[Project]:
         project = parse_project(data, source=path.name, lines=lines, row_label="column ",
                                 case=case)
         digest = hashlib.sha256("\x1f".join(row).encode("utf-8")).hexdigest()
-        projects.append(replace(project, source_sha256=digest, case=case, lines=lines))
+        projects.append(replace(project, source_sha256=digest))
     if not projects:
         raise ProjectError(f"{path}: the case table has no rows")
     return projects
