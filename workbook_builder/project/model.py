@@ -68,14 +68,20 @@ class Floors:
     def building_height_si(self) -> float:
         return self.building_height * self.height_unit.factor
 
+    def mode_shape(self) -> list[float]:
+        """Mode ordinate phi = (z/h)^exponent of each floor [-] (the engine's
+        :func:`functions.structure.power_law_mode_shape`)."""
+        return [float(x) for x in power_law_mode_shape(self.heights_si, self.building_height_si,
+                                                       self.exponent)]
+
     def modal_mass(self) -> float:
         """Generalised mass of the mode normalised to 1 at the damper's floor [kg].
 
         The engine's sum m_i phi_i^2 / phi_damper^2 with phi = (z/h)^exponent
         (:func:`functions.structure.modal_mass`, EN 1991-1-4 Annex F (F.3)).
         """
-        shape = power_law_mode_shape(self.heights_si, self.building_height_si, self.exponent)
-        return float(modal_mass(self.masses_si, shape, damper_level=self.damper_level - 1))
+        return float(modal_mass(self.masses_si, self.mode_shape(),
+                                damper_level=self.damper_level - 1))
 
 
 #: Settings of the optional time-domain check: the fields and defaults of

@@ -256,8 +256,8 @@ def _read_floors(ctx: _Context, flat: dict[str, Any], system: str) -> Floors:
 
 def floor_warnings(floors: Floors) -> list[str]:
     """Warnings about a floor table: a damper where the mode hardly moves."""
-    heights = floors.heights_si
-    ratio = (heights[floors.damper_level - 1] / max(heights)) ** floors.exponent
+    shape = floors.mode_shape()
+    ratio = shape[floors.damper_level - 1] / max(shape)
     if ratio >= SMALL_ORDINATE:
         return []
     return [f"the damper's floor {floors.damper_level} moves only {ratio:.0%} as much as the "
