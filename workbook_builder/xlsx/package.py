@@ -237,9 +237,9 @@ def _parse_xml(data: bytes, part: str):
     fast C parser of the standard library is safe; the refusal is stricter than defusedxml's
     default, which allows a DTD without entities.
     """
-    if data[:2] in (b"\xff\xfe", b"\xfe\xff") or b"\x00" in data[:4] or \
-            _DECLARED_ENCODING.match(data[:200]) and not _UTF8.match(
-                _DECLARED_ENCODING.match(data[:200]).group(1)):
+    declared = _DECLARED_ENCODING.match(data[:200])
+    if data[:2] in (b"\xff\xfe", b"\xfe\xff") or b"\x00" in data[:4] or (
+            declared is not None and not _UTF8.match(declared.group(1))):
         # UTF-16 or -32 (with or without a byte-order mark) or another declared encoding: the
         # byte search for a DTD below would miss it, and a workbook part is always UTF-8
         raise PackageError(f"refused: part {part} is not UTF-8 encoded XML")
