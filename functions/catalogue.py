@@ -605,9 +605,6 @@ def design_sheet_functions() -> tuple[SheetFunction, ...]:
     )
 
 
-#: Numbers returned by SWAY_DESIGN: every result of the chain, then the check verdicts.
-DESIGN_FIELDS = _design_fields()
-
 DESIGN: tuple[SheetFunction, ...] = design_sheet_functions()
 
 #: Every worksheet function, in documentation order.

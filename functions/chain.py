@@ -59,7 +59,7 @@ class Step:
     source: str = ""
     formula_via_helpers: str = ""
 
-    @property
+    @functools.cached_property
     def reads(self) -> tuple[str, ...]:
         """The cells this step reads (the parameters of ``compute``)."""
         return tuple(inspect.signature(self.compute).parameters)
@@ -180,8 +180,11 @@ def _tuning_steps(method: str) -> tuple[Step, ...]:
     )
 
 
+@functools.lru_cache(maxsize=None)
 def sections(method: str, mode: str) -> tuple[Section, ...]:
     """The calculation's sections for a tuning ``method`` and mass-ratio ``mode``.
+
+    Built once per method and mode (the steps are immutable), not once per design.
 
     Parameters
     ----------

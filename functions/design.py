@@ -229,8 +229,17 @@ class DesignResult:
     inputs: DesignInputs
     cells: Mapping[str, float]
     checks: tuple[Check, ...]
-    method: str
-    mode: str
+
+    @property
+    def method(self) -> str:
+        """The tuning method that ran [-]."""
+        return self.inputs.tuning_method
+
+    @property
+    def mode(self) -> str:
+        """The mass-ratio mode that ran, one of ``functions.chain.MASS_RATIO_MODES`` [-]."""
+        return mass_ratio_mode(self.inputs.mass_ratio is not None,
+                               self.inputs.damper_mass is not None)
 
     def __getattr__(self, name: str) -> Any:
         # only called for names that are not fields: a declared result, read from the cells
@@ -321,7 +330,7 @@ def design_tuning(mass_ratio, tuning_method="h2", structural_damping=0.0):
     return scalar_or_array(f), scalar_or_array(zd)
 
 
-def _run_steps(p: DesignInputs) -> tuple[dict[str, float], str]:
+def _run_steps(p: DesignInputs) -> dict[str, float]:
     mode = mass_ratio_mode(p.mass_ratio is not None, p.damper_mass is not None)
     cells: dict[str, Any] = {q.cell_name: getattr(p, q.name) for q in design_inputs()
                              if q.kind != "choice" and getattr(p, q.name) is not None}
@@ -335,7 +344,7 @@ def _run_steps(p: DesignInputs) -> tuple[dict[str, float], str]:
                 f"acceleration={p.acceleration!r} against acceleration_limit="
                 f"{p.acceleration_limit!r} [m/s^2] needs required_damping="
                 f"{cells['required_damping']:.4g}: {exc}") from None
-    return cells, mode
+    return cells
 
 
 def design_damper(inputs: DesignInputs | None = None, **kwargs: Any) -> DesignResult:
@@ -419,9 +428,9 @@ def design_damper(inputs: DesignInputs | None = None, **kwargs: Any) -> DesignRe
             f"acceleration={p.acceleration!r} is already within acceleration_limit="
             f"{p.acceleration_limit!r} [m/s^2]: no damper is required; give damper_mass or "
             f"mass_ratio to size one anyway")
-    cells, mode = _run_steps(p)
+    cells = _run_steps(p)
     checks = tuple(rule.evaluate(cells) for rule in CHECK_RULES)
-    return DesignResult(p, cells, checks, p.tuning_method, mode)
+    return DesignResult(p, cells, checks)
 
 
 

@@ -184,10 +184,10 @@ class Quantity:
                                  f"{self.interval()}")
             return value
         arr = check_range(self.name, value, self.low, self.high, low_open=self.low_open,
-                          high_open=self.high_open, unit=self.unit if self.unit != "-" else "-")
+                          high_open=self.high_open, unit=self.unit)
         if arr.ndim:
             raise ValueError(f"{self.name}={value!r} must be a single number")
-        return int(value) if self.kind == "count" else float(arr)
+        return float(arr)
 
     def help_text(self) -> str:
         """One line for a spreadsheet function's argument help (<= 255 characters)."""

@@ -18,7 +18,7 @@ from scipy.optimize import brentq
 from functions.pendulum import STANDARD_GRAVITY
 from functions.simulation._inputs import _scalar
 from functions.simulation.loads import RandomForce
-from functions.simulation.model import _System, _system
+from functions.simulation.model import _System, _bare, _system
 
 __all__ = ["RandomTheory", "random_response_theory"]
 
@@ -84,8 +84,7 @@ def _scatter(Aa, P, c, duration):
 
 
 def _bare_variance(p: _System, zeta, load: RandomForce):
-    A = np.array([[0.0, 1.0], [-p.ws**2, -2.0 * zeta * p.ws]])
-    Aa, G = _augmented(A, np.array([0.0, 1.0 / p.M]), load)
+    Aa, G = _augmented(*_bare(p.M, p.fs, zeta), load)
     return float(_stationary(Aa, G)[0, 0])
 
 
