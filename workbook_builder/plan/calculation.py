@@ -51,6 +51,16 @@ def engine_flags(options: PlanOptions) -> list[tuple[str, str]]:
     return flags
 
 
+#: When an engine value was computed, and how to refresh it, by group: batch recalculation
+#: recomputes the design chain but does not rerun the time-domain simulation.
+_SNAPSHOT_NOTE = {"design": "value when built or last recalculated by swaytune",
+                  "simulation": "value at build time"}
+_REFRESH_NOTE = {"design": "run swaytune recalc (or rebuild the workbook) to refresh the engine "
+                           "value",
+                 "simulation": "rebuild the workbook to refresh the engine value (swaytune "
+                               "recalc does not rerun the simulation)"}
+
+
 def engine_flag(sh: SheetLayout, row: int, flag: str, depends_on: tuple[str, ...],
                 group: str, *, label_col: int = 2, value_col: int = 4, note_col: int = 6,
                 note_to: int | None = None) -> int:
@@ -65,7 +75,7 @@ def engine_flag(sh: SheetLayout, row: int, flag: str, depends_on: tuple[str, ...
         name = snapshot_name(flag, dep)
         sh.engine(row, value_col, ("snapshot", group, dep), fmt="General", style="box top",
                   name=name, label=f"Snapshot of {dep} for the {flag}")
-        sh.label(row, note_col, "value at build time", Looks.WRAP)
+        sh.label(row, note_col, _SNAPSHOT_NOTE[group], Looks.WRAP)
         if note_to:
             sh.merge(row, note_col, row, note_to)
         conds.append(f"ABS({dep}-{name})<=1E-12*ABS({name})")
@@ -75,7 +85,7 @@ def engine_flag(sh: SheetLayout, row: int, flag: str, depends_on: tuple[str, ...
     sh.check(row, value_col, f'=IF(AND({",".join(conds)}),"current","INPUTS CHANGED: '
                              'rebuild")', name=flag, style="bold box top",
              label=f"Flag: engine value current? ({flag})")
-    sh.label(row, note_col, "rebuild the workbook to refresh the engine value", Looks.WRAP)
+    sh.label(row, note_col, _REFRESH_NOTE[group], Looks.WRAP)
     if note_to:
         sh.merge(row, note_col, row, note_to)
     return row + 1
@@ -88,7 +98,8 @@ def calculation_sheet(options: PlanOptions) -> SheetLayout:
     sh.label(1, 1, "Calculation", Looks.TITLE)
     sh.label(2, 1, "Every value is a worksheet formula of the inputs, in checking order. Green "
                    "cells are engine values (no closed form), computed when the workbook was "
-                   "built; their flag says when the inputs have changed since.", Looks.WRAP)
+                   "built or last recalculated by swaytune; their flag says when the inputs have "
+                   "changed since.", Looks.WRAP)
     sh.merge(2, 1, 2, 7)
     sh.header(4, ["Step", "Quantity", "Symbol", "Value", "Unit", "Equation", "Source / note"]
               + (["Value (US)", "US unit"] if us else []))

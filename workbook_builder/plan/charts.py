@@ -190,7 +190,8 @@ def charts_sheet(options: PlanOptions) -> SheetLayout:
     """The Charts sheet for ``options``."""
     specs = table_specs(options.tuning_method)
     sh = SheetLayout("Charts")
-    sh.label(1, 1, "Charts: engine values computed when the workbook was built", Looks.HEADING)
+    sh.label(1, 1, "Charts: engine values computed when the workbook was built or "
+                   "last recalculated by swaytune", Looks.HEADING)
     sh.label(2, 1, "Preliminary design aid: results must be checked by a licensed engineer "
                    "against local codes, wind-tunnel data and the manufacturer's design.",
              Looks.WARNING)

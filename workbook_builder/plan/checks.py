@@ -112,7 +112,8 @@ def checks_sheet(options: PlanOptions) -> SheetLayout:
     row += 3
 
     sh.label(row, 1, "Cross-check of every formula result against the engine (functions/, "
-                     "computed when the workbook was built)", Looks.BOLD)
+                     "computed when the workbook was built or last recalculated by swaytune)",
+             Looks.BOLD)
     row += 1
     sh.header(row, ["Quantity", "Symbol", "Workbook formula", "Engine value",
                     "Relative difference (rounded to 1e-12)", "Tolerance", "Verdict"])

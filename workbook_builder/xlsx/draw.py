@@ -11,6 +11,7 @@ Input cells are unlocked, every sheet is protected without a password.
 from __future__ import annotations
 
 import math
+import textwrap
 from typing import Any, Mapping
 
 from openpyxl import Workbook
@@ -96,7 +97,8 @@ def fit_rows(ws: Any, line_height: float = 13.0) -> None:
     """Set row heights so wrapped text shows in full (applications do not fit them on load).
 
     Characters per line are estimated from the column width (about 1.1 characters of body text
-    per width unit, a cautious figure for proportional fonts).
+    per width unit, a cautious figure for proportional fonts); lines break between words, as
+    the applications wrap them.
     """
     widths = {letter: dim.width or 8.43 for letter, dim in ws.column_dimensions.items()}
     merged = {}
@@ -113,7 +115,7 @@ def fit_rows(ws: Any, line_height: float = 13.0) -> None:
                 continue
             width = merged.get((cell.row, cell.column), widths.get(cell.column_letter, 8.43))
             chars = max(1, int(width * 1.1))
-            lines = max(lines, sum(max(1, math.ceil(len(part) / chars))
+            lines = max(lines, sum(max(1, len(textwrap.wrap(part, chars)))
                                    for part in value.split("\n")))
         if lines > 1:
             r = row[0].row
