@@ -10,13 +10,13 @@ or that was edited since swaytune made it.
 """
 from __future__ import annotations
 
+import functools
 import math
 from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Any
 
 from openpyxl import Workbook
-from openpyxl.workbook.defined_name import DefinedName
 
 from . import __version__
 from .compute import SimulationRun, run_design, run_simulation
@@ -28,8 +28,9 @@ from .plan.values import Sources, plan_values
 from .project import Project
 from .project.model import settings_text
 from .xlsx.cached import write_with_cached_values
-from .xlsx.draw import draw, set_property
-from .xlsx.files import guard_hand_edits, guard_overwrite, mark_workbook, set_digest
+from .xlsx.draw import draw
+from .xlsx.files import (guard_hand_edits, guard_overwrite, mark_workbook, set_digest,
+                          set_hidden_name, set_property)
 from .xlsx.formulas import Evaluator, is_error
 from .xlsx.template import open_template
 
@@ -65,9 +66,9 @@ class BuiltWorkbook:
     design_verdicts: list[tuple[str, str]] = field(default_factory=list)
     nonlinear_verdicts: list[tuple[str, str]] = field(default_factory=list)
 
-    @property
+    @functools.cached_property
     def names(self) -> dict[str, tuple[str, str]]:
-        """Defined name -> (sheet, cell) of the plan."""
+        """Defined name -> (sheet, cell) of the plan (computed once)."""
         return self.plan.names()
 
     def value(self, name: str) -> Any:
@@ -93,9 +94,7 @@ def title_fields(project: Project) -> dict[str, str]:
 
 def _mark(wb: Workbook, plan: Plan, project: Project) -> None:
     mark_workbook(wb, __version__)
-    if FORMAT_NAME in wb.defined_names:          # a template's stale mark
-        del wb.defined_names[FORMAT_NAME]
-    wb.defined_names.add(DefinedName(FORMAT_NAME, attr_text=str(PLAN_VERSION), hidden=True))
+    set_hidden_name(wb, FORMAT_NAME, str(PLAN_VERSION))     # replaces a template's stale mark
     set_property(wb, PLAN_PROPERTY, plan.options.to_json())
     if project.simulation is not None:
         set_property(wb, SIMULATION_PROPERTY, settings_text(project.simulation))

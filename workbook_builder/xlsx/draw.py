@@ -16,16 +16,15 @@ from typing import Any, Mapping
 
 from openpyxl import Workbook
 from openpyxl.formatting.rule import CellIsRule
-from openpyxl.packaging.custom import StringProperty
 from openpyxl.styles import Alignment, Border, Font, PatternFill, Protection, Side
 from openpyxl.utils import absolute_coordinate, get_column_letter, quote_sheetname
-from openpyxl.utils.cell import range_boundaries
 from openpyxl.workbook.defined_name import DefinedName
 from openpyxl.worksheet.datavalidation import DataValidation
 from openpyxl.worksheet.pagebreak import Break
 
 from ..plan.model import Plan, SheetPlan
 from .charts import add_chart, fill_chart_caches
+from .files import set_property
 from .formulas import check_formula
 from .page_setup import set_print_layout
 
@@ -123,22 +122,13 @@ def fit_rows(ws: Any, line_height: float = 13.0) -> None:
                                               ws.row_dimensions[r].height or 0)
 
 
-def _define(wb: Any, name: str, sheet: str, cell_range: str, hidden: bool = False) -> None:
+def _define(wb: Any, name: str, sheet: str, cell_range: str) -> None:
+    """Define (or replace, e.g. a template's stale copy) a workbook-scoped name."""
     if name in wb.defined_names:
         del wb.defined_names[name]
     parts = cell_range.split(":")
     target = ":".join(absolute_coordinate(p) for p in parts)
-    wb.defined_names.add(DefinedName(name, attr_text=f"{quote_sheetname(sheet)}!{target}",
-                                     hidden=hidden))
-
-
-def set_property(wb: Any, name: str, value: str) -> None:
-    """Set (replace) a custom document property holding text."""
-    props = wb.custom_doc_props
-    for prop in list(props.props):
-        if prop.name == name:
-            props.props.remove(prop)
-    props.append(StringProperty(name=name, value=value))
+    wb.defined_names.add(DefinedName(name, attr_text=f"{quote_sheetname(sheet)}!{target}"))
 
 
 def _sheet(wb: Any, sp: SheetPlan, values: Mapping[tuple[str, str], Any], paper: str) -> None:
@@ -212,14 +202,7 @@ def draw(plan: Plan, values: Mapping[tuple[str, str], Any], *, template: Any = N
     wb = template if template is not None else Workbook()
     if template is None:
         wb.remove(wb.active)
-    for name in [n for n in wb.defined_names if n in plan.names()]:
-        del wb.defined_names[name]          # a template's stale copies of our names
     for sp in plan.sheets:
         _sheet(wb, sp, values, plan.options.paper)
     return wb
 
-
-def range_cells(cell_range: str) -> list[tuple[int, int]]:
-    """(row, column) of every cell of ``A1:C3``, row by row."""
-    c1, r1, c2, r2 = range_boundaries(cell_range)
-    return [(r, c) for r in range(r1, r2 + 1) for c in range(c1, c2 + 1)]

@@ -35,6 +35,8 @@ __all__ = [
     "OverwriteRefused",
     "atomic_path",
     "mark_workbook",
+    "set_property",
+    "set_hidden_name",
     "is_swaytune_workbook",
     "guard_overwrite",
     "save_workbook",
@@ -118,17 +120,27 @@ def atomic_path(dest: str | os.PathLike) -> Iterator[Path]:
         raise
 
 
+def set_property(wb: Any, name: str, value: str) -> None:
+    """Set (replace) a custom document property of an openpyxl workbook holding text."""
+    props = wb.custom_doc_props
+    for prop in list(props.props):
+        if prop.name == name:
+            props.props.remove(prop)
+    props.append(StringProperty(name=name, value=value))
+
+
+def set_hidden_name(wb: Any, name: str, text: str) -> None:
+    """Set (replace) a hidden workbook-scoped defined name of an openpyxl workbook."""
+    if name in wb.defined_names:
+        del wb.defined_names[name]
+    wb.defined_names.add(DefinedName(name, attr_text=text, hidden=True))
+
+
 def mark_workbook(wb: Any, version: str) -> None:
     """Mark an openpyxl workbook as produced by swaytune ``version`` (both markers)."""
     text = f"swaytune {version}"
-    props = wb.custom_doc_props
-    for prop in list(props.props):
-        if prop.name == MARKER_PROPERTY:
-            props.props.remove(prop)
-    props.append(StringProperty(name=MARKER_PROPERTY, value=text))
-    if MARKER_NAME in wb.defined_names:
-        del wb.defined_names[MARKER_NAME]
-    wb.defined_names.add(DefinedName(MARKER_NAME, attr_text=f'"{text}"', hidden=True))
+    set_property(wb, MARKER_PROPERTY, text)
+    set_hidden_name(wb, MARKER_NAME, f'"{text}"')
 
 
 def is_swaytune_workbook(path: str | os.PathLike) -> bool:
@@ -209,11 +221,7 @@ def set_digest(wb: Any) -> None:
     Call it last, just before saving: :func:`guard_hand_edits` compares the digest with the
     cells of the saved file.
     """
-    props = wb.custom_doc_props
-    for prop in list(props.props):
-        if prop.name == DIGEST_PROPERTY:
-            props.props.remove(prop)
-    props.append(StringProperty(name=DIGEST_PROPERTY, value=content_digest(wb)))
+    set_property(wb, DIGEST_PROPERTY, content_digest(wb))
 
 
 def guard_hand_edits(path: str | os.PathLike, force: bool = False) -> None:
