@@ -20,7 +20,8 @@ from openpyxl import Workbook
 
 from . import __version__
 from .compute import SimulationRun, run_design, run_simulation
-from .plan import FORMAT_NAME, PLAN_PROPERTY, PLAN_VERSION, Plan, make_plan, options_for
+from .plan import (FORMAT_NAME, PLAN_PROPERTY, PLAN_VERSION, SIMULATION_PROPERTY, Plan,
+                   make_plan, options_for)
 from .plan.checks import NONLINEAR_CHECKS, check_name, cross_checked, engine_name
 from .plan.charts import chart_tables
 from .plan.model import refreshed
@@ -38,9 +39,6 @@ from functions.design import CHECK_RULES
 
 __all__ = ["BuildError", "BuiltWorkbook", "build_workbook", "write_workbook",
            "SIMULATION_PROPERTY", "title_fields"]
-
-#: Custom document property holding the project's [simulation] settings as JSON data.
-SIMULATION_PROPERTY = "SwaytuneSimulation"
 
 
 class BuildError(RuntimeError):

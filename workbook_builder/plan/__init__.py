@@ -11,7 +11,8 @@
 """
 from .layout import SHEETS, make_plan
 from .model import Plan
-from .options import FORMAT_NAME, PLAN_PROPERTY, PLAN_VERSION, PlanOptions, options_for
+from .options import (FORMAT_NAME, PLAN_PROPERTY, PLAN_VERSION, SIMULATION_PROPERTY,
+                      PlanOptions, options_for)
 
 __all__ = ["make_plan", "SHEETS", "Plan", "PlanOptions", "options_for", "PLAN_VERSION",
-           "FORMAT_NAME", "PLAN_PROPERTY"]
+           "FORMAT_NAME", "PLAN_PROPERTY", "SIMULATION_PROPERTY"]

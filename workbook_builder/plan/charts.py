@@ -21,20 +21,20 @@ and :func:`swing_window_table` give the Nonlinear sheet's tables.
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
+from dataclasses import dataclass, replace
 from typing import Any
 
 import numpy as np
 
 from functions.damper import effective_damping, frequency_response
-from functions.design import design_tuning
+from functions.design import CAUTION, design_tuning
 from functions.pendulum import small_angle_error
 
 from .model import Chart, Series
 from .options import PlanOptions
 from .sheet import Looks, SheetLayout, ref
 
-__all__ = ["ChartTable", "TableSpec", "TABLES", "chart_tables", "charts_sheet",
+__all__ = ["ChartTable", "TableSpec", "chart_tables", "charts_sheet",
            "RULE_OF_THUMB_DEG", "MAX_TIME_POINTS", "time_history_table", "swing_window_table",
            "write_table", "range_name", "CHART_ROWS", "BLUE", "ORANGE", "GREY", "RED", "GREEN"]
 
@@ -99,7 +99,6 @@ def table_specs(method: str) -> dict[str, TableSpec]:
 MARK_NAMES = {"period_marks": (f"{RULE_OF_THUMB_DEG:g}° rule *", f"{RULE_OF_THUMB_DEG:g}° "
                                "rule *", "Design swing"),
               "damping_marks": ("Required ζ", "Required ζ", "Design")}
-TABLES = tuple(table_specs("h2"))
 
 
 def _floats(values: Any) -> list[float]:
@@ -192,9 +191,7 @@ def charts_sheet(options: PlanOptions) -> SheetLayout:
     sh = SheetLayout("Charts")
     sh.label(1, 1, "Charts: engine values computed when the workbook was built or "
                    "last recalculated by swaytune", Looks.HEADING)
-    sh.label(2, 1, "Preliminary design aid: results must be checked by a licensed engineer "
-                   "against local codes, wind-tunnel data and the manufacturer's design.",
-             Looks.WARNING)
+    sh.label(2, 1, CAUTION, Looks.WARNING)
     sh.widths([12, 11, 11, 2, 12, 11, 11, 2, 11, 11, 11, 12])
     anchors = [f"A{4 + i * CHART_ROWS}" for i in range(3)]
     top = 4 + 3 * CHART_ROWS + 1
@@ -278,7 +275,7 @@ def time_history_table(simulation: Any, max_points: int = MAX_TIME_POINTS) -> Ch
                _significant(nl.acceleration[pick]), _significant(nl.angle_deg[pick]),
                _significant(lin.angle_deg[pick]))
     rows = tuple(zip(*columns))
-    return ChartTable(TableSpec(**{**TIME_SPEC.__dict__, "rows": len(rows)}), rows)
+    return ChartTable(replace(TIME_SPEC, rows=len(rows)), rows)
 
 
 def swing_window_table(simulation: Any, periods: float = 10.0) -> ChartTable:
@@ -302,4 +299,4 @@ def swing_window_table(simulation: Any, periods: float = 10.0) -> ChartTable:
     pick = slice(lo, min(n, lo + 2 * half + 1))
     rows = tuple(zip(_significant(t[pick]), _significant(angle[pick]),
                      _significant(simulation.linear.angle_deg[pick])))
-    return ChartTable(TableSpec(**{**WINDOW_SPEC.__dict__, "rows": len(rows)}), rows)
+    return ChartTable(replace(WINDOW_SPEC, rows=len(rows)), rows)

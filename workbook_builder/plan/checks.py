@@ -19,10 +19,11 @@ from .options import PlanOptions
 from .pendulum import CONVERGENCE
 from .sheet import Looks, SheetLayout
 
-__all__ = ["checks_sheet", "check_name", "engine_name", "cross_checked", "NOT_DEFINED",
+__all__ = ["checks_sheet", "check_name", "engine_name", "cross_checked", "NOT_DEFINED", "SCIENTIFIC",
            "NONLINEAR_CHECKS"]
 
-_SCI = "0.000E+00"
+#: Number format of relative differences and tolerances.
+SCIENTIFIC = "0.000E+00"
 _FULL = "0.00000000000E+00"
 #: Shown for an engine value that is not defined (NaN: e.g. no detuning beyond 180 deg).
 NOT_DEFINED = "not defined"
@@ -127,8 +128,8 @@ def checks_sheet(options: PlanOptions) -> SheetLayout:
         sh.engine(row, 4, ("cell", name), fmt=_FULL, name=engine_name(name), unit=q.unit,
                   label=f"Engine value of {q.label.lower()}")
         sh.formula(row, 5, f"=ROUND(IF(D{row}=0,ABS(C{row}),ABS(C{row}/D{row}-1)),12)",
-                   fmt=_SCI, style="box")
-        sh.value(row, 6, TWIN_TOLERANCE, fmt=_SCI, style="box")
+                   fmt=SCIENTIFIC, style="box")
+        sh.value(row, 6, TWIN_TOLERANCE, fmt=SCIENTIFIC, style="box")
         sh.check(row, 7, f'=IF(E{row}<=F{row},"OK","NOT OK")')
         row += 1
     sh.verdicts(f"G{first}:G{row - 1}")
@@ -140,7 +141,7 @@ def checks_sheet(options: PlanOptions) -> SheetLayout:
     row += 2
     sh.label(row, 1, f"Pendulum fixed point converged (last relative change <= "
                      f"{CONVERGENCE:g})", "wrap box")
-    sh.formula(row, 3, "=fixed_point_change", fmt=_SCI, style="box")
+    sh.formula(row, 3, "=fixed_point_change", fmt=SCIENTIFIC, style="box")
     sh.check(row, 7, f'=IF(fixed_point_change<={CONVERGENCE:.0E},"OK","NOT OK")',
              name="fixed_point_converged", label="Verdict: fixed point converged")
     sh.verdicts(f"G{row}")

@@ -9,19 +9,20 @@ inputs have changed since the simulation ran.
 """
 from __future__ import annotations
 
+from dataclasses import replace
+
 from functions.simulation.calibration import PEAK_DURATION
 
 from .calculation import engine_flag, unit_format
 from .charts import CHART_ROWS, BLUE, GREY, ORANGE, TIME_SPEC, WINDOW_SPEC, TableSpec, \
     write_table
-from .checks import NOT_DEFINED
+from .checks import NOT_DEFINED, SCIENTIFIC
 from .model import Chart, Series
 from .options import PlanOptions
 from .sheet import Looks, SheetLayout, ref
 
 __all__ = ["nonlinear_sheet", "simulation_dependencies", "RESPONSE_ROWS"]
 
-_SCI = "0.000E+00"
 
 #: Rows of the response table: (label, attribute of a Response, unit, bare building shown,
 #: defined name of the exact pendulum's value).
@@ -131,7 +132,7 @@ def nonlinear_sheet(options: PlanOptions) -> SheetLayout:
     row = _row(sh, row, "Output time step", ("sim", "time_step"), "s",
                ("sim", "substeps_note"), fmt="0.0000")
     row = _row(sh, row, "Estimated relative integration error", ("sim", "integration_error"),
-               "-", "step doubling (Richardson), relative to the peaks", fmt=_SCI)
+               "-", "step doubling (Richardson), relative to the peaks", fmt=SCIENTIFIC)
     row = engine_flag(sh, row, "engine_flag_simulation", simulation_dependencies(options),
                       "simulation", label_col=1, value_col=2, note_col=4, note_to=6)
     row += 1
@@ -224,8 +225,8 @@ def nonlinear_sheet(options: PlanOptions) -> SheetLayout:
     sh.merge(row, 1, row, 6)
     sh.plan.row_breaks.append(row)
     chart_row = row + 1
-    time_spec = TableSpec(**{**TIME_SPEC.__dict__, "rows": time_rows})
-    window_spec = TableSpec(**{**WINDOW_SPEC.__dict__, "rows": window_rows})
+    time_spec = replace(TIME_SPEC, rows=time_rows)
+    window_spec = replace(WINDOW_SPEC, rows=window_rows)
     t1, t2 = write_table(sh, time_spec, 1, 8, "sim_table")
     w_col = 8 + len(time_spec.headers) + 1
     w1, w2 = write_table(sh, window_spec, 1, w_col, "sim_table")

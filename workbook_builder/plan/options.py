@@ -18,7 +18,10 @@ from functions.chain import MASS_RATIO_MODES, mass_ratio_mode
 from functions.damper import OPTIMAL_TUNING_METHODS
 from functions.quantities import design_inputs
 
-__all__ = ["PLAN_VERSION", "FORMAT_NAME", "PLAN_PROPERTY", "PlanOptions", "options_for"]
+from ..project.schema import OPTION_KEYS
+
+__all__ = ["PLAN_VERSION", "FORMAT_NAME", "PLAN_PROPERTY", "SIMULATION_PROPERTY", "PlanOptions",
+           "options_for"]
 
 #: Version of the plan (the layout of the workbooks this builder writes). RAISE IT BY ONE ON
 #: EVERY LAYOUT CHANGE (a sheet, row, column, defined name or formula moved, added, removed or
@@ -30,6 +33,8 @@ PLAN_VERSION = 3
 FORMAT_NAME = "SWAYTUNE_FORMAT"
 #: Custom document property holding the options as JSON data (never a formula).
 PLAN_PROPERTY = "SwaytunePlan"
+#: Custom document property holding the project's [simulation] settings as JSON data.
+SIMULATION_PROPERTY = "SwaytuneSimulation"
 
 
 @dataclass(frozen=True)
@@ -59,7 +64,7 @@ class PlanOptions:
         if self.mass_ratio_mode not in MASS_RATIO_MODES:
             raise ValueError(f"mass_ratio_mode={self.mass_ratio_mode!r} must be one of "
                              f"{', '.join(MASS_RATIO_MODES)}")
-        if self.units not in ("SI", "US") or self.paper not in ("A4", "Letter"):
+        if self.units not in OPTION_KEYS["units"] or self.paper not in OPTION_KEYS["paper"]:
             raise ValueError(f"units={self.units!r} and paper={self.paper!r} must be SI or US "
                              "and A4 or Letter")
 

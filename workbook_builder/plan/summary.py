@@ -32,6 +32,10 @@ TITLE_BLOCK = (
     (5, 1, "Date", "date", "TB_DATE"),
 )
 
+#: Labels of the verdicts besides the design checks (the recalc summary's columns too).
+VERDICT_LABELS = {"all_cross_checks": "Workbook formulas agree with the engine",
+                  "fixed_point_converged": "Pendulum fixed point converged"}
+
 _SHORT = {
     "sim_check_departure": "Nonlinear simulation: response within the tolerance",
     "sim_check_detuning": "Nonlinear simulation: detuning at the simulated swing",
@@ -91,9 +95,8 @@ def summary_sheet(options: PlanOptions) -> SheetLayout:
     row += 1
     start = row
     rows = [(rule.label, f"={check_name(rule.name)}") for rule in CHECK_RULES]
-    rows += [("All design checks", "=all_design_checks"),
-             ("Workbook formulas agree with the engine", "=all_cross_checks"),
-             ("Pendulum fixed point converged", "=fixed_point_converged")]
+    rows += [("All design checks", "=all_design_checks")]
+    rows += [(label, f"={name}") for name, label in VERDICT_LABELS.items()]
     if options.simulation is not None:
         rows += [(_SHORT[name], f"={name}") for name, *_ in NONLINEAR_CHECKS]
     rows += [(f"Engine value of the {what} current (inputs unchanged)", f"={flag}_ok")

@@ -18,7 +18,7 @@ from dataclasses import dataclass
 
 from functions.pendulum import STANDARD_GRAVITY
 
-__all__ = ["Unit", "UNITS", "DEFAULT_UNITS", "SI_UNIT", "unit_for", "UNIT_SYSTEMS"]
+__all__ = ["Unit", "UNITS", "DEFAULT_UNITS", "SI_UNIT", "unit_for"]
 
 FOOT = 0.3048
 INCH = 0.0254
@@ -71,7 +71,6 @@ UNITS: dict[str, dict[str, Unit]] = {
 #: declaration, functions.quantities.UNIT_KINDS, which a test checks).
 SI_UNIT = {kind: next(iter(units)) for kind, units in UNITS.items()}
 
-UNIT_SYSTEMS = ("SI", "US")
 
 #: Unit a bare number in a project file is read in, per unit system and kind.
 DEFAULT_UNITS: dict[str, dict[str, str]] = {

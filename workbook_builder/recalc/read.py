@@ -21,7 +21,8 @@ from typing import Any, Mapping
 from functions.quantities import FLOOR_TABLE, by_name, design_inputs, input_relation_errors
 
 from .. import __version__
-from ..plan import FORMAT_NAME, PLAN_PROPERTY, PLAN_VERSION, Plan, PlanOptions, make_plan
+from ..plan import (FORMAT_NAME, PLAN_PROPERTY, PLAN_VERSION, SIMULATION_PROPERTY, Plan,
+                    PlanOptions, make_plan)
 from ..plan.inputs import entered_name, factor_name, unit_name
 from ..project.model import Floors, InputValue, Project, settings_from_text
 from ..project.units import unit_for
@@ -32,8 +33,6 @@ from ..xlsx.package import Book, Cell, PackageError, PartCache, assert_defusedxm
 __all__ = ["RecalcError", "Issue", "WorkbookData", "read_workbook", "read_inputs",
            "PART_CACHE", "SIMULATION_PROPERTY"]
 
-#: Custom document property of the [simulation] settings (written by the builder).
-SIMULATION_PROPERTY = "SwaytuneSimulation"
 #: Parsed worksheets and shared strings by their exact bytes, shared by the workbooks of a
 #: batch (variants of one workbook hold many identical parts).
 PART_CACHE = PartCache()

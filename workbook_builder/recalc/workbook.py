@@ -33,6 +33,7 @@ from ..plan.charts import chart_tables
 from ..plan import make_plan
 from ..plan.checks import check_name, cross_checked
 from ..plan.model import Plan, refreshed
+from ..plan.summary import VERDICT_LABELS
 from ..plan.values import Sources, source_value
 from ..xlsx.cached import CellError
 from ..xlsx.files import OverwriteRefused, atomic_path, guard_hand_edits, guard_overwrite
@@ -50,8 +51,7 @@ CHANGE_TOLERANCE = 1e-12
 #: Formula text -> syntax tree, shared by the evaluators of a batch.
 PARSE_CACHE: dict[str, Any] = {}
 #: Labels of the verdicts besides the design checks (the summary's columns).
-SHORT_LABELS = {"all_cross_checks": "Workbook formulas agree with the engine",
-                "fixed_point_converged": "Pendulum fixed point converged"}
+SHORT_LABELS = VERDICT_LABELS
 
 
 @dataclass
@@ -320,8 +320,8 @@ def _recalc(res: RecalcResult, path: Path, dest: Path | None, in_place: bool, ba
         guard_hand_edits(dest, force=force)
     chart_values = None
     if "Charts" in book:
+        # the book's cells already hold the refreshed constants (written above)
         chart_values = {("Charts", c.coordinate): c.value for c in book["Charts"].cells.values()}
-        chart_values.update({k: v for k, v in constants.items() if k[0] == "Charts"})
     if in_place and backup:
         res.backup = _backup_path(dest)
         with atomic_path(res.backup) as tmp:        # never a partial backup (full disk)

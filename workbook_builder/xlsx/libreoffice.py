@@ -30,6 +30,7 @@ from typing import Any, Iterable
 
 from openpyxl import load_workbook
 
+from .cached import formula_cells
 from .files import atomic_path
 
 __all__ = [
@@ -284,23 +285,13 @@ def read_values(path: str | os.PathLike) -> dict[tuple[str, str], Any]:
     wb = load_workbook(path, data_only=True)
     try:
         out: dict[tuple[str, str], Any] = {}
-        formulas = _formula_coordinates(path)
+        formulas = formula_cells(path)
         for ws in wb.worksheets:
             for row in ws.iter_rows():
                 for cell in row:
                     if cell.value is not None or (ws.title, cell.coordinate) in formulas:
                         out[(ws.title, cell.coordinate)] = cell.value
         return out
-    finally:
-        wb.close()
-
-
-def _formula_coordinates(path: str | os.PathLike) -> set[tuple[str, str]]:
-    """(sheet, coordinate) of every formula cell, read with openpyxl (formulas kept)."""
-    wb = load_workbook(path, data_only=False)
-    try:
-        return {(ws.title, c.coordinate) for ws in wb.worksheets for row in ws.iter_rows()
-                for c in row if c.data_type == "f"}
     finally:
         wb.close()
 

@@ -208,6 +208,9 @@ class Book:
         return None if loc is None else self.sheets[loc[0]].get(loc[1])
 
 
+#: Cell type of a value cell by its ``t`` attribute (anything else is a number).
+_CELL_TYPES = {"s": "s", "str": "s", "inlineStr": "s", "b": "b", "e": "e"}
+
 _COORD_RE = re.compile(r"\$?([A-Za-z]{1,3})\$?(\d+)")
 
 
@@ -383,10 +386,8 @@ def open_package(path: Path, *, cache: PartCache | None = None) -> Book:
     for title, part in book.sheet_parts.items():
         if part not in data:
             raise PackageError(f"corrupted workbook: sheet {title!r} part {part} is missing")
-        raw = data[part]
-        if cache is not None and (b"<!DOCTYPE" in raw or b"<!ENTITY" in raw):
-            _parse_xml(raw, part)            # refused, whatever the cache holds
-        book.sheets[title] = _cached_sheet(cache, title, raw, part, strings, strings_raw)
+        book.sheets[title] = _cached_sheet(cache, title, data[part], part, strings,
+                                           strings_raw)
     if "docProps/custom.xml" in data:
         root = _parse_xml(data["docProps/custom.xml"], "docProps/custom.xml")
         for prop in root:
@@ -538,8 +539,7 @@ def _read_sheet(title: str, raw: bytes, part: str, strings: list[str]) -> Sheet:
                 else:
                     if cached is None:
                         continue
-                    dtype = {"s": "s", "str": "s", "inlineStr": "s", "b": "b",
-                             "e": "e"}.get(t, "n")
+                    dtype = _CELL_TYPES.get(t, "n")
                     cells[(r, col)] = Cell(r, col, cached, dtype, cached, t)
     for cell, si, ref in pending_shared:
         master = shared.get(si)
