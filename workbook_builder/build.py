@@ -24,7 +24,6 @@ from .plan import (FORMAT_NAME, PLAN_PROPERTY, PLAN_VERSION, SIMULATION_PROPERTY
                    make_plan, options_for)
 from .plan.checks import NONLINEAR_CHECKS, check_name, cross_checked, engine_name
 from .plan.charts import chart_tables
-from .plan.model import refreshed
 from .plan.values import Sources, plan_values
 from .project import Project
 from .project.model import settings_text
@@ -78,7 +77,7 @@ class BuiltWorkbook:
 
     def engine_cells(self) -> list[tuple[str, str, tuple]]:
         """``(sheet, cell, source)`` of every engine value recalculation recomputes."""
-        return [(s, c.ref, c.source) for s, c in self.plan.cells() if refreshed(c)]
+        return [(s, c.ref, c.source) for s, c in self.plan.refreshed_cells()]
 
 
 def title_fields(project: Project) -> dict[str, str]:

@@ -9,6 +9,7 @@ rebuilds it from the options stored in a workbook and reads the workbook through
 from __future__ import annotations
 
 import functools
+from collections import Counter
 
 from .calculation import calculation_sheet
 from .charts import charts_sheet
@@ -30,7 +31,8 @@ SHEETS = ("Summary", "Inputs", "Calculation", "Pendulum", "Checks", "Charts", "N
 
 @functools.lru_cache(maxsize=64)
 def make_plan(options: PlanOptions) -> Plan:
-    """The plan of a workbook laid out for ``options`` (cached: plans are not modified).
+    """The plan of a workbook laid out for ``options`` (cached and sealed: plans are not
+    modified).
 
     Raises
     ------
@@ -44,8 +46,8 @@ def make_plan(options: PlanOptions) -> Plan:
         layouts.append(nonlinear_sheet(options))
     plan.sheets = [sh.plan for sh in layouts] + [cautions_sheet().plan, record_sheet().plan]
     plan.sheets.insert(len(layouts), names_sheet(plan).plan)      # lists every other name
-    names = [c.name for _, c in plan.cells() if c.name] + list(plan.range_names())
-    duplicates = sorted({n for n in names if names.count(n) > 1})
+    counts = Counter([c.name for _, c in plan.cells() if c.name] + list(plan.range_names()))
+    duplicates = sorted(n for n, k in counts.items() if k > 1)
     if duplicates:
         raise ValueError(f"the plan defines {duplicates} twice")
-    return plan
+    return plan.seal()

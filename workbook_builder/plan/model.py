@@ -147,6 +147,16 @@ class Plan:
 
     options: Any
     sheets: list[SheetPlan] = field(default_factory=list)
+    #: The finished plan's lookups (see :meth:`seal`); empty while the plan is being laid out.
+    _sealed: dict[str, Any] = field(default_factory=dict, repr=False, compare=False)
+
+    def seal(self) -> "Plan":
+        """Compute the lookups a workbook is read through once, for a plan that is finished
+        and will not change (every workbook of a batch reads through the same plan)."""
+        self._sealed.clear()
+        self._sealed.update(names=self.names(), range_names=self.range_names(),
+                            refreshed=[(s, c) for s, c in self.cells() if refreshed(c)])
+        return self
 
     def sheet(self, title: str) -> SheetPlan:
         for sheet in self.sheets:
@@ -162,12 +172,22 @@ class Plan:
 
     def names(self) -> dict[str, tuple[str, str]]:
         """Defined name -> (sheet title, cell reference)."""
+        if "names" in self._sealed:
+            return self._sealed["names"]
         return {c.name: (s, c.ref) for s, c in self.cells() if c.name}
 
     def range_names(self) -> dict[str, tuple[str, str]]:
         """Defined name of a range -> (sheet title, range)."""
+        if "range_names" in self._sealed:
+            return self._sealed["range_names"]
         return {name: (sheet.title, rng) for sheet in self.sheets
                 for name, rng in sheet.ranges.items()}
+
+    def refreshed_cells(self) -> list[tuple[str, Cell]]:
+        """``(sheet title, cell)`` of every engine value recalculation recomputes."""
+        if "refreshed" in self._sealed:
+            return self._sealed["refreshed"]
+        return [(s, c) for s, c in self.cells() if refreshed(c)]
 
     def named(self, name: str) -> tuple[str, Cell]:
         """The sheet and cell of a defined name.

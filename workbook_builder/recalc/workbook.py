@@ -32,7 +32,7 @@ from ..plan.calculation import engine_flags
 from ..plan.charts import chart_tables
 from ..plan import make_plan
 from ..plan.checks import check_name, cross_checked
-from ..plan.model import Plan, refreshed
+from ..plan.model import Plan
 from ..plan.summary import VERDICT_LABELS
 from ..plan.values import Sources, source_value
 from ..xlsx.cached import CellError
@@ -159,9 +159,7 @@ def _engine_constants(data: WorkbookData, result: Any) -> tuple[dict[tuple[str, 
     out: dict[tuple[str, str], float] = {}
     issues: list[Issue] = []
     locate = _Locator(book, plan)
-    for sheet, c in plan.cells():
-        if not refreshed(c):
-            continue
+    for sheet, c in plan.refreshed_cells():
         wsheet, coord = locate(sheet, c.ref, c.name)
         cell = book[wsheet].get(coord)
         where = f"{wsheet}!{coord}"
