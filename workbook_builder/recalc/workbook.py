@@ -326,7 +326,7 @@ def _recalc(res: RecalcResult, path: Path, dest: Path | None, in_place: bool, ba
             shutil.copy2(dest, tmp)
     try:
         write_results(dest if in_place else path, dest, constants=constants, cached=cached,
-                      chart_values=chart_values)
+                      chart_values=chart_values, book=book)     # the package as read above
     except BaseException:
         if res.backup is not None:                  # the original is untouched: no backup
             res.backup.unlink(missing_ok=True)
@@ -348,11 +348,13 @@ def _backup_path(path: Path) -> Path:
 def write_results(source: str | os.PathLike, dest: str | os.PathLike, *,
                   constants: Mapping[tuple[str, str], float] | None = None,
                   cached: Mapping[tuple[str, str], Any] | None = None,
-                  chart_values: Mapping[tuple[str, str], Any] | None = None) -> Path:
+                  chart_values: Mapping[tuple[str, str], Any] | None = None,
+                  book: Book | None = None) -> Path:
     """Write an updated copy of a workbook: new constants, cached values, chart caches.
 
     Every other part of the package is copied unchanged (formulas included); the copy is
-    written atomically. See :func:`workbook_builder.xlsx.rewrite.write_package`.
+    written atomically. ``book`` is ``source`` as already read (not read again). See
+    :func:`workbook_builder.xlsx.rewrite.write_package`.
 
     Raises
     ------
@@ -362,7 +364,7 @@ def write_results(source: str | os.PathLike, dest: str | os.PathLike, *,
     """
     try:
         return write_package(source, dest, constants=constants, cached=cached,
-                             chart_values=chart_values)
+                             chart_values=chart_values, book=book)
     except PackageError as exc:
         raise RecalcError(str(exc)) from None
 

@@ -28,7 +28,7 @@ import numpy as np
 from openpyxl.utils import column_index_from_string, get_column_letter
 
 from .files import PACKAGE_DIGEST_PROPERTY, atomic_path, package_digest, with_property
-from .package import PackageError, sheet_parts, split_coord
+from .package import Book, PackageError, sheet_parts, split_coord
 
 __all__ = ["CellError", "write_package", "rewrite_cells", "encode_value"]
 
@@ -274,7 +274,8 @@ def write_package(source: str | os.PathLike, dest: str | os.PathLike, *,
                   constants: Mapping[tuple[str, str], float] | None = None,
                   cached: Mapping[tuple[str, str], Any] | None = None,
                   chart_values: Mapping[tuple[str, str], Any] | None = None,
-                  require_all: Iterable[str] = (), compresslevel: int | None = 1) -> Path:
+                  require_all: Iterable[str] = (), compresslevel: int | None = 1,
+                  book: Book | None = None) -> Path:
     """Write an updated copy of a package: new constants, cached values, chart caches.
 
     ``constants`` and ``cached`` map ``(sheet, "D12")`` to a value (see :func:`rewrite_cells`);
@@ -283,7 +284,8 @@ def write_package(source: str | os.PathLike, dest: str | os.PathLike, *,
     ``require_all`` must receive a cached value for each of its formula cells. ``dest`` may
     equal ``source``; it is replaced atomically and on any error left as it was, with no
     temporary file remaining. ``compresslevel`` 1 is fast and still deflates; None keeps the
-    library default.
+    library default. ``book``, the package of ``source`` as already read by
+    :func:`workbook_builder.xlsx.package.open_package`, saves reading it again.
 
     Raises
     ------
@@ -299,9 +301,12 @@ def write_package(source: str | os.PathLike, dest: str | os.PathLike, *,
     every = set(require_all)
     for sheet in every:
         by_sheet.setdefault(sheet, ({}, {}))
-    with zipfile.ZipFile(src) as zin:
-        members = [(info, zin.read(info)) for info in zin.infolist()]
-        parts = sheet_parts(zin)
+    if book is not None:
+        members, parts = book.members, book.sheet_parts
+    else:
+        with zipfile.ZipFile(src) as zin:
+            members = [(info, zin.read(info)) for info in zin.infolist()]
+            parts = sheet_parts(zin)
     unknown = set(by_sheet) - set(parts)
     if unknown:
         raise PackageError(f"unknown sheet(s) {sorted(unknown)}; the workbook has "
