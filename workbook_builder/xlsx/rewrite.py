@@ -27,6 +27,7 @@ from typing import Any, Iterable, Mapping
 import numpy as np
 from openpyxl.utils import column_index_from_string, get_column_letter
 
+from ..project.reader import ILLEGAL_TEXT, MAX_TEXT
 from .files import PACKAGE_DIGEST_PROPERTY, atomic_path, package_digest, with_property
 from .package import Book, PackageError, sheet_parts, split_coord
 
@@ -35,7 +36,6 @@ __all__ = ["CellError", "write_package", "rewrite_cells", "encode_value"]
 # One cell element, optionally namespace-prefixed: <c .../> or <c ...>body</c>.
 _CELL_RE = re.compile(
     r"<(?P<p>[A-Za-z_][\w.-]*:)?c\b(?P<attrs>[^>]*?)(?:/>|>(?P<body>.*?)</(?P=p)?c>)", re.S)
-_INVALID_XML_CHARS = re.compile("[\x00-\x08\x0b\x0c\x0e-\x1f\ufffe\uffff]")
 _ERROR_CODE_RE = re.compile(r"^(?:#[A-Z0-9/_]+[!?]|#N/A)$")
 
 
@@ -81,11 +81,11 @@ def encode_value(key: tuple[str, str], value: Any) -> tuple[str | None, str]:
     if isinstance(value, (bool, np.bool_)):
         return "b", "1" if bool(value) else "0"
     if isinstance(value, str):
-        if _INVALID_XML_CHARS.search(value):
+        if ILLEGAL_TEXT.search(value):
             raise PackageError(f"cached value for {key[0]}!{key[1]} holds a control character "
                                "that a workbook cannot store")
-        if len(value) > 32767:
-            raise PackageError(f"cached value for {key[0]}!{key[1]} is longer than 32767 "
+        if len(value) > MAX_TEXT:
+            raise PackageError(f"cached value for {key[0]}!{key[1]} is longer than {MAX_TEXT} "
                                "characters")
         return "str", _escape(value)
     if isinstance(value, numbers.Integral):

@@ -28,7 +28,6 @@ from __future__ import annotations
 import datetime as dt
 import math
 import os
-import re
 from pathlib import Path
 from typing import Any, Mapping
 
@@ -36,6 +35,8 @@ from openpyxl import load_workbook
 from openpyxl.styles import Alignment, Border, Font, PatternFill, Side
 from openpyxl.utils.cell import absolute_coordinate, coordinate_to_tuple, quote_sheetname
 from openpyxl.workbook.defined_name import DefinedName
+
+from ..project.reader import ILLEGAL_TEXT, MAX_TEXT
 
 __all__ = ["TITLE_BLOCK_NAMES", "FIELD_LABELS", "open_template", "template_fields",
            "unfilled_fields", "add_default_title_block", "set_text"]
@@ -60,7 +61,6 @@ FIELD_LABELS: dict[str, str] = {
     "revision": "Revision",
 }
 
-_ILLEGAL = re.compile("[\x00-\x08\x0b\x0c\x0e-\x1f]")
 
 
 def _field_text(key: str, value: Any) -> str:
@@ -77,10 +77,11 @@ def _field_text(key: str, value: Any) -> str:
         text = str(value)
     else:
         raise ValueError(f"{key}={value!r} must be text, a number or a date")
-    if _ILLEGAL.search(text):
+    if ILLEGAL_TEXT.search(text):
         raise ValueError(f"{key}={text!r} holds a control character a cell cannot store")
-    if len(text) > 32767:
-        raise ValueError(f"{key} is {len(text)} characters long; a cell holds at most 32767")
+    if len(text) > MAX_TEXT:
+        raise ValueError(f"{key} is {len(text)} characters long; a cell holds at most "
+                         f"{MAX_TEXT}")
     return text
 
 
