@@ -243,3 +243,27 @@ def test_out_that_is_a_file_is_refused(tmp_path, capsys):
     err = capsys.readouterr().err
     assert "notes.txt is a file; --out must be a folder" in err and "Traceback" not in err
     assert a_file.read_text() == "mine"
+
+
+def test_an_earlier_export_is_replaced_but_an_edited_one_is_kept(tmp_path):
+    """An unedited export of another version is replaced; the same file edited by hand (the
+    digest on its last line no longer matches) is kept unless forced. Our own rule: common
+    practice, no source."""
+    from workbook_builder.xlsx.files import OverwriteRefused
+    out = tmp_path / "lite"
+    lite_export.export_lite(out)
+    main_py = out / "main.py"
+    text = main_py.read_text(encoding="utf-8")
+    assert text.splitlines()[-1].startswith("# swaytune export digest: ")
+    body = text[:text.rindex("# swaytune export digest: ")]
+    older = body.replace("_SOURCES = {}", "_SOURCES = {}  # an older version")
+    main_py.write_text(older + lite_export._digest_line(older), encoding="utf-8")
+    lite_export.export_lite(out)                          # an unedited earlier export
+    assert main_py.read_text(encoding="utf-8") == text
+    edited = text.replace("_SOURCES = {}", "_SOURCES = {}  # my change")
+    main_py.write_text(edited, encoding="utf-8")
+    with pytest.raises(OverwriteRefused, match=r"main\.py exists and differs from the export"):
+        lite_export.export_lite(out)
+    assert main_py.read_text(encoding="utf-8") == edited
+    lite_export.export_lite(out, force=True)
+    assert main_py.read_text(encoding="utf-8") == text

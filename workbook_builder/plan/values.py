@@ -13,7 +13,6 @@ from dataclasses import dataclass
 from typing import Any
 
 import functions
-from functions.quantities import quantity
 
 from .. import __version__
 from .charts import ChartTable
@@ -119,7 +118,7 @@ def source_value(source: tuple, s: Sources) -> Any:
         return p.inputs[rest[0]].unit.factor
     if kind == "range":
         iv = p.inputs[rest[0]]
-        return quantity(iv.quantity.cell_name).interval(iv.unit.factor)
+        return iv.quantity.interval(iv.unit.factor)
     if kind == "note":
         iv = p.inputs[rest[0]]
         return iv.note + ("" if iv.given else " (default)")
