@@ -31,7 +31,7 @@ from ..xlsx.formulas import Evaluator, FormulaError, is_error
 from ..xlsx.package import Book, Cell, PackageError, PartCache, assert_defusedxml, open_package
 
 __all__ = ["RecalcError", "Issue", "WorkbookData", "read_workbook", "read_inputs",
-           "PART_CACHE", "SIMULATION_PROPERTY"]
+           "PART_CACHE", "SIMULATION_PROPERTY", "NamedCells"]
 
 #: Parsed worksheets and shared strings by their exact bytes, shared by the workbooks of a
 #: batch (variants of one workbook hold many identical parts).
@@ -167,11 +167,13 @@ def _number(book: Book, sheet: str, cell: Cell, what: str) -> float:
     return v
 
 
-class _Names:
-    """Cells of the workbook by the plan's defined names (missing names reported once)."""
+class NamedCells:
+    """Cells of a workbook by the plan's defined names; a missing name is a damaged layout.
+    Each named range is looked up once."""
 
     def __init__(self, book: Book):
         self.book = book
+        self._ranges: dict[str, tuple[str, list[Cell]]] = {}
 
     def loc(self, name: str) -> tuple[str, str]:
         loc = self.book.name_cell(name)
@@ -185,15 +187,16 @@ class _Names:
         return sheet, self.book[sheet].get(coord)
 
     def range_cells(self, name: str) -> tuple[str, list[Cell]]:
-        found = self.book.name_range(name)
-        if found is None:
-            raise RecalcError(f"missing defined name {name}: the workbook's layout is damaged "
-                              "(rebuild it from its project file)")
-        sheet, cells = found
-        return sheet, cells
+        if name not in self._ranges:
+            found = self.book.name_range(name)
+            if found is None:
+                raise RecalcError(f"missing defined name {name}: the workbook's layout is "
+                                  "damaged (rebuild it from its project file)")
+            self._ranges[name] = found
+        return self._ranges[name]
 
 
-def _read_floors(names: _Names, book: Book, n: int) -> Floors:
+def _read_floors(names: NamedCells, book: Book, n: int) -> Floors:
     units = {}
     for key, kind in (("floor_height_unit", "length"), ("floor_mass_unit", "mass")):
         sheet, cell = names.cell(key)
@@ -290,7 +293,7 @@ def read_workbook(path: str | os.PathLike, *, overrides: Mapping[str, float] | N
         raise RecalcError(f"missing defined name(s) {', '.join(missing[:8])}"
                           f"{' ...' if len(missing) > 8 else ''}: the workbook's layout is "
                           "damaged (rebuild it from its project file)")
-    names = _Names(book)
+    names = NamedCells(book)
     changes = _overrides(overrides)
     issues: list[Issue] = []
     typed: dict[str, tuple[Any, str]] = {}

@@ -41,7 +41,7 @@ from ..xlsx.formulas import Evaluator, FormulaError, is_error
 from ..xlsx.package import Book, Cell, PackageError, split_coord
 from ..xlsx.rewrite import write_package
 from .edits import CANON_CACHE, formula_issues
-from .read import PART_CACHE, Issue, RecalcError, WorkbookData, read_workbook
+from .read import PART_CACHE, Issue, NamedCells, RecalcError, WorkbookData, read_workbook
 
 __all__ = ["RecalcResult", "recalc_workbook", "write_results", "PARSE_CACHE",
            "CHANGE_TOLERANCE", "SHORT_LABELS", "clear_caches"]
@@ -112,41 +112,26 @@ def _plain(v: Any) -> Any:
 
 
 class _Locator:
-    """Where planned cells are in the workbook: through their names, or their named ranges
-    (each range's cells looked up once per workbook, not once per cell)."""
+    """Where planned cells are in the workbook: through their names, or their named ranges."""
 
     def __init__(self, book: Book, plan: Plan):
-        self.book = book
+        self.names = NamedCells(book)
         self.ranges = []
         for rname, (rsheet, rng) in plan.range_names().items():
             first, _, last = rng.partition(":")
             self.ranges.append((rname, rsheet, split_coord(first), split_coord(last)))
-        self.found: dict[str, tuple[str, list[Cell]]] = {}
-
-    def _range(self, rname: str, rows: int, width: int) -> tuple[str, list[Cell]]:
-        if rname not in self.found:
-            found = self.book.name_range(rname)
-            if found is None:
-                raise RecalcError(f"missing defined name {rname}: the workbook's layout is "
-                                  "damaged (rebuild it from its project file)")
-            if len(found[1]) != rows * width:
-                raise RecalcError(f"{rname} holds {len(found[1])} cells, the plan "
-                                  f"{rows * width}: the layout is damaged")
-            self.found[rname] = found
-        return self.found[rname]
 
     def __call__(self, sheet: str, ref: str, name: str) -> tuple[str, str]:
         if name:
-            loc = self.book.name_cell(name)
-            if loc is None:
-                raise RecalcError(f"missing defined name {name}: the workbook's layout is "
-                                  "damaged (rebuild it from its project file)")
-            return loc
+            return self.names.loc(name)
         r, c = split_coord(ref)
         for rname, rsheet, (r1, c1), (r2, c2) in self.ranges:
             if rsheet == sheet and r1 <= r <= r2 and c1 <= c <= c2:
                 width = c2 - c1 + 1
-                wsheet, cells = self._range(rname, r2 - r1 + 1, width)
+                wsheet, cells = self.names.range_cells(rname)
+                if len(cells) != (r2 - r1 + 1) * width:
+                    raise RecalcError(f"{rname} holds {len(cells)} cells, the plan "
+                                      f"{(r2 - r1 + 1) * width}: the layout is damaged")
                 return wsheet, cells[(r - r1) * width + (c - c1)].coordinate
         raise RecalcError(f"{sheet}!{ref}: an engine value without a name (a bug of the plan)")
 
