@@ -8,6 +8,8 @@ quantity must then appear, derived, in every medium: the project-file schema, th
 validation and results, the workbook (input row, named cells, formula, cross-check), the
 spreadsheet function SWAY_DESIGN and the batch-recalculation summary. Invented quantity,
 invented data.
+
+Behaviour tests of our own rules: common practice, no source.
 """
 from __future__ import annotations
 

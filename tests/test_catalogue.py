@@ -1,5 +1,8 @@
 # SPDX-License-Identifier: MIT
-"""The declaration of the worksheet functions: names, texts, defaults, coverage, docs current."""
+"""The declaration of the worksheet functions: names, texts, defaults, coverage, docs current.
+
+Behaviour tests of our own rules: common practice, no source.
+"""
 from __future__ import annotations
 
 import importlib

@@ -1,5 +1,10 @@
 # SPDX-License-Identifier: MIT
-"""The design chain's declared steps: order, variants, worksheet formulas allowed."""
+"""The design chain's declared steps: order, variants, worksheet formulas allowed.
+
+Reference values are the engine's functions, themselves tested against published sources
+(test_damper.py, test_pendulum.py); the order and variants are our own rules: common practice,
+no source.
+"""
 from __future__ import annotations
 
 import pytest

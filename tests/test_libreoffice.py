@@ -8,6 +8,9 @@ with exact factors, not CONVERT, so the tighter tolerance holds everywhere); the
 the builder wrote equal LibreOffice's; and with recalculation off LibreOffice shows the cached
 values.
 Skipped, with the reason, when soffice is not installed (CI installs libreoffice-calc-nogui).
+
+Reference: LibreOffice, an independent spreadsheet application, recalculating the formulas
+itself.
 """
 from __future__ import annotations
 

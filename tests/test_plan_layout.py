@@ -2,6 +2,8 @@
 """The workbook plan: complete, self-consistent and independent of the numbers.
 
 Options and their JSON: test_plan_options.py; cell kinds: test_plan_model.py.
+
+Behaviour tests of our own rules: common practice, no source.
 """
 from __future__ import annotations
 

@@ -3,6 +3,8 @@
 
 The expected options of a project are read off the project files written here (which inputs
 they give, their unit system, floor table and [simulation] table), not from the code.
+
+Behaviour tests of our own rules: common practice, no source.
 """
 from __future__ import annotations
 

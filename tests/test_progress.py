@@ -1,5 +1,8 @@
 # SPDX-License-Identifier: MIT
-"""The progress bar of batches: redrawn on a terminal, a line per tenth in a log."""
+"""The progress bar of batches: redrawn on a terminal, a line per tenth in a log.
+
+Behaviour tests of our own rules: common practice, no source.
+"""
 from __future__ import annotations
 
 import io

@@ -1,5 +1,8 @@
 # SPDX-License-Identifier: MIT
-"""Case tables (CSV): one project per row, validated like a project file."""
+"""Case tables (CSV): one project per row, validated like a project file.
+
+Behaviour tests of our own rules: common practice, no source.
+"""
 from __future__ import annotations
 
 import pytest

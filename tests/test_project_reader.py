@@ -1,5 +1,8 @@
 # SPDX-License-Identifier: MIT
-"""Project files (TOML): reading, defaults, units, floor table, [simulation], every refusal."""
+"""Project files (TOML): reading, defaults, units, floor table, [simulation], every refusal.
+
+Behaviour tests of our own rules: common practice, no source.
+"""
 from __future__ import annotations
 
 import math

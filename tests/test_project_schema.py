@@ -1,6 +1,9 @@
 # SPDX-License-Identifier: MIT
 """The project-file schema is the engine's declarations: same values accepted, every refusal
-naming the file, the line and the key."""
+naming the file, the line and the key.
+
+Behaviour tests of our own rules: common practice, no source.
+"""
 from __future__ import annotations
 
 import math

@@ -1,5 +1,8 @@
 # SPDX-License-Identifier: MIT
-"""The declarations of functions.quantities: complete, consistent, one per quantity."""
+"""The declarations of functions.quantities: complete, consistent, one per quantity.
+
+Behaviour tests of our own rules: common practice, no source.
+"""
 from __future__ import annotations
 
 import math

@@ -5,6 +5,8 @@ Folders are scanned (outputs, lock files, backups and summaries skipped), a bad 
 alone with its reason, worker processes give the same results as one process, an interrupt or
 a crash never leaves an original damaged, and the command's exit status says whether every
 workbook was recalculated with every check OK.
+
+Behaviour tests of our own rules: common practice, no source.
 """
 from __future__ import annotations
 

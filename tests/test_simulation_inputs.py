@@ -5,6 +5,8 @@ The simulation integrates one system at a time, so its settings are single numbe
 applies the engine's range check (functions._validation.check_range, tested in
 test_validation.py) and then refuses an array, naming the argument, the value and its shape.
 Messages are the module's own format; each is matched by its own ``pytest.raises``.
+
+Behaviour tests of our own rules: common practice, no source.
 """
 from __future__ import annotations
 

@@ -1,5 +1,8 @@
 # SPDX-License-Identifier: MIT
-"""Native charts of a built workbook: titles, axis units, data caches equal to the cells."""
+"""Native charts of a built workbook: titles, axis units, data caches equal to the cells.
+
+Behaviour tests of our own rules: common practice, no source.
+"""
 from __future__ import annotations
 
 import re

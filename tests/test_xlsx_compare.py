@@ -1,5 +1,8 @@
 # SPDX-License-Identifier: MIT
-"""Golden-workbook comparison: each kind of difference is found, named and ordered."""
+"""Golden-workbook comparison: each kind of difference is found, named and ordered.
+
+Behaviour tests of our own rules: common practice, no source.
+"""
 from __future__ import annotations
 
 import datetime as dt

@@ -2,6 +2,8 @@
 """Firm templates: title block filled through defined names, the firm's layout kept, text safe.
 
 The template is made here for an invented firm (demo data only).
+
+Behaviour tests of our own rules: common practice, no source.
 """
 from __future__ import annotations
 
