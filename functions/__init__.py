@@ -2,7 +2,7 @@
 """swaytune engine: pure, vectorised functions for pendulum tuned mass damper design.
 
 SI units (m, kg, s, Hz, N), angles in degrees, damping as a fraction of critical. Every public
-name of the topic modules is re-exported here::
+name of the topic modules is re-exported here, imported on first use::
 
     pendulum      exact period, small-angle error, tuned (equivalent) length, motion
     structure     modal mass, mode shapes, EN 1991-1-4 Annex F estimates, log decrement
@@ -17,21 +17,33 @@ name of the topic modules is re-exported here::
     design        the whole design chain -> DesignResult with checks
     simulation    time-domain check of the pendulum damper on the building mode
 """
-from functions import (chain, closed_forms, damper, design, optima, pendulum, quantities,
-                       simulation, structure, worksheet)
-from functions.chain import *  # noqa: F401,F403
-from functions.closed_forms import *  # noqa: F401,F403
-from functions.damper import *  # noqa: F401,F403
-from functions.design import *  # noqa: F401,F403
-from functions.optima import *  # noqa: F401,F403
-from functions.pendulum import *  # noqa: F401,F403
-from functions.quantities import *  # noqa: F401,F403
-from functions.simulation import *  # noqa: F401,F403
-from functions.structure import *  # noqa: F401,F403
-from functions.worksheet import *  # noqa: F401,F403
+import importlib
+from typing import Any
 
 __version__ = "0.2.0"
 
-__all__ = sorted({*pendulum.__all__, *structure.__all__, *closed_forms.__all__,
-                  *damper.__all__, *optima.__all__, *quantities.__all__, *worksheet.__all__,
-                  *chain.__all__, *design.__all__, *simulation.__all__})
+#: The topic modules, in the order their names are searched. They are imported on first use
+#: (PEP 562), so ``import functions.quantities`` or the ``swaytune --version`` command does not
+#: pay for scipy's start-up.
+TOPICS = ("pendulum", "structure", "closed_forms", "damper", "optima", "quantities",
+          "worksheet", "chain", "design", "simulation")
+
+
+def _topic(name: str) -> Any:
+    return importlib.import_module(f"{__name__}.{name}")
+
+
+def __getattr__(name: str) -> Any:
+    if name in TOPICS:
+        return _topic(name)
+    if name == "__all__":
+        return sorted({n for topic in TOPICS for n in _topic(topic).__all__})
+    for topic in TOPICS:
+        module = _topic(topic)
+        if name in module.__all__:
+            return getattr(module, name)
+    raise AttributeError(f"module 'functions' has no attribute {name!r}")
+
+
+def __dir__() -> list[str]:
+    return sorted({*globals(), *TOPICS, *__getattr__("__all__")})

@@ -112,7 +112,7 @@ def test_workbook_spreadsheet_function_and_recalc_summary(declared, tmp_path):
     assert res.results["acceleration_with_margin"] == pytest.approx(
         res.results["acceleration_with_damper"] * 1.2, rel=1e-12)
     row = summary_row(res)
-    assert row["acceleration_with_margin [m/s^2]"] == res.results["acceleration_with_margin"]
+    assert row[f"{WITH_MARGIN.label} [m/s^2]"] == res.results["acceleration_with_margin"]
 
 
 def test_nothing_else_was_edited():

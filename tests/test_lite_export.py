@@ -196,7 +196,9 @@ def test_cli_writes_the_files(tmp_path, capsys):
     from workbook_builder import cli
     assert cli.main(["lite-export", "--out", str(tmp_path / "x")]) == 0
     printed = capsys.readouterr().out
-    assert "CAUTION" in printed and "main.py" in printed and lite_export.NEXT_STEPS in printed
+    # the export shows no design: the cautions travel inside main.py, not in the output
+    assert "main.py" in printed and lite_export.NEXT_STEPS in printed
+    assert "CAUTION" in (tmp_path / "x" / "main.py").read_text()
     assert (tmp_path / "x" / "main.py").exists() and (tmp_path / "x" / "requirements.txt").exists()
 
 

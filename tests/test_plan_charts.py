@@ -157,32 +157,41 @@ def simulated():
 
 
 def test_time_history_table_subsamples_the_record(simulated):
+    """Exactly max_points rows spread evenly over the record (indices rounded from a linear
+    spacing, our own rule), each row the samples of that instant to 6 significant digits."""
     n = simulated.time.size
     t = charts.time_history_table(simulated, max_points=500)
-    stride = math.ceil(n / 500)
-    assert len(t.rows) == math.ceil(n / stride) <= 500
-    for k in (0, 1, len(t.rows) - 1):
-        i = k * stride
+    assert len(t.rows) == 500 < n
+    picks = np.round(np.linspace(0, n - 1, 500)).astype(int)
+    for k in (0, 1, 250, len(t.rows) - 1):
+        i = picks[k]
         want = (simulated.time[i], simulated.without_damper.acceleration[i],
                 simulated.nonlinear.acceleration[i], simulated.nonlinear.angle_deg[i],
                 simulated.linear.angle_deg[i])
         assert t.rows[k] == pytest.approx(want, rel=5e-6, abs=1e-12)   # 6 significant digits
+    assert t.rows[-1][0] == pytest.approx(simulated.time[-1], rel=5e-6)
     full = charts.time_history_table(simulated, max_points=n)
     assert len(full.rows) == n and full.spec.title == "Time histories"
+    assert len(charts.time_history_table(simulated, max_points=10 * n).rows) == n
     with pytest.raises(ValueError, match=r"max_points=1 must be >= 2"):
         charts.time_history_table(simulated, max_points=1)
 
 
 def test_swing_window_table_is_centred_on_the_peak_swing(simulated):
-    t = charts.swing_window_table(simulated, periods=4.0)
+    """``rows`` consecutive output samples around the largest exact swing (our own rule)."""
+    t = charts.swing_window_table(simulated, rows=101)
     rows = t.rows
-    period = 1.0 / simulated.damper_frequency
-    assert rows[-1][0] - rows[0][0] == pytest.approx(4 * period, abs=simulated.time_step)
+    assert len(rows) == 101
+    assert rows[-1][0] - rows[0][0] == pytest.approx(100 * simulated.time_step, rel=1e-4)
     i0 = int(round(rows[0][0] / simulated.time_step))
     for k, (time, exact, linear) in enumerate(rows):
         assert time == pytest.approx(simulated.time[i0 + k], rel=5e-6, abs=1e-9)
         assert exact == pytest.approx(simulated.nonlinear.angle_deg[i0 + k], rel=5e-6, abs=1e-12)
         assert linear == pytest.approx(simulated.linear.angle_deg[i0 + k], rel=5e-6, abs=1e-12)
     assert max(abs(r[1]) for r in rows) == pytest.approx(simulated.nonlinear.swing_deg, rel=5e-6)
-    with pytest.raises(ValueError, match=r"periods=0 must be > 0"):
-        charts.swing_window_table(simulated, periods=0)
+    peak = int(np.argmax(np.abs(simulated.nonlinear.angle_deg)))
+    assert abs((i0 + 50) - peak) <= 1 or i0 == 0 or i0 + 101 == simulated.time.size
+    assert len(charts.swing_window_table(simulated).rows) == min(charts.WINDOW_ROWS,
+                                                                 simulated.time.size)
+    with pytest.raises(ValueError, match=r"rows=1 must be >= 2"):
+        charts.swing_window_table(simulated, rows=1)

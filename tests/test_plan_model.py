@@ -69,10 +69,11 @@ def test_plan_looks_up_names_ranges_and_sheets():
     (Cell("A1", "engine", source=("cell", "tuning_ratio")), True),
     (Cell("A1", "engine", source=("snapshot", "design", "mass_ratio")), True),
     (Cell("A1", "engine", source=("chart", "period", 3, 1)), True),
-    (Cell("A1", "engine", source=("snapshot", "simulation", "acceleration")), False),
-    (Cell("A1", "engine", source=("sim", "force")), False),
-    (Cell("A1", "engine", source=("sim_response", "nonlinear", "stroke_peak")), False),
-    (Cell("A1", "engine", source=("sim_table", "time", 0, 1)), False),
+    (Cell("A1", "engine", source=("typed", "frequency")), True),
+    (Cell("A1", "engine", source=("snapshot", "simulation", "acceleration")), True),
+    (Cell("A1", "engine", source=("sim", "force")), True),
+    (Cell("A1", "engine", source=("sim_response", "nonlinear", "stroke_peak")), True),
+    (Cell("A1", "engine", source=("sim_table", "time", 0, 1)), True),
     (Cell("A1", "engine"), False),
     (Cell("A1", "input", source=("input", "frequency")), False),
     (Cell("A1", "value", source=("cell", "tuning_ratio")), False),
@@ -82,14 +83,18 @@ def test_refreshed_means_an_engine_value_recalculation_recomputes(cell, expected
     assert refreshed(cell) is expected
 
 
-def test_refreshed_cells_of_a_plan_are_the_design_and_chart_engine_values():
-    """With a simulation and numerical optima: the design chain's engine values, their
-    snapshots and the chart tables are refreshed; the simulation's values never are."""
+def test_refreshed_cells_of_a_plan_are_every_engine_value():
+    """With a simulation and numerical optima: every engine value is refreshed by recalc (the
+    design chain's, their snapshots, the chart tables, the simulation's and the Record sheet's
+    values of the last engine run), and each is found through a defined name or a named
+    range (our own rule: recalc never locates a cell by its position alone)."""
     options = PlanOptions(tuning_method="hinf", mass_ratio_mode="required", inputs=NUMERIC,
                           simulation=("random", 40, 12))
     plan = make_plan(options)
     engine = [(s, c) for s, c in plan.cells() if c.kind == "engine"]
-    assert {s for s, c in engine if refreshed(c)} == {"Calculation", "Checks", "Charts"}
+    assert {s for s, c in engine if refreshed(c)} == {"Calculation", "Checks", "Charts",
+                                                      "Nonlinear", "Record"}
+    ranges = plan.range_names().values()
     for sheet, cell in engine:
-        assert refreshed(cell) == (sheet != "Nonlinear"), (sheet, cell.ref, cell.source)
-        assert cell.source[0] in REFRESHED_SOURCES or sheet == "Nonlinear"
+        assert refreshed(cell) and cell.source[0] in REFRESHED_SOURCES, (sheet, cell.ref)
+        assert cell.name or any(rs == sheet for rs, _ in ranges), (sheet, cell.ref)

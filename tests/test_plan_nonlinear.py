@@ -58,14 +58,15 @@ def test_simulation_depends_on_every_input_its_damper_and_load_read(method, mode
 
 
 @pytest.mark.parametrize("mode", ["required", "chosen_mass_ratio", "chosen_damper_mass"])
-def test_flag_snapshots_every_dependency_and_is_not_refreshed(mode):
+def test_flag_snapshots_every_dependency_and_is_refreshed(mode):
+    """recalc reruns the simulation, so it rewrites the snapshots too (our own rule)."""
     options = _options(mode=mode)
     named = _named(nonlinear_sheet(options).plan)
     flag = named["engine_flag_simulation"]
     assert flag.kind == "check"
     for dep in simulation_dependencies(options):
         snap = named[f"engine_flag_simulation_{dep}"]
-        assert snap.source == ("snapshot", "simulation", dep) and not refreshed(snap)
+        assert snap.source == ("snapshot", "simulation", dep) and refreshed(snap)
         assert dep in flag.content and snap.name in flag.content
 
 
@@ -83,7 +84,10 @@ def test_tables_have_the_sizes_of_the_options(load, time_rows, window_rows):
     assert sizes == {"chart_time": (time_rows, 5), "chart_swing_window": (window_rows, 3)}
     cells = [c for c in sheet.cells.values() if c.source[:1] == ("sim_table",)]
     assert len(cells) == 5 * time_rows + 3 * window_rows
-    assert not any(refreshed(c) for c in sheet.cells.values())
+    assert all(refreshed(c) for c in cells)
+    # every single simulation value has a name (recalc writes only through names)
+    assert all(c.name for c in sheet.cells.values()
+               if c.kind == "engine" and c.source[0] in ("sim", "sim_response"))
 
 
 def test_charts_draw_the_planned_tables_outside_the_print_area():

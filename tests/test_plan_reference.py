@@ -8,10 +8,12 @@ from __future__ import annotations
 
 import pytest
 
-from functions.quantities import DESIGN_INPUTS
+from functions.quantities import DESIGN_INPUTS, design_inputs, design_results
 from workbook_builder.plan import PlanOptions, make_plan
-from workbook_builder.plan.model import Cell, Plan, SheetPlan
+from workbook_builder.plan.model import Cell, Plan, SheetPlan, refreshed
 from workbook_builder.plan.reference import (CAUTIONS, RECORD_ROWS, cautions_sheet,
+                                             last_run_name, last_run_unit_name,
+                                             recorded_inputs, recorded_results,
                                              names_sheet, record_sheet)
 
 NUMERIC = tuple(q.name for q in DESIGN_INPUTS if q.kind != "choice" and q.name != "modal_mass")
@@ -68,7 +70,7 @@ def test_names_sheet_of_a_hand_made_plan():
 
 
 def test_record_rows_are_named_texts_from_the_record():
-    sheet = record_sheet().plan
+    sheet = record_sheet(PlanOptions(inputs=("frequency", "clearance"))).plan
     for row, (label, key, name) in enumerate(RECORD_ROWS, start=3):
         assert sheet.cells[f"A{row}"].content == label
         value = sheet.cells[f"B{row}"]
@@ -87,3 +89,26 @@ def test_cautions_are_numbered_in_order():
     for word in ("preliminary design aid", "licensed", "local codes", "wind-tunnel",
                  "manufacturer"):
         assert word in words
+
+
+@pytest.mark.parametrize("floors", [0, 3])
+def test_record_keeps_the_values_of_the_last_engine_run(floors):
+    """Every input with a row: its value as typed (an engine value recalc rewrites) and its unit
+    (a constant); every key result, and the floor table's modal mass; all through names (our
+    own rule: recalc reports the user's edits against these)."""
+    inputs = ("frequency", "structural_damping", "acceleration", "acceleration_limit",
+              "clearance") + (() if floors else ("modal_mass",))
+    options = PlanOptions(inputs=inputs, floors=floors)
+    cells = {c.name: c for c in record_sheet(options).plan.cells.values() if c.name}
+    for q in recorded_inputs(options):
+        value, unit = cells[last_run_name(q.cell_name)], cells[last_run_unit_name(q.cell_name)]
+        assert (value.kind, value.source) == ("engine", ("typed", q.name)) and refreshed(value)
+        assert (unit.kind, unit.source) == ("value", ("unit", q.name)) and not refreshed(unit)
+    assert [q.name for q in recorded_inputs(options)] == [
+        q.name for q in design_inputs() if q.name in inputs]
+    results = recorded_results(options)
+    assert ("modal_mass" in [q.name for q in results]) == bool(floors)
+    for q in results:
+        cell = cells[last_run_name(q.cell_name)]
+        assert cell.source == ("cell", q.cell_name) and refreshed(cell)
+    assert {q.cell_name for q in design_results() if q.summary} <= {q.cell_name for q in results}

@@ -21,6 +21,7 @@ from pathlib import Path
 import openpyxl
 import pytest
 
+from functions.quantities import quantity
 from workbook_builder import cli
 from workbook_builder.recalc import (BatchSummary, RecalcResult, collect_paths, read_inputs,
                                      recalc_many, recalc_workbook, write_results)
@@ -75,9 +76,9 @@ def test_bad_files_fail_alone(built, tmp_path):
     rows = list(csv.DictReader(open(batch.summary_csv, encoding="utf-8")))
     assert len(rows) == len(expected) + len(NAMES)
     for row in rows:
-        name = Path(row["workbook"]).name
+        name = Path(row["Workbook"]).name
         if name in expected:
-            assert row["status"] == "FAILED" and expected[name] in row["reason"]
+            assert row["Status"] == "FAILED" and expected[name] in row["Reason"]
     leftovers = [p for p in (tmp_path / "out").iterdir() if p.name.startswith(".")]
     assert leftovers == []
 
@@ -119,7 +120,13 @@ def test_interrupt_or_crash_leaves_originals_intact(built, tmp_path, sig, in_pla
     folder = tmp_path / "many"
     n = 40
     for i in range(n):
-        copy_to(built[NAMES[i % 3]], folder, f"w{i:02d}.xlsx")
+        src = built[NAMES[i % 3]]
+        # a clearance typed in each copy: in place, a workbook whose content would not change
+        # is left alone (no backup), so every copy needs an edit to be replaced
+        sheet, coord = cell_of(src, "clearance_entered")
+        value = openpyxl.load_workbook(src)[sheet][coord].value
+        folder.mkdir(exist_ok=True)
+        write_results(src, folder / f"w{i:02d}.xlsx", constants={(sheet, coord): value * 1.01})
     before = {p.name: sha256_of(p) for p in folder.iterdir()}
     out_dir = tmp_path / "out"
     args = [str(folder), "--jobs", jobs, "--no-progress"] + (
@@ -144,7 +151,7 @@ def test_interrupt_or_crash_leaves_originals_intact(built, tmp_path, sig, in_pla
             # a temporary file left by a hard kill (SIGKILL) is never a workbook's name
             assert sig == signal.SIGKILL and p.name.endswith(".tmp")
             continue
-        backups = list(folder.glob(p.name + ".*.bak"))
+        backups = list(folder.glob(p.name + ".bak"))
         if sha256_of(p) == before[p.name]:
             # untouched: no stray backup (a partial one would be a lie)
             assert not backups or sig == signal.SIGKILL, p.name
@@ -166,14 +173,14 @@ def test_interrupt_or_crash_leaves_originals_intact(built, tmp_path, sig, in_pla
         rows = list(csv.DictReader(open(summary, encoding="utf-8")))
         assert len(rows) == n
         for row in rows:
-            name = Path(row["workbook"]).name
-            done = row["status"] in ("OK", "NOT OK")
+            name = Path(row["Workbook"]).name
+            done = row["Status"] in ("OK", "NOT OK", "EDITED")
             if in_place:
-                assert done == (name in replaced), (name, row["status"], row["reason"])
+                assert done == (name in replaced), (name, row["Status"], row["Reason"])
             else:
-                assert done == (out_dir / name).is_file(), (name, row["status"])
+                assert done == (out_dir / name).is_file(), (name, row["Status"])
             if not done:
-                assert row["reason"] == "not recalculated (interrupted)", row
+                assert row["Reason"] == "not recalculated (interrupted)", row
 
 
 # ------------------------------------------------------ jobs, progress, folders
@@ -297,7 +304,7 @@ def test_the_users_own_file_named_like_the_summary_is_refused_before_any_work(bu
     assert mine.read_text() == "my own table\n"
     batch = recalc_many([folder], outdir=tmp_path / "out", summary=tmp_path / "budget",
                         progress=False, force=True)
-    assert batch.summary_csv.read_text().startswith("workbook,status")
+    assert batch.summary_csv.read_text().startswith("Workbook,Status")
 
 
 def test_an_earlier_summary_is_replaced(built, tmp_path):
@@ -364,15 +371,18 @@ def test_cli_exit_status_and_summary(built, tmp_path, capsys):
     out = capsys.readouterr().out
     assert "NOT OK: Stroke within the clearance" in out
     wb = openpyxl.load_workbook(tmp_path / "o2" / "recalc_summary.xlsx")
-    assert wb.sheetnames == ["Workbooks", "Changes", "Issues", "Cautions"]
+    assert wb.sheetnames == ["Workbooks", "Changes", "Issues", "Statuses", "Cautions"]
     head = [c.value for c in wb["Workbooks"][1]]
     row = [c.value for c in wb["Workbooks"][2]]
     verdict = dict(zip(head, row))
-    assert verdict["status"] == "NOT OK"
+    assert verdict["Status"] == "NOT OK"
     assert verdict["Stroke within the clearance"] == "NOT OK"
     assert verdict["Acceleration with damper within the limit"] == "OK"
     changes = [[c.value for c in r] for r in wb["Changes"].iter_rows(min_row=2)]
-    assert ["clearance", 1.524, 0.127] in [r[1:] for r in changes]
+    # the input as typed, in the unit shown beside it (60 in -> 5 in)
+    assert ["input", quantity("clearance").label, 60, 5, "in"] in [r[1:] for r in changes]
+    # US workbooks: the summary's values in US customary units (1 ft = 0.3048 m, exact)
+    assert verdict[f"{quantity('clearance').label} [ft]"] == pytest.approx(5 / 12, rel=1e-12)
 
 
 def test_swaytune_recalc_command(built, tmp_path, capsys):
@@ -386,14 +396,14 @@ def test_swaytune_recalc_command(built, tmp_path, capsys):
                        "--jobs", "1"])
     out = capsys.readouterr().out
     assert status == 0
-    assert "1 workbook(s): 1 OK" in out and "CAUTION - preliminary design aid" in out
+    assert "1 workbook(s): 1 OK" in out and "CAUTION: Preliminary design aid" in out
     assert "licensed" in out
     assert (tmp_path / "out" / "den_hartog.xlsx").is_file()
     assert (tmp_path / "out" / "recalc_summary.csv").is_file()
-    # neither -o nor --in-place: usage error 2, cautions still printed
+    # neither -o nor --in-place: usage error 2, no design shown so no cautions
     assert cli.main(["recalc", str(folder)]) == 2
     captured = capsys.readouterr()
-    assert "exactly one" in captured.err and "CAUTION" in captured.out
+    assert "exactly one" in captured.err and "CAUTION" not in captured.out
     # a failed workbook: exit status 1
     bad = tmp_path / "bad.xlsx"
     bad.write_bytes(b"not a zip")

@@ -31,7 +31,7 @@ def test_formula_edited_by_hand_is_reported_not_fixed(built, tmp_path):
     sheet, coord = cell_of(path, "tuning_ratio")
     set_cells(path, {(sheet, coord): "=1/(1+mass_ratio)*1.01"})
     res = recalc_workbook(path, outdir=tmp_path / "out")
-    assert res.status == "NOT OK"
+    assert res.status == "EDITED"
     edits = [i for i in res.issues if i.kind == "formula_edited"]
     assert [i.where for i in edits] == [f"{sheet}!{coord}"]
     assert edits[0].old == "=1/(1+mass_ratio)" and edits[0].new == "=1/(1+mass_ratio)*1.01"
@@ -50,8 +50,23 @@ def test_formula_replaced_by_value_is_reported(built, tmp_path):
     res = recalc_workbook(path, outdir=tmp_path / "out")
     kinds = {(i.kind, i.where) for i in res.issues}
     assert ("formula_replaced", f"{sheet}!{coord}") in kinds
-    assert res.status == "NOT OK"
+    assert res.status == "EDITED"
     assert cell_values(res.output)[(sheet, coord)] == 0.5      # the user's value is kept
+
+
+def test_summary_formula_showing_an_error_is_never_a_pass(built, tmp_path):
+    """A Summary formula edited by hand so that it shows #VALUE!: the status is EDITED (a hand
+    edit is never reported as a pass), the error cell and the edit are both named (our own
+    rule)."""
+    path = copy_to(built["den_hartog"], tmp_path)
+    sheet, coord = cell_of(path, "all_design_checks")
+    set_cells(path, {(sheet, coord): '=1+"x"'})
+    res = recalc_workbook(path, outdir=tmp_path / "out")
+    assert res.status == "EDITED", [str(i) for i in res.issues]
+    where = f"{sheet}!{coord}"
+    assert ("error_value", where) in {(i.kind, i.where) for i in res.issues}
+    assert ("formula_edited", where) in {(i.kind, i.where) for i in res.hand_edits}
+    assert not res.changes                          # no input changed, no result changed
 
 
 def test_equivalent_formula_text_is_not_an_edit(built, tmp_path):

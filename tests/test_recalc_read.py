@@ -25,27 +25,34 @@ from workbook_cases import NAMES, example_project
 
 
 # ----------------------------------------------------- reading, inputs as typed
-def test_read_inputs_si_and_units(built):
-    # residential_tower.toml: 24,000 t, 1.2 %, 21 and 13 milli-g (g_n = 9.80665, 3rd CGPM 1901).
+def test_read_inputs_as_the_project_file_writes_them(built):
+    # residential_tower.toml: 24,000 t, 1.2 %, 21 and 13 milli-g (the project file's own
+    # values: read back as typed, with their units)
     kw = read_inputs(built["residential_tower"])
-    assert kw["modal_mass"] == pytest.approx(24000 * 1000.0, rel=1e-15)
-    assert kw["structural_damping"] == pytest.approx(0.012, rel=1e-15)
-    assert kw["acceleration"] == pytest.approx(21 * 9.80665 / 1000, rel=1e-15)
-    assert kw["acceleration_limit"] == pytest.approx(13 * 9.80665 / 1000, rel=1e-15)
+    assert kw["modal_mass"] == {"value": 24000.0, "unit": "t"}
+    assert kw["structural_damping"] == {"value": 1.2, "unit": "%"}
+    assert kw["acceleration"] == {"value": 21.0, "unit": "milli-g"}
+    assert kw["acceleration_limit"] == {"value": 13.0, "unit": "milli-g"}
     assert kw["tuning_method"] == "h2"
-    assert kw["mass_ratio"] is None and kw["damper_mass"] is None
+    assert "mass_ratio" not in kw and "damper_mass" not in kw      # sized by the engine
     data = read_workbook(built["residential_tower"])
     assert data.typed["modal_mass"] == (24000.0, "t")
-    assert data.typed["acceleration"] == (21.0, "milli-g")
+    # the engine's SI values: 1 t = 1000 kg (SI Brochure); g_n = 9.80665 m/s^2 (3rd CGPM 1901)
+    si = data.design_kwargs
+    assert si["modal_mass"] == pytest.approx(24000 * 1000.0, rel=1e-15)
+    assert si["acceleration"] == pytest.approx(21 * 9.80665 / 1000, rel=1e-15)
 
 
 def test_read_inputs_us_units(built):
     # office_tower_us.toml: 70,000 kip (1 kip = 453.59237 kg, exact; NIST SP 811 App. B),
     # 60 in clearance (0.0254 m exact).
     kw = read_inputs(built["office_tower_us"])
-    assert kw["modal_mass"] == pytest.approx(70000 * 453.59237, rel=1e-15)
-    assert kw["clearance"] == pytest.approx(60 * 0.0254, rel=1e-15)
-    assert kw["mass_ratio"] == pytest.approx(0.02, rel=1e-15)
+    assert kw["modal_mass"] == {"value": 70000.0, "unit": "kip"}
+    assert kw["clearance"] == {"value": 60.0, "unit": "in"}
+    si = read_workbook(built["office_tower_us"]).design_kwargs
+    assert si["modal_mass"] == pytest.approx(70000 * 453.59237, rel=1e-15)
+    assert si["clearance"] == pytest.approx(60 * 0.0254, rel=1e-15)
+    assert si["mass_ratio"] == pytest.approx(0.02, rel=1e-15)
 
 
 def test_read_inputs_matches_project(built):
@@ -61,28 +68,17 @@ def test_read_inputs_matches_project(built):
         assert (data.project.floors is None) == (project.floors is None)
 
 
-def test_unit_choice_typed_by_the_user(built, tmp_path):
-    """The engineer changes the modal mass from 24,000 t to 24,000,000 kg: same design."""
+@pytest.mark.parametrize("unit", ["kg", "tons"])
+def test_a_changed_unit_is_refused_naming_the_cell(built, tmp_path, unit):
+    """Units are set when the workbook is built (their cells are locked): a unit changed anyway
+    is refused with the cell, the old and the new unit, and what to do (our own rule)."""
     path = copy_to(built["residential_tower"], tmp_path)
-    set_cells(path, {cell_of(path, "modal_mass_entered"): 24_000_000,
-                      cell_of(path, "modal_mass_unit"): "kg",
-                      cell_of(path, "modal_mass_factor"): 1.0})
-    data = read_workbook(path)
-    assert data.typed["modal_mass"] == (24_000_000.0, "kg")
+    sheet, coord = cell_of(path, "modal_mass_unit")
+    set_cells(path, {cell_of(path, "modal_mass_entered"): 24_000_000, (sheet, coord): unit})
     res = recalc_workbook(path, outdir=tmp_path / "out")
-    assert res.status == "OK", res.error or [str(i) for i in res.issues]
-    ref = recalc_workbook(built["residential_tower"])
-    for key in ("mass_ratio", "stroke", "pendulum_length", "damper_mass"):
-        assert res.results[key] == pytest.approx(ref.results[key], rel=1e-12)
-    assert not [i for i in res.issues if i.kind.startswith("formula")]
-
-
-def test_unknown_unit_fails(built, tmp_path):
-    path = copy_to(built["residential_tower"], tmp_path)
-    set_cells(path, {cell_of(path, "modal_mass_unit"): "tons"})
-    res = recalc_workbook(path, outdir=tmp_path / "out")
-    assert res.status == "FAILED"
-    assert "'tons' is not a mass unit" in res.error
+    assert res.status == "FAILED" and not (tmp_path / "out").exists()
+    assert f"({sheet}!{coord}) was changed from 't' to '{unit}'" in res.error
+    assert "type the value in t" in res.error
 
 
 def test_input_outside_valid_range_fails(built, tmp_path):

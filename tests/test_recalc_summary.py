@@ -23,15 +23,22 @@ from functions.quantities import design_inputs, design_results
 from workbook_builder.plan.reference import CAUTIONS
 from workbook_builder.recalc import BatchSummary, Issue, RecalcResult, print_report, write_summary
 from workbook_builder.recalc.summary import csv_safe, summary_row
-from workbook_builder.recalc.workbook import SHORT_LABELS
+from workbook_builder.recalc.workbook import SHORT_LABELS, STATUSES, Change
 
-FIXED = ["workbook", "status", "reason", "output"]
-TAIL = ["changes", "issues", "seconds"]
+FIXED = ["Workbook", "Status", "Reason", "Output"]
+TAIL = ["Inputs changed", "Results changed", "Hand edits", "Other notes", "Backup", "Seconds"]
+#: 1 ft = 0.3048 m, 1 lb = 0.45359237 kg (exact; NIST SP 811 (2008) App. B); g_n = 9.80665
+#: m/s^2 (3rd CGPM 1901); the summary of a US batch shows kip, ft and milli-g.
+FOOT, KIP, MILLI_G = 0.3048, 453.59237, 9.80665e-3
+KIPF_PER_FT = 1000 * 0.45359237 * 9.80665 / 0.3048          # kip (force) per foot, in N/m
+US = {"kg": ("kip", KIP), "m": ("ft", FOOT), "m/s^2": ("milli-g", MILLI_G),
+      "N/m": ("kip/ft", KIPF_PER_FT), "N s/m": ("kip s/ft", KIPF_PER_FT)}
 
 
-def _header(q) -> str:
-    """The column of a quantity: its name, then its SI unit in brackets (none for a choice)."""
-    return f"{q.name} [{q.unit}]" if q.unit else q.name
+def _header(q, us: bool = False) -> str:
+    """The column of a quantity: its label, then its unit in brackets (none for a choice)."""
+    unit = US.get(q.unit, (q.unit,))[0] if us else q.unit
+    return f"{q.label} [{unit}]" if unit else q.label
 
 
 def _result(**kw) -> RecalcResult:
@@ -67,7 +74,7 @@ def test_csv_safe_leaves_other_values(value):
 def test_columns_come_from_the_quantity_declarations():
     row = summary_row(_result())
     heads = list(row)
-    assert heads[:4] == FIXED and heads[-3:] == TAIL
+    assert heads[:4] == FIXED and heads[-len(TAIL):] == TAIL
     wanted = ([_header(q) for q in design_inputs() if q.summary]
               + [_header(q) for q in design_results() if q.summary])
     assert heads[4:4 + len(wanted)] == wanted               # in declaration order
@@ -79,31 +86,38 @@ def test_columns_come_from_the_quantity_declarations():
             assert _header(q) not in row and q.name not in row, q.name
 
 
-def test_columns_hold_the_inputs_and_results_of_the_workbook():
+@pytest.mark.parametrize("us", [False, True])
+def test_columns_hold_the_inputs_and_results_of_the_workbook(us):
+    """SI workbooks: SI values; a batch of US workbooks: kip, ft and milli-g (factors exact)."""
     r = _result()
-    row = summary_row(r)
+    row = summary_row(r, us)
+    factor = {k: f for k, (_, f) in US.items()} if us else {}
     for q in design_inputs():
-        if q.summary:
-            assert row[_header(q)] == r.inputs[q.name], q.name          # SI, by glossary name
+        if q.summary and q.kind != "choice":
+            want = r.inputs[q.name] / factor.get(q.unit, 1.0)
+            assert row[_header(q, us)] == pytest.approx(want, rel=1e-15), q.name
     for q in design_results():
         if q.summary:
-            assert row[_header(q)] == r.results[q.cell_name], q.name    # by defined name
+            want = r.results[q.cell_name] / factor.get(q.unit, 1.0)
+            assert row[_header(q, us)] == pytest.approx(want, rel=1e-15), q.name
 
 
 def test_a_quantity_marked_for_the_summary_gets_its_column(monkeypatch, tmp_path):
-    assert "tuning_ratio [-]" not in summary_row(_result())
+    tuning = f"{quantities.quantity('tuning_ratio').label} [-]"
+    stroke = f"{quantities.quantity('stroke').label} [m]"
+    assert tuning not in summary_row(_result())
     marked = tuple(dataclasses.replace(q, summary=q.name == "tuning_ratio" or
                                        (q.summary and q.name != "stroke"))
                    for q in quantities.DESIGN_RESULTS)
     monkeypatch.setattr(quantities, "DESIGN_RESULTS", marked)
     r = _result()
     row = summary_row(r)
-    assert row["tuning_ratio [-]"] == r.results["tuning_ratio"]
-    assert "stroke [m]" not in row                       # the flag taken off: no column
+    assert row[tuning] == r.results["tuning_ratio"]
+    assert stroke not in row                              # the flag taken off: no column
     _, csv_path = write_summary(BatchSummary([r]), tmp_path / "s")
     with open(csv_path, encoding="utf-8") as fh:
         header = next(csv.reader(fh))
-    assert "tuning_ratio [-]" in header and "stroke [m]" not in header
+    assert tuning in header and stroke not in header
 
 
 def test_verdict_columns():
@@ -118,16 +132,17 @@ def test_verdict_columns():
     assert row[SHORT_LABELS["fixed_point_converged"]] == ""      # not among the verdicts
     assert row["Engine values current"] == "NOT OK"              # one flag NOT OK
     failed = summary_row(RecalcResult(Path("x.xlsx"), error="empty file"))
-    assert failed["status"] == "FAILED" and failed["reason"] == "empty file"
+    assert failed["Status"] == "FAILED" and failed["Reason"] == "empty file"
     assert failed["Engine values current"] == "" and failed[labels[0]] == ""
     assert list(failed) == list(row)                             # the same columns
 
 
 # ----------------------------------------------------------------------------- files
 def _batch() -> BatchSummary:
-    ok = _result(changes=[("structure_frequency", 0.2, 0.25)])
+    ok = _result(changes=[Change("input", "frequency", "Frequency of the mode", 0.2, 0.25,
+                                 "Hz")])
     edited = _result(path=Path("in/=edited.xlsx"), output=Path("out/=edited.xlsx"),
-                     changes=[("stroke", None, math.inf)],
+                     changes=[Change("result", "stroke", "=Stroke", None, math.inf, "m")],
                      issues=[Issue("formula_edited", "Calculation!D16", "=HYPERLINK(1) typed",
                                    "=1/(1+mass_ratio)", "=2")])
     failed = RecalcResult(Path("in/bad.xlsx"), error="=cmd|' /C calc'!A0")
@@ -141,19 +156,25 @@ def test_summary_workbook_sheets_and_csv(tmp_path):
     with open(csv_path, encoding="utf-8", newline="") as fh:
         rows = list(csv.reader(fh))
     wb = openpyxl.load_workbook(xlsx)
-    assert wb.sheetnames == ["Workbooks", "Changes", "Issues", "Cautions"]
+    assert wb.sheetnames == ["Workbooks", "Changes", "Issues", "Statuses", "Cautions"]
     sheet = [[c.value for c in r] for r in wb["Workbooks"].iter_rows()]
     assert sheet[0] == rows[0] == list(summary_row(batch.results[0]))
-    assert [r[1] for r in sheet[1:]] == ["OK", "OK", "FAILED"]
+    assert [r[1] for r in sheet[1:]] == ["OK", "EDITED", "FAILED"]
+    # readable on paper and on screen: landscape, header frozen and filtered
+    ws = wb["Workbooks"]
+    assert ws.page_setup.orientation == "landscape" and ws.freeze_panes == "B2"
+    assert ws.auto_filter.ref == ws.dimensions
+    assert [[c.value for c in r] for r in wb["Statuses"].iter_rows(min_row=2)] == [
+        [k, v] for k, v in STATUSES.items()]
     # every text stays text: in the workbook as a string cell, in the CSV behind an apostrophe
-    reason = sheet[0].index("reason")
+    reason = sheet[0].index("Reason")
     cell = wb["Workbooks"].cell(4, reason + 1)
     assert cell.value == "=cmd|' /C calc'!A0" and cell.data_type == "s"
     assert rows[3][reason] == "'=cmd|' /C calc'!A0"
     assert all(c.data_type != "f" for ws in wb for r in ws.iter_rows() for c in r)
     changes = [[c.value for c in r] for r in wb["Changes"].iter_rows(min_row=2)]
-    assert changes == [["in/tower.xlsx", "structure_frequency", 0.2, 0.25],
-                       ["in/=edited.xlsx", "stroke", "(none)", "inf"]]    # inf as text
+    assert changes == [["in/tower.xlsx", "input", "Frequency of the mode", 0.2, 0.25, "Hz"],
+                       ["in/=edited.xlsx", "result", "=Stroke", "(none)", "inf", "m"]]
     issues = [[c.value for c in r] for r in wb["Issues"].iter_rows(min_row=2)]
     assert issues == [["in/=edited.xlsx", "formula_edited", "Calculation!D16",
                        "=HYPERLINK(1) typed", "=1/(1+mass_ratio)", "=2"],
@@ -169,28 +190,39 @@ def test_summary_of_an_empty_batch_has_the_columns(tmp_path):
 
 
 # ----------------------------------------------------------------------------- report
-def test_report_of_ok_not_ok_and_failed_workbooks():
+def test_report_of_ok_not_ok_edited_and_failed_workbooks():
     labels = [rule.label for rule in CHECK_RULES]
-    ok = _result(changes=[("structure_frequency", 0.2, 0.25)])
+    ok = _result(changes=[Change("input", "frequency", "Frequency of the mode", 0.2, 0.25,
+                                 "Hz"),
+                          Change("result", "damper_mass", "Damper mass", 480000.0, 512000.0,
+                                 "kg")])
     not_ok = _result(path=Path("in/b.xlsx"), output=Path("out/b.xlsx"),
                      checks=[(labels[1], "NOT OK"), (labels[2], "NOT OK"), (labels[0], "OK")],
-                     issues=[Issue("formula_edited", "Calculation!D16", "formula edited")],
-                     changes=[(f"n{i}", float(i), None) for i in range(8)])
+                     changes=[Change("input", f"n{i}", f"Input {i}", float(i), None, "m")
+                              for i in range(8)])
+    edited = _result(path=Path("in/e.xlsx"), output=Path("out/e.xlsx"),
+                     issues=[Issue("formula_edited", "Calculation!D16", "formula edited"),
+                             Issue("note", "Other", "a note")])
     failed = RecalcResult(Path("in/c.xlsx"), error="empty file")
-    batch = BatchSummary([ok, not_ok, failed], seconds=2.0)
+    batch = BatchSummary([ok, not_ok, edited, failed], seconds=2.0)
     out = io.StringIO()
     print_report(batch, out)
     lines = out.getvalue().splitlines()
-    assert lines[:6] == [
+    assert lines == [
         "OK      in/tower.xlsx -> out/tower.xlsx",
-        "        changed: structure_frequency 0.2 -> 0.25",
+        "        inputs changed: Frequency of the mode: 0.2 -> 0.25 Hz",
+        "        results changed: Damper mass: 480000 -> 512000 kg",
         "NOT OK  in/b.xlsx -> out/b.xlsx",
+        "        inputs changed: Input 0: 0 -> (none) m; Input 1: 1 -> (none) m; Input 2: 2 -> "
+        "(none) m; Input 3: 3 -> (none) m; Input 4: 4 -> (none) m; Input 5: 5 -> (none) m "
+        "(+2 more)",
         f"        NOT OK: {labels[1]}; {labels[2]}",
-        "        formula_edited: Calculation!D16: formula edited",
-        "        changed: n0 0 -> (none), n1 1 -> (none), n2 2 -> (none), n3 3 -> (none), "
-        "n4 4 -> (none), n5 5 -> (none) (+2 more)"]
-    assert lines[6] == "FAILED  in/c.xlsx: empty file"
-    assert lines[7:] == ["", "3 workbook(s): 1 OK, 1 NOT OK, 1 failed (2.0 s)"]
+        "EDITED  in/e.xlsx -> out/e.xlsx",
+        "        hand edits: Calculation!D16: formula edited",
+        "        note: Other: a note",
+        "FAILED  in/c.xlsx: empty file",
+        "",
+        "4 workbook(s): 1 OK, 1 NOT OK, 1 EDITED, 1 FAILED (2.0 s)"]
 
 
 def test_report_names_the_summary_files():
@@ -199,5 +231,5 @@ def test_report_names_the_summary_files():
     out = io.StringIO()
     print_report(batch, out)
     text = out.getvalue()
-    assert "1 workbook(s): 1 OK, 0 NOT OK, 0 failed" in text
+    assert "1 workbook(s): 1 OK, 0 NOT OK, 0 EDITED, 0 FAILED" in text
     assert text.endswith("summary: o/recalc_summary.xlsx and o/recalc_summary.csv\n")

@@ -51,14 +51,10 @@ def engine_flags(options: PlanOptions) -> list[tuple[str, str]]:
     return flags
 
 
-#: When an engine value was computed, and how to refresh it, by group: batch recalculation
-#: recomputes the design chain but does not rerun the time-domain simulation.
-_SNAPSHOT_NOTE = {"design": "value when built or last recalculated by swaytune",
-                  "simulation": "value at build time"}
-_REFRESH_NOTE = {"design": "run swaytune recalc (or rebuild the workbook) to refresh the engine "
-                           "value",
-                 "simulation": "rebuild the workbook to refresh the engine value (swaytune "
-                               "recalc does not rerun the simulation)"}
+#: When an engine value was computed, and how to refresh it (batch recalculation recomputes the
+#: design chain and reruns the time-domain simulation).
+_SNAPSHOT_NOTE = "value when built or last recalculated by swaytune"
+_REFRESH_NOTE = "run swaytune recalc (or rebuild the workbook) to refresh the engine value"
 
 
 def engine_flag(sh: SheetLayout, row: int, flag: str, depends_on: tuple[str, ...],
@@ -66,8 +62,8 @@ def engine_flag(sh: SheetLayout, row: int, flag: str, depends_on: tuple[str, ...
                 note_to: int | None = None) -> int:
     """Snapshot rows and the flag of one group of engine values; return the next row.
 
-    ``group`` is ``design`` (recomputed by batch recalculation) or ``simulation`` (not
-    rerun). The flag reads "current" while every input equals its snapshot (relative 1e-12).
+    ``group`` is ``design`` or ``simulation`` (both recomputed by batch recalculation). The
+    flag reads "current" while every input equals its snapshot (relative 1e-12).
     """
     conds = []
     for dep in depends_on:
@@ -75,7 +71,7 @@ def engine_flag(sh: SheetLayout, row: int, flag: str, depends_on: tuple[str, ...
         name = snapshot_name(flag, dep)
         sh.engine(row, value_col, ("snapshot", group, dep), fmt="General", style="box top",
                   name=name, label=f"Snapshot of {dep} for the {flag}")
-        sh.label(row, note_col, _SNAPSHOT_NOTE[group], Looks.WRAP)
+        sh.label(row, note_col, _SNAPSHOT_NOTE, Looks.WRAP)
         if note_to:
             sh.merge(row, note_col, row, note_to)
         conds.append(f"ABS({dep}-{name})<=1E-12*ABS({name})")
@@ -85,7 +81,7 @@ def engine_flag(sh: SheetLayout, row: int, flag: str, depends_on: tuple[str, ...
     sh.check(row, value_col, f'=IF(AND({",".join(conds)}),"current","INPUTS CHANGED: '
                              'rebuild")', name=flag, style="bold box top",
              label=f"Flag: engine value current? ({flag})")
-    sh.label(row, note_col, _REFRESH_NOTE[group], Looks.WRAP)
+    sh.label(row, note_col, _REFRESH_NOTE, Looks.WRAP)
     if note_to:
         sh.merge(row, note_col, row, note_to)
     return row + 1

@@ -35,14 +35,18 @@ from .options import PlanOptions
 from .sheet import Looks, SheetLayout, ref
 
 __all__ = ["ChartTable", "TableSpec", "chart_tables", "charts_sheet",
-           "RULE_OF_THUMB_DEG", "MAX_TIME_POINTS", "time_history_table", "swing_window_table",
+           "RULE_OF_THUMB_DEG", "MAX_TIME_POINTS", "WINDOW_ROWS", "time_history_table", "swing_window_table",
            "write_table", "range_name", "CHART_ROWS", "BLUE", "ORANGE", "GREY", "RED", "GREEN"]
 
 #: Swing amplitude up to which the small-angle period is taken as good enough
 #: (common practice, no source; the period error there is about 0.43 %).
 RULE_OF_THUMB_DEG = 15.0
-#: Largest number of points of a time-history chart (the record is subsampled to it) [-].
-MAX_TIME_POINTS = 3000
+#: Rows of the time-history table: a longer record is thinned to exactly this many samples,
+#: so that the layout does not change when recalculation reruns the simulation [-].
+MAX_TIME_POINTS = 2000
+#: Rows of the swing-window table around the peak swing: ten periods at the simulation's
+#: default 32 samples per period of its fastest frequency (about ten damper periods) [-].
+WINDOW_ROWS = 321
 #: Rows of 15 pt (0.53 cm) one chart covers, with a gap.
 CHART_ROWS = 19
 
@@ -254,12 +258,13 @@ WINDOW_SPEC = TableSpec("swing_window", "Around the peak swing (10 damper period
 
 
 def time_history_table(simulation: Any, max_points: int = MAX_TIME_POINTS) -> ChartTable:
-    """Time histories of a simulation, subsampled to at most ``max_points`` rows.
+    """Time histories of a simulation, thinned to exactly ``max_points`` rows (or every sample).
 
-    Every k-th sample (k the smallest stride that gives at most ``max_points`` rows; the
-    output step resolves each period with at least 8 samples, so k = 2 or 3 still draws the
-    oscillation), 6 significant digits: time, building acceleration without and with the
-    damper (exact pendulum), hanger angle exact and linearised.
+    Samples evenly spread over the record (indices rounded from a linear spacing, first and
+    last included; the output step resolves each period with at least 8 samples, so a stride
+    below 3 still draws the oscillation), 6 significant digits: time, building acceleration
+    without and with the damper (exact pendulum), hanger angle exact and linearised. The table
+    has the same size for any inputs whose record holds at least ``max_points`` samples.
 
     Raises
     ------
@@ -269,7 +274,7 @@ def time_history_table(simulation: Any, max_points: int = MAX_TIME_POINTS) -> Ch
     if max_points < 2:
         raise ValueError(f"max_points={max_points!r} must be >= 2")
     n = int(simulation.time.size)
-    pick = slice(0, n, max(1, math.ceil(n / max_points)))
+    pick = np.round(np.linspace(0, n - 1, min(n, max_points))).astype(int)
     nl, lin, bare = simulation.nonlinear, simulation.linear, simulation.without_damper
     columns = (_significant(simulation.time[pick]), _significant(bare.acceleration[pick]),
                _significant(nl.acceleration[pick]), _significant(nl.angle_deg[pick]),
@@ -278,25 +283,26 @@ def time_history_table(simulation: Any, max_points: int = MAX_TIME_POINTS) -> Ch
     return ChartTable(replace(TIME_SPEC, rows=len(rows)), rows)
 
 
-def swing_window_table(simulation: Any, periods: float = 10.0) -> ChartTable:
-    """Hanger angle, exact and linearised, over ``periods`` damper periods around the peak.
+def swing_window_table(simulation: Any, rows: int = WINDOW_ROWS) -> ChartTable:
+    """Hanger angle, exact and linearised, over ``rows`` consecutive samples around the peak.
 
     Every output sample of the window, 6 significant digits; the window is centred on the
-    largest |angle| of the exact model and kept inside the record.
+    largest |angle| of the exact model and kept inside the record (the whole record when it is
+    shorter), so the table has the same size for any inputs.
 
     Raises
     ------
     ValueError
-        If ``periods`` is not positive or a value is not finite.
+        If ``rows`` < 2 or a value is not finite.
     """
-    if not periods > 0:
-        raise ValueError(f"periods={periods!r} must be > 0")
+    if not rows >= 2:
+        raise ValueError(f"rows={rows!r} must be >= 2")
     t, angle = simulation.time, simulation.nonlinear.angle_deg
     n = int(t.size)
-    half = max(1, int(round(0.5 * periods / simulation.damper_frequency / simulation.time_step)))
+    size = min(n, int(rows))
     centre = int(np.argmax(np.abs(angle)))
-    lo = max(0, min(centre - half, n - 1 - 2 * half))
-    pick = slice(lo, min(n, lo + 2 * half + 1))
-    rows = tuple(zip(_significant(t[pick]), _significant(angle[pick]),
-                     _significant(simulation.linear.angle_deg[pick])))
-    return ChartTable(replace(WINDOW_SPEC, rows=len(rows)), rows)
+    lo = max(0, min(centre - size // 2, n - size))
+    pick = slice(lo, lo + size)
+    out = tuple(zip(_significant(t[pick]), _significant(angle[pick]),
+                    _significant(simulation.linear.angle_deg[pick])))
+    return ChartTable(replace(WINDOW_SPEC, rows=len(out)), out)

@@ -44,7 +44,8 @@ def make_plan(options: PlanOptions) -> Plan:
                pendulum_sheet(), checks_sheet(options), charts_sheet(options)]
     if options.simulation is not None:
         layouts.append(nonlinear_sheet(options))
-    plan.sheets = [sh.plan for sh in layouts] + [cautions_sheet().plan, record_sheet().plan]
+    plan.sheets = [sh.plan for sh in layouts] + [cautions_sheet().plan,
+                                                 record_sheet(options).plan]
     plan.sheets.insert(len(layouts), names_sheet(plan).plan)      # lists every other name
     counts = Counter([c.name for _, c in plan.cells() if c.name] + list(plan.range_names()))
     duplicates = sorted(n for n, k in counts.items() if k > 1)

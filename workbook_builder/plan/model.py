@@ -33,16 +33,14 @@ __all__ = ["CELL_KINDS", "REFRESHED_SOURCES", "refreshed", "Cell", "Validation",
 CELL_KINDS = ("label", "text", "input", "value", "formula", "check", "engine")
 
 #: Sources of engine values that batch recalculation recomputes: cells of the design chain,
-#: snapshots of the inputs they were computed for, chart tables. (The time-domain simulation's
-#: values and the snapshots beside them are not rerun.)
-REFRESHED_SOURCES = ("cell", "snapshot", "chart")
+#: snapshots of the inputs they were computed for, chart tables, the inputs as typed at the
+#: last engine run (Record sheet) and the time-domain simulation's values and tables.
+REFRESHED_SOURCES = ("cell", "snapshot", "chart", "typed", "sim", "sim_response", "sim_table")
 
 
 def refreshed(cell: "Cell") -> bool:
     """True for an engine value batch recalculation recomputes (see REFRESHED_SOURCES)."""
-    source = cell.source
-    return (cell.kind == "engine" and bool(source) and source[0] in REFRESHED_SOURCES
-            and not (source[0] == "snapshot" and source[1] != "design"))
+    return cell.kind == "engine" and bool(cell.source) and cell.source[0] in REFRESHED_SOURCES
 
 
 @dataclass(frozen=True)

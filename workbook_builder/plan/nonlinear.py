@@ -89,10 +89,10 @@ def nonlinear_sheet(options: PlanOptions) -> SheetLayout:
     sh = SheetLayout("Nonlinear")
     sh.label(1, 1, "Nonlinear check: the pendulum damper simulated in time", Looks.TITLE)
     sh.label(2, 1, "Green cells are ENGINE VALUES (functions.simulation.simulate) computed when "
-                   "the workbook was built: a time-domain integration of the exact pendulum "
-                   "equation has no worksheet formula. The flag at the end of table 1 says "
-                   "whether the inputs have changed since; rebuild the workbook to refresh "
-                   "them.", Looks.WRAP)
+                   "the workbook was built or last recalculated by swaytune: a time-domain "
+                   "integration of the exact pendulum equation has no worksheet formula. The "
+                   "flag at the end of table 1 says whether the inputs have changed since; "
+                   "swaytune recalc reruns the simulation.", Looks.WRAP)
     sh.merge(2, 1, 2, 6)
     sh.label(3, 1, "Preliminary design aid: the model is one building mode with a rigid hanger "
                    "and a linear dashpot; check it against the manufacturer's design.",

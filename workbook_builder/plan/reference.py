@@ -3,15 +3,21 @@
 
 The Names sheet lists every defined name of the plan with the cell it refers to, what it holds,
 its unit and its value; the Cautions sheet the cautions every output carries; the Record sheet
-the program, the source file and how to rebuild the workbook.
+the program, the source file and how to rebuild the workbook, and the values of the last engine
+run: every input as typed with its unit and the key results, which recalculation compares the
+workbook with to report the user's edits (:func:`last_run_name`).
 """
 from __future__ import annotations
 
+from functions.quantities import design_inputs, design_results
+
 from .calculation import unit_format
 from .model import Plan
+from .options import PlanOptions
 from .sheet import Looks, SheetLayout
 
-__all__ = ["CAUTIONS", "names_sheet", "cautions_sheet", "record_sheet", "RECORD_ROWS"]
+__all__ = ["CAUTIONS", "names_sheet", "cautions_sheet", "record_sheet", "RECORD_ROWS",
+           "last_run_name", "last_run_unit_name", "recorded_inputs", "recorded_results"]
 
 #: Cautions printed in every workbook and by the command line.
 CAUTIONS = (
@@ -87,12 +93,57 @@ def cautions_sheet() -> SheetLayout:
     return sh
 
 
-def record_sheet() -> SheetLayout:
+def last_run_name(cell_name: str) -> str:
+    """Defined name of a value at the last engine run (an input as typed, or a result in SI)."""
+    return f"{cell_name}_last_run"
+
+
+def last_run_unit_name(cell_name: str) -> str:
+    """Defined name of the unit an input was typed in at the last engine run."""
+    return f"{cell_name}_unit_last_run"
+
+
+def recorded_inputs(options: PlanOptions) -> list:
+    """The input quantities whose typed value the Record sheet keeps (one per input row)."""
+    return [q for q in design_inputs() if q.kind != "choice" and q.name in options.inputs]
+
+
+def recorded_results(options: PlanOptions) -> list:
+    """The result quantities whose engine value the Record sheet keeps: the key results, and
+    the modal mass when a floor table gives it (an edited floor shows as its change)."""
+    out = [q for q in design_results() if q.summary]
+    if options.floors:
+        out.insert(0, next(q for q in design_inputs() if q.name == "modal_mass"))
+    return out
+
+
+def record_sheet(options: PlanOptions) -> SheetLayout:
     sh = SheetLayout("Record")
     sh.label(1, 1, "Record", Looks.TITLE)
     for i, (label, key, name) in enumerate(RECORD_ROWS, start=3):
         sh.label(i, 1, label, "bold box")
         sh.text(i, 2, ("record", key), "box wrap", name=name)
-    sh.widths([28, 80])
+    row = len(RECORD_ROWS) + 4
+    sh.section(row, "Values at the last engine run (build or swaytune recalc)", 3)
+    sh.label(row + 1, 1, "swaytune recalc compares the inputs with these values to report what "
+                         "was edited since, and rewrites them; they are not inputs.", Looks.WRAP)
+    sh.merge(row + 1, 1, row + 1, 3)
+    sh.header(row + 2, ["Quantity", "Value", "Unit"])
+    row += 3
+    for q in recorded_inputs(options):
+        sh.label(row, 1, f"{q.label} (input, as typed)", "box wrap")
+        sh.engine(row, 2, ("typed", q.name), fmt="General", name=last_run_name(q.cell_name),
+                  label=f"{q.label} as typed at the last engine run")
+        sh.value(row, 3, source=("unit", q.name), style="box",
+                 name=last_run_unit_name(q.cell_name),
+                 label=f"Unit of {q.label.lower()} at the last engine run")
+        row += 1
+    for q in recorded_results(options):
+        sh.label(row, 1, f"{q.label} (result)", "box wrap")
+        sh.engine(row, 2, ("cell", q.cell_name), fmt="General", name=last_run_name(q.cell_name),
+                  unit=q.unit, label=f"{q.label} at the last engine run")
+        sh.label(row, 3, q.unit, "box")
+        row += 1
+    sh.widths([40, 72, 10])
     sh.page()
     return sh

@@ -13,7 +13,10 @@ from openpyxl.utils import get_column_letter
 
 from .model import Cell, SheetPlan, Validation
 
-__all__ = ["SheetLayout", "ref", "Looks"]
+__all__ = ["SheetLayout", "ref", "Looks", "SIMULATION_SOURCES"]
+
+#: Sources of the time-domain simulation's single values (named after their source).
+SIMULATION_SOURCES = ("sim", "sim_response")
 
 
 def ref(row: int, col: int) -> str:
@@ -55,7 +58,14 @@ class SheetLayout:
     def cell(self, row: int, col: int, kind: str, content: Any = None, *, source: tuple = (),
              name: str = "", fmt: str = "", style: str = "", unit: str = "",
              label: str = "") -> Cell:
-        """Record one cell (replacing what was planned there)."""
+        """Record one cell (replacing what was planned there).
+
+        A simulation value without a name of its own is named after its source
+        (``engine_sim_load``, ``engine_sim_response_linear_swing_deg``): recalculation writes
+        engine values only through defined names.
+        """
+        if kind == "engine" and not name and source and source[0] in SIMULATION_SOURCES:
+            name = "_".join(["engine"] + [str(part) for part in source])
         c = Cell(ref(row, col), kind, content, source, name, fmt, style, unit, label)
         self.plan.cells[c.ref] = c
         return c

@@ -110,7 +110,7 @@ def source_value(source: tuple, s: Sources) -> Any:
     """
     kind, *rest = source
     p = s.project
-    if kind == "input":
+    if kind in ("input", "typed"):
         return p.inputs[rest[0]].value
     if kind == "unit":
         return p.inputs[rest[0]].unit.symbol

@@ -12,6 +12,7 @@ from __future__ import annotations
 import concurrent.futures as cf
 import ctypes
 import ctypes.util
+import math
 import multiprocessing as mp
 import os
 import signal
@@ -19,13 +20,14 @@ import sys
 import time
 from dataclasses import dataclass
 from pathlib import Path
-from typing import Iterable
+from typing import Any, Iterable, Mapping
 
 from ..progress import Progress
 from .summary import SUMMARY_STEM, guard_summary, summary_row, write_summary
+from .inputs import parse_overrides
 from .workbook import RecalcResult, _same_file, recalc_workbook
 
-__all__ = ["BatchSummary", "collect_paths", "recalc_many"]
+__all__ = ["BatchSummary", "collect_paths", "recalc_many", "summary_base"]
 
 
 @dataclass
@@ -44,18 +46,28 @@ class BatchSummary:
 
     @property
     def not_ok(self) -> list[RecalcResult]:
-        return [r for r in self.results if not r.failed and not r.checks_ok]
+        return [r for r in self.results if r.status == "NOT OK"]
+
+    @property
+    def edited(self) -> list[RecalcResult]:
+        return [r for r in self.results if r.status == "EDITED"]
+
+    @property
+    def us(self) -> bool:
+        """Whether every workbook read shows US customary units (the summary's units)."""
+        units = [r.units for r in self.results if r.units]
+        return bool(units) and all(u == "US" for u in units)
 
     @property
     def exit_status(self) -> int:
-        """0 when every workbook was recalculated and every check is OK, else 1 (130: Ctrl-C)."""
+        """0 when every workbook is OK; 1 when one is NOT OK, EDITED or FAILED (130: Ctrl-C)."""
         if self.interrupted:
             return 130
-        return 1 if (self.failed or self.not_ok) else 0
+        return 0 if all(r.status == "OK" for r in self.results) else 1
 
     def table(self) -> list[dict]:
         """One flat row per workbook (the CSV rows), for a notebook or a DataFrame."""
-        return [summary_row(r) for r in self.results]
+        return [summary_row(r, self.us) for r in self.results]
 
 
 def collect_paths(paths: Iterable[str | os.PathLike],
@@ -113,15 +125,35 @@ def _worker_init(parent: int) -> None:
 
 
 def _task(args) -> RecalcResult:
-    path, output, in_place, backup, compare, force = args       # output None when in place
-    return recalc_workbook(path, output=output, in_place=in_place, backup=backup,
-                           compare_layout=compare, force=force)
+    path, output, in_place, backup, keep, compare, force, inputs = args   # output None in place
+    res = recalc_workbook(path, output=output, in_place=in_place, backup=backup,
+                          keep_backups=keep, compare_layout=compare, force=force, inputs=inputs)
+    res.design = None           # the engine's result stays in the worker (less to send back)
+    return res
+
+
+def _tasks_of(chunk: list) -> list[RecalcResult]:
+    return [_task(args) for args in chunk]
+
+
+def summary_base(paths: list, outdir: str | os.PathLike | None,
+                 summary: str | os.PathLike | None) -> Path:
+    """Where the summary goes: ``summary``, else in the output folder, else next to the
+    workbooks (the first folder given, or the folder of the first file)."""
+    if summary is not None:
+        return Path(summary)
+    if outdir is not None:
+        return Path(outdir) / SUMMARY_STEM
+    first = Path(paths[0]) if paths else Path.cwd()
+    return (first if first.is_dir() else first.parent) / SUMMARY_STEM
 
 
 def recalc_many(paths: Iterable[str | os.PathLike], outdir: str | os.PathLike | None = None,
                 jobs: int = 1, progress: bool = True, *, in_place: bool = False,
-                backup: bool = True, summary: str | os.PathLike | None = None,
-                compare_layout: bool = True, force: bool = False) -> BatchSummary:
+                backup: bool = True, keep_backups: bool = False,
+                summary: str | os.PathLike | None = None, compare_layout: bool = True,
+                force: bool = False, inputs: Mapping[str, Any] | None = None,
+                executor: cf.Executor | None = None) -> BatchSummary:
     """Recalculate many workbooks (files and folders); write a summary workbook and CSV.
 
     Parameters
@@ -131,20 +163,28 @@ def recalc_many(paths: Iterable[str | os.PathLike], outdir: str | os.PathLike | 
     outdir : path-like, optional
         Output folder; a workbook found in a folder keeps its relative path under it [-].
     jobs : int, optional
-        Worker processes (1: in this process) [-].
+        Worker processes on this machine (1: in this process) [-].
     progress : bool, optional
         Show a progress bar on stderr [-].
     in_place : bool, optional
-        Replace each workbook itself (atomically, with a backup unless ``backup=False``) [-].
+        Replace each workbook itself (atomically; only when its content changes) [-].
     backup : bool, optional
-        Keep ``<name>.<time>.bak`` beside each workbook replaced in place [-].
+        Keep the original as ``<name>.bak`` beside each workbook replaced in place [-].
+    keep_backups : bool, optional
+        Keep every backup (``<name>.<time>.bak``) instead of one per workbook [-].
     summary : path-like, optional
-        Path of the summary without extension (default ``OUTDIR/recalc_summary``, or
-        ``./recalc_summary`` in place); ``.xlsx`` and ``.csv`` are written [-].
+        Path of the summary without extension (default ``OUTDIR/recalc_summary``, or next to
+        the workbooks in place); ``.xlsx`` and ``.csv`` are written [-].
     compare_layout : bool, optional
         Compare formulas with the builder's (hand edits) [-].
     force : bool, optional
         Overwrite outputs that swaytune did not make [-].
+    inputs : mapping, optional
+        Input overrides for every workbook, as :func:`recalc_workbook` takes them (numbers in
+        SI, ``{"value", "unit"}``, ``"25 milli-g"``, a tuning method) [-].
+    executor : concurrent.futures.Executor, optional
+        Run the workbooks on this executor instead (a process pool, a cluster's executor);
+        ``jobs`` is then not used. The paths must be reachable from its workers [-].
 
     Returns
     -------
@@ -154,8 +194,8 @@ def recalc_many(paths: Iterable[str | os.PathLike], outdir: str | os.PathLike | 
     Raises
     ------
     ValueError
-        When neither ``outdir`` nor ``in_place`` is given, both are, ``jobs`` < 1, or the
-        output folder is a file.
+        When neither ``outdir`` nor ``in_place`` is given, both are, ``jobs`` < 1, the
+        output folder is a file, or an override is invalid (naming it, its value and range).
     OverwriteRefused
         When a file named like the summary exists and is not an earlier summary (unless
         ``force``); checked before any workbook is recalculated.
@@ -167,13 +207,14 @@ def recalc_many(paths: Iterable[str | os.PathLike], outdir: str | os.PathLike | 
         raise ValueError(f"jobs={jobs!r} must be >= 1")
     if outdir is not None and Path(outdir).exists() and not Path(outdir).is_dir():
         raise ValueError(f"the output folder {outdir} is a file; give a folder")
+    parse_overrides(inputs)                 # a bad override fails here, before any work
+    raw_inputs = dict(inputs) if inputs else None
     paths = list(paths)
     if outdir is not None and any(Path(p).is_dir() and _same_file(Path(p), Path(outdir))
                                   for p in paths):
         raise ValueError(f"the output folder {outdir} is the folder being recalculated: "
                          "choose another folder, or --in-place")
-    base = Path(summary) if summary is not None else (
-        Path(outdir) / SUMMARY_STEM if outdir is not None else Path.cwd() / SUMMARY_STEM)
+    base = summary_base(paths, outdir, summary)
     guard_summary(base, force)              # before any work: never clobber the user's files
     items = collect_paths(paths, exclude=outdir)
     tasks = []
@@ -192,7 +233,8 @@ def recalc_many(paths: Iterable[str | os.PathLike], outdir: str | os.PathLike | 
                                              "original: choose another folder or --in-place")
                 continue
             planned[key] = src
-        tasks.append((i, (src, out, in_place, backup, compare_layout, force)))
+        tasks.append((i, (src, out, in_place, backup, keep_backups, compare_layout, force,
+                          raw_inputs)))
     results: list[RecalcResult | None] = [None] * len(items)
     for i, r in pre_failed.items():
         results[i] = r
@@ -202,7 +244,9 @@ def recalc_many(paths: Iterable[str | os.PathLike], outdir: str | os.PathLike | 
     interrupted = False
     try:
         with _StopOnCtrlC() as stop:
-            if int(jobs) == 1 or len(tasks) <= 1:
+            if executor is not None:
+                _run_executor(tasks, results, executor, bar, stop)
+            elif int(jobs) == 1 or len(tasks) <= 1:
                 for i, args in tasks:
                     if stop.requested:
                         break
@@ -251,26 +295,52 @@ class _StopOnCtrlC:
             signal.signal(signal.SIGINT, self.previous)
 
 
+def _drain(pool: cf.Executor, tasks: list, results: list, bar: Progress, stop: _StopOnCtrlC,
+           chunk: int) -> None:
+    """Hand ``tasks`` to ``pool`` in chunks of ``chunk`` workbooks, filling ``results``."""
+    chunks = [tasks[k:k + chunk] for k in range(0, len(tasks), chunk)]
+    futures = {pool.submit(_tasks_of, [args for _, args in c]): c for c in chunks}
+    pending = set(futures)
+    while pending:
+        done, pending = cf.wait(pending, timeout=0.2, return_when=cf.FIRST_COMPLETED)
+        for fut in done:
+            part = futures[fut]
+            if fut.cancelled():
+                continue
+            try:
+                out = fut.result()
+            except Exception as exc:  # noqa: BLE001 - a worker died
+                out = [RecalcResult(path=args[0], error=f"worker failed: {exc}")
+                       for _, args in part]
+            for (i, _), r in zip(part, out):
+                results[i] = r
+                bar.update(r.path.name, r.status)
+        if stop.requested:              # hand out no more work; wait for the running
+            for fut in pending:
+                fut.cancel()
+            pending = {f for f in pending if not f.cancelled()}
+
+
+def _run_executor(tasks: list, results: list, executor: cf.Executor, bar: Progress,
+                  stop: _StopOnCtrlC) -> None:
+    """Recalculate ``tasks`` on a caller's executor (chunks of a few workbooks each)."""
+    _drain(executor, tasks, results, bar, stop, chunk=max(1, min(8, len(tasks) // 16)))
+
+
 def _run_pool(tasks: list, results: list, jobs: int, bar: Progress, stop: _StopOnCtrlC) -> None:
-    """Recalculate ``tasks`` in ``jobs`` worker processes, filling ``results``."""
+    """Recalculate ``tasks`` in ``jobs`` worker processes, filling ``results``.
+
+    The first workbook is recalculated here before the workers start: forked workers then
+    share its warm caches (imports, the plan, parsed parts) instead of each paying for them.
+    Each worker takes a few chunks of workbooks (fewer round trips than one at a time).
+    """
+    (i, args), rest = tasks[0], tasks[1:]
+    results[i] = _task(args)
+    bar.update(results[i].path.name, results[i].status)
+    if not rest or stop.requested:
+        return
     ctx = mp.get_context("fork" if "fork" in mp.get_all_start_methods() else "spawn")
     with cf.ProcessPoolExecutor(max_workers=jobs, mp_context=ctx, initializer=_worker_init,
                                 initargs=(os.getpid(),)) as pool:
-        futures = {pool.submit(_task, args): (i, args[0]) for i, args in tasks}
-        pending = set(futures)
-        while pending:
-            done, pending = cf.wait(pending, timeout=0.2, return_when=cf.FIRST_COMPLETED)
-            for fut in done:
-                i, path = futures[fut]
-                if fut.cancelled():
-                    continue
-                try:
-                    results[i] = fut.result()
-                except Exception as exc:  # noqa: BLE001 - a worker died
-                    results[i] = RecalcResult(path=path, error=f"worker failed: {exc}")
-                bar.update(results[i].path.name, results[i].status)
-            if stop.requested:              # hand out no more work; wait for the running
-                for fut in pending:
-                    fut.cancel()
-                pending = {f for f in pending if not f.cancelled()}
-
+        _drain(pool, rest, results, bar, stop,
+               chunk=max(1, math.ceil(len(rest) / (4 * jobs))))

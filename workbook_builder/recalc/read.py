@@ -24,14 +24,17 @@ from .. import __version__
 from ..plan import (FORMAT_NAME, PLAN_PROPERTY, PLAN_VERSION, SIMULATION_PROPERTY, Plan,
                     PlanOptions, make_plan)
 from ..plan.inputs import entered_name, factor_name, unit_name
+from ..plan.summary import TITLE_BLOCK
+from ..plan.reference import (last_run_name, last_run_unit_name, recorded_inputs,
+                              recorded_results)
 from ..project.model import Floors, InputValue, Project, settings_from_text
-from ..project.units import unit_for
+from ..project.units import DEFAULT_UNITS, unit_for
 from ..xlsx.files import MARKER_NAME, MARKER_PROPERTY
 from ..xlsx.formulas import Evaluator, FormulaError, is_error
 from ..xlsx.package import Book, Cell, PackageError, PartCache, assert_defusedxml, open_package
 
-__all__ = ["RecalcError", "Issue", "WorkbookData", "read_workbook", "read_inputs",
-           "PART_CACHE", "SIMULATION_PROPERTY", "NamedCells"]
+__all__ = ["RecalcError", "Issue", "WorkbookData", "read_workbook", "PART_CACHE",
+           "SIMULATION_PROPERTY", "NamedCells", "INFO_NAMES"]
 
 #: Parsed worksheets and shared strings by their exact bytes, shared by the workbooks of a
 #: batch (variants of one workbook hold many identical parts).
@@ -76,6 +79,12 @@ class WorkbookData:
     value_cells: dict[str, tuple[str, str]]    # input name -> (sheet, cell) of the typed value
     generator: str
     issues: list[Issue] = field(default_factory=list)
+    #: input name -> (value as typed, unit) at the last engine run (Record sheet)
+    last_inputs: dict[str, tuple[Any, str]] = field(default_factory=dict)
+    #: result defined name -> engine value [SI] at the last engine run (Record sheet)
+    last_results: dict[str, Any] = field(default_factory=dict)
+    #: why the overrides need another layout (a tuning method, an input without a row, ...)
+    relayout: list[str] = field(default_factory=list)
 
     @property
     def design_kwargs(self) -> dict[str, Any]:
@@ -240,20 +249,20 @@ def _read_floors(names: NamedCells, book: Book, n: int) -> Floors:
                   got["building_height"], got["exponent"], stype, int(level))
 
 
-def _overrides(overrides: Mapping[str, float] | None) -> dict[str, float]:
-    out = dict(overrides or {})
-    by_cell = {q.cell_name: q.name for q in design_inputs()}
-    for key in list(out):
-        if key in by_cell:
-            out[by_cell[key]] = out.pop(key)
-    known = {q.name for q in design_inputs() if q.kind != "choice"}
-    unknown = sorted(set(out) - known)
-    if unknown:
-        raise RecalcError(f"unknown input(s) {unknown}; use one of {sorted(known)}")
-    return out
+def _last_run(names: NamedCells, options: PlanOptions
+              ) -> tuple[dict[str, tuple[Any, str]], dict[str, Any]]:
+    """Inputs as typed (with units) and key results at the last engine run (Record sheet)."""
+    inputs = {}
+    for q in recorded_inputs(options):
+        _, vcell = names.cell(last_run_name(q.cell_name))
+        _, ucell = names.cell(last_run_unit_name(q.cell_name))
+        inputs[q.name] = (vcell.value, _cell_text(ucell).strip())
+    results = {q.cell_name: names.cell(last_run_name(q.cell_name))[1].value
+               for q in recorded_results(options)}
+    return inputs, results
 
 
-def read_workbook(path: str | os.PathLike, *, overrides: Mapping[str, float] | None = None
+def read_workbook(path: str | os.PathLike, *, overrides: Mapping[str, Any] | None = None
                   ) -> WorkbookData:
     """Read a swaytune workbook: plan, inputs as typed (with units), project.
 
@@ -262,21 +271,25 @@ def read_workbook(path: str | os.PathLike, *, overrides: Mapping[str, float] | N
     path : path-like
         The workbook (.xlsx) [-].
     overrides : mapping, optional
-        Input name (glossary name such as ``"frequency"``, or its defined name such as
-        ``"structure_frequency"``) -> value in the unit shown beside the input in the
-        workbook; replaces the typed value (used for parameter studies) [-].
+        Glossary name -> :class:`workbook_builder.recalc.inputs.Override` (from
+        :func:`workbook_builder.recalc.inputs.parse_overrides`); replaces the typed value,
+        converted to the unit shown beside the input. An override the layout has no place for
+        (another tuning method, an input without a row, an input left out) is listed in
+        ``relayout`` [-].
 
     Returns
     -------
     data : WorkbookData
-        Plan, project (inputs in SI and as typed), the cells of the typed values, issues [-].
+        Plan, project (inputs in SI and as typed), the cells of the typed values, the values of
+        the last engine run, issues [-].
 
     Raises
     ------
     RecalcError
         For a file that is not a readable swaytune workbook (the message says why), an older
-        or newer format, missing defined names, an unknown unit, a value that is not a number
-        or is outside its valid range.
+        or newer format, missing defined names, an unknown unit or a unit changed since the
+        last engine run (naming the cell), a value that is not a number or is outside its
+        valid range.
     """
     assert_defusedxml()
     path = Path(path)
@@ -294,13 +307,16 @@ def read_workbook(path: str | os.PathLike, *, overrides: Mapping[str, float] | N
                           f"{' ...' if len(missing) > 8 else ''}: the workbook's layout is "
                           "damaged (rebuild it from its project file)")
     names = NamedCells(book)
-    changes = _overrides(overrides)
+    last_inputs, last_results = _last_run(names, options)
+    changes = dict(overrides or {})
     issues: list[Issue] = []
+    relayout: list[str] = []
     typed: dict[str, tuple[Any, str]] = {}
     value_cells: dict[str, tuple[str, str]] = {}
     inputs: dict[str, InputValue] = {}
     bad: list[str] = []
     for q in design_inputs():
+        o = changes.pop(q.name, None)
         if q.kind == "choice":
             sheet, cell = names.cell(q.cell_name)
             value = _cell_text(cell).strip()
@@ -309,23 +325,38 @@ def read_workbook(path: str | os.PathLike, *, overrides: Mapping[str, float] | N
                                   f"from {getattr(options, q.name)!r}, which the workbook is "
                                   "laid out for: it was changed after the build; rebuild the "
                                   "workbook")
+            if o is not None and o.si != value:
+                relayout.append(f"{q.name} {value} -> {o.si}")
+                value = o.si
             inputs[q.name] = InputValue(q, value, None, value, q.note, True)
             continue
         if q.name not in options.inputs:
-            if q.name in changes:
-                raise RecalcError(f"input {q.name} is not in this workbook (its layout has no "
-                                  "cell for it)")
+            if o is not None and o.si is not None:
+                unit = unit_for(q.kind, o.unit or DEFAULT_UNITS[options.units][q.kind])
+                value = o.typed_in(unit.symbol)
+                typed[q.name] = (value, unit.symbol)
+                inputs[q.name] = InputValue(q, value, unit, value * unit.factor, q.note, True)
+                relayout.append(f"{q.name} given (the workbook has no row for it)")
+            continue
+        if o is not None and o.si is None:
+            relayout.append(f"{q.name} left out")
             continue
         sheet, vcell = names.cell(entered_name(q.cell_name))
         usheet, ucell = names.cell(unit_name(q.cell_name))
+        symbol = _cell_text(ucell).strip()
+        before = last_inputs.get(q.name, (None, symbol))[1]
+        if symbol != before:
+            raise RecalcError(
+                f"the unit of {q.label.lower()} ({usheet}!{ucell.coordinate}) was changed from "
+                f"{before!r} to {symbol!r}; units are set when the workbook is built: type the "
+                f"value in {before}, or change the unit in the project file and rebuild it "
+                "(swaytune build)")
         try:
-            unit = unit_for(q.kind, _cell_text(ucell).strip())
+            unit = unit_for(q.kind, symbol)
         except ValueError as exc:
             raise RecalcError(f"input {q.name} ({usheet}!{ucell.coordinate}): {exc}") from None
-        if q.name in changes:
-            value = float(changes.pop(q.name))
-            if not math.isfinite(value):
-                raise RecalcError(f"input {q.name}: override {value!r} is not a finite number")
+        if o is not None:
+            value = o.typed_in(unit.symbol)
         else:
             value = _number(book, sheet, vcell, f"input {q.name}")
         fsheet, fcell = names.cell(factor_name(q.cell_name))
@@ -347,6 +378,8 @@ def read_workbook(path: str | os.PathLike, *, overrides: Mapping[str, float] | N
     if bad:
         raise RecalcError("input(s) outside their valid range: " + "; ".join(bad))
     floors = _read_floors(names, book, options.floors) if options.floors else None
+    if floors is not None and "modal_mass" in inputs:
+        floors = None                   # a modal mass given replaces the floor table
     simulation = None
     text = book.custom_props.get(SIMULATION_PROPERTY)
     if text is not None:
@@ -358,49 +391,26 @@ def read_workbook(path: str | os.PathLike, *, overrides: Mapping[str, float] | N
     if book.name_cell("record_source") is not None:
         source = _cell_text(names.cell("record_source")[1]) or path.name
     project = Project(source_name=source,
-                      source_sha256=hashlib.sha256(path.name.encode()).hexdigest(), info={},
-                      units=options.units, paper=options.paper, inputs=inputs, floors=floors,
-                      simulation=simulation)
-    return WorkbookData(path, book, plan, project, typed, value_cells, generator, issues)
+                      source_sha256=hashlib.sha256(path.name.encode()).hexdigest(),
+                      info=_info(book), units=options.units, paper=options.paper,
+                      inputs=inputs, floors=floors, simulation=simulation)
+    return WorkbookData(path, book, plan, project, typed, value_cells, generator, issues,
+                        last_inputs, last_results, relayout)
 
 
-def read_inputs(path: str | os.PathLike) -> dict[str, Any]:
-    """Read a workbook's inputs as keyword arguments of the engine's design chain.
+#: Project information key -> its defined name in the workbook (title block, notes).
+INFO_NAMES = {**{key: name for *_, key, name in TITLE_BLOCK},
+              "structure": "project_structure", "client": "project_client",
+              "notes": "project_notes"}
 
-    .. math::
 
-        x_{SI} = x_{typed} \\cdot \\mathrm{factor}(\\mathrm{unit})
-
-    Parameters
-    ----------
-    path : path-like
-        A workbook made by ``swaytune build`` [-].
-
-    Returns
-    -------
-    inputs : dict
-        ``functions.design.DesignInputs`` fields in SI units (``frequency`` [Hz],
-        ``modal_mass`` [kg], ``acceleration`` [m/s^2], ...) and ``tuning_method``; the modal
-        mass of a floor table is computed from the floors [-].
-
-    Raises
-    ------
-    RecalcError
-        See :func:`read_workbook`.
-
-    Examples
-    --------
-    >>> import tempfile, pathlib
-    >>> from workbook_builder.project import parse_project
-    >>> from workbook_builder.build import write_workbook
-    >>> project = parse_project({"mode": {"frequency": 0.2, "modal_mass":
-    ...     {"value": 9000, "unit": "t"}, "structural_damping": 0.01},
-    ...     "wind": {"acceleration": 0.25, "acceleration_limit": 0.15},
-    ...     "damper": {"mass_ratio": 0.02, "clearance": 1.5}}, source="demo.toml")
-    >>> out = pathlib.Path(tempfile.mkdtemp()) / "demo.xlsx"
-    >>> _ = write_workbook(project, out)
-    >>> kw = read_inputs(out)
-    >>> kw["modal_mass"], kw["mass_ratio"], kw["tuning_method"]
-    (9000000.0, 0.02, 'h2')
-    """
-    return read_workbook(path).design_kwargs
+def _info(book: Book) -> dict[str, str]:
+    """The project information the workbook shows (for a workbook rebuilt from it)."""
+    out = {}
+    for key, name in INFO_NAMES.items():
+        loc = book.name_cell(name)
+        if loc is not None:
+            text = _cell_text(book[loc[0]].get(loc[1]))
+            if text:
+                out[key] = text
+    return out

@@ -2,10 +2,12 @@
 """Summary of a batch recalculation: one row per workbook, as a CSV, a workbook and a report.
 
 :func:`summary_row` flattens a :class:`workbook_builder.recalc.RecalcResult` (status, reason,
-key inputs and results with units, every check verdict, changes, issues);
-:func:`write_summary` writes the rows as ``base.csv`` and ``base.xlsx`` (sheets Workbooks,
-Changes, Issues, Cautions; every text written as text, never as a formula);
-:func:`print_report` prints the batch for the command line.
+key inputs and results under readable labels with units, every check verdict, what changed
+since the last engine run, hand edits, other issues); :func:`write_summary` writes the rows as
+``base.csv`` and ``base.xlsx`` (sheets Workbooks, Changes, Issues, Statuses, Cautions; landscape,
+frozen header, filters; every text written as text, never as a formula); :func:`print_report`
+prints the batch for the command line. Values are shown in the batch's units: US customary
+when every workbook of the batch is, else SI.
 """
 from __future__ import annotations
 
@@ -17,34 +19,46 @@ from pathlib import Path
 from typing import Any
 
 from openpyxl import Workbook
-from openpyxl.styles import Font, PatternFill
+from openpyxl.styles import Alignment, Font, PatternFill
 
 from functions.design import CHECK_RULES
 from functions.quantities import design_inputs, design_results
 
 from .. import __version__
 from ..plan.reference import CAUTIONS
+from ..project.units import US_DISPLAY
 from ..xlsx.files import (FORCE_HINT, OverwriteRefused, atomic_path, guard_overwrite,
                           mark_workbook)
-from .workbook import SHORT_LABELS, RecalcResult
+from .workbook import HAND_EDITS, SHORT_LABELS, STATUSES, RecalcResult
 
 __all__ = ["summary_row", "write_summary", "print_report", "csv_safe", "SUMMARY_STEM",
-           "guard_summary", "summary_paths"]
+           "guard_summary", "summary_paths", "FIXED_COLUMNS"]
 
 #: File stem of the batch summary (``recalc_summary.xlsx`` and ``.csv``); folder scans skip it.
 SUMMARY_STEM = "recalc_summary"
+#: The first columns of every summary (an earlier summary is recognised by them).
+FIXED_COLUMNS = ("Workbook", "Status", "Reason", "Output")
+#: Fill of each status in the summary workbook (our own colours).
+_STATUS_FILL = {"OK": "D9EAD3", "NOT OK": "F4CCCC", "EDITED": "FCE5CD", "FAILED": "D9D9D9"}
 
 
+def _unit(q, us: bool) -> tuple[str, float]:
+    """Unit and factor from SI a quantity is shown in (the batch's unit system)."""
+    if us and q.unit in US_DISPLAY:
+        return US_DISPLAY[q.unit]
+    return q.unit, 1.0
 
-def _header(q) -> str:
-    return f"{q.name} [{q.unit}]" if q.unit else q.name
+
+def _header(q, us: bool) -> str:
+    unit = _unit(q, us)[0]
+    return f"{q.label} [{unit}]" if unit else q.label
 
 
-def _fmt_value(v: Any) -> str:
+def _shown(v: Any) -> str:
     if v is None:
         return "(none)"
     if isinstance(v, float):
-        return f"{v:.10g}"
+        return f"{v:.6g}"
     return str(v)
 
 
@@ -53,16 +67,22 @@ def _check_columns() -> list[str]:
         "Engine values current"]
 
 
-def summary_row(r) -> dict[str, Any]:
-    row: dict[str, Any] = {"workbook": str(r.path), "status": r.status,
-                           "reason": r.error or "",
-                           "output": "" if r.output is None else str(r.output)}
-    for q in design_inputs():              # key inputs (SI), as the engine took them
+def _in_units(v: Any, factor: float) -> Any:
+    if isinstance(v, (int, float)) and not isinstance(v, bool):
+        return v / factor
+    return "" if v is None else v
+
+
+def summary_row(r: RecalcResult, us: bool = False) -> dict[str, Any]:
+    """One flat row of the summary for a workbook (``us``: values in US customary units)."""
+    row: dict[str, Any] = dict(zip(FIXED_COLUMNS, (
+        str(r.path), r.status, r.error or "", "" if r.output is None else str(r.output))))
+    for q in design_inputs():              # key inputs, as the engine took them
         if q.summary:
-            row[_header(q)] = r.inputs.get(q.name, "")
+            row[_header(q, us)] = _in_units(r.inputs.get(q.name), _unit(q, us)[1])
     for q in design_results():             # key results, as the workbook computes them
         if q.summary:
-            row[_header(q)] = r.results.get(q.cell_name, "")
+            row[_header(q, us)] = _in_units(r.results.get(q.cell_name), _unit(q, us)[1])
     verdicts = dict(r.checks)
     for label in _check_columns():
         if label == "Engine values current":
@@ -71,10 +91,12 @@ def summary_row(r) -> dict[str, Any]:
                                               "NOT OK")
         else:
             row[label] = verdicts.get(label, "")
-    row["changes"] = "; ".join(f"{n}: {_fmt_value(o)} -> {_fmt_value(v)}"
-                               for n, o, v in r.changes)
-    row["issues"] = "; ".join(str(i) for i in r.issues)
-    row["seconds"] = round(r.seconds, 4)
+    row["Inputs changed"] = "; ".join(str(c) for c in r.changed("input"))
+    row["Results changed"] = "; ".join(str(c) for c in r.changed("result"))
+    row["Hand edits"] = "; ".join(str(i) for i in r.hand_edits)
+    row["Other notes"] = "; ".join(str(i) for i in r.issues if i.kind not in HAND_EDITS)
+    row["Backup"] = "" if r.backup is None else str(r.backup)
+    row["Seconds"] = round(r.seconds, 4)
     return row
 
 
@@ -108,18 +130,59 @@ def guard_summary(base: str | os.PathLike, force: bool = False) -> None:
             first = fh.readline()
     except (OSError, UnicodeDecodeError):
         first = ""
-    if not first.startswith("workbook,status,reason,output"):
+    if not first.lower().startswith("workbook,status,reason,output"):
         raise OverwriteRefused(f"{csv_path} exists and is not a recalc summary; refusing to "
                                f"overwrite it ({FORCE_HINT})")
+
+
+def _sheet(wb: Workbook, title: str, headers: list[str], rows: list[list[Any]],
+           widths: list[float], status_col: int | None = None, first: bool = False):
+    """A sheet of the summary: bold wrapped header, frozen, filtered, landscape, widths."""
+    ws = wb.active if first else wb.create_sheet(title)
+    ws.title = title
+    for j, h in enumerate(headers, start=1):
+        c = _put(ws, 1, j, h)
+        c.font = Font(bold=True)
+        c.alignment = Alignment(wrap_text=True, vertical="top")
+    for i, row in enumerate(rows, start=2):
+        for j, v in enumerate(row, start=1):
+            c = _put(ws, i, j, v)
+            if j == status_col and v in _STATUS_FILL:
+                c.fill = PatternFill("solid", fgColor=_STATUS_FILL[v])
+            elif isinstance(v, str) and len(v) > 40:
+                c.alignment = Alignment(wrap_text=True, vertical="top")
+    for j, w in enumerate(widths[:len(headers)], start=1):
+        ws.column_dimensions[ws.cell(1, j).column_letter].width = w
+    ws.freeze_panes = "B2"
+    if rows:
+        ws.auto_filter.ref = ws.dimensions
+    ws.page_setup.orientation = "landscape"
+    ws.page_setup.fitToWidth, ws.page_setup.fitToHeight = 1, 0
+    ws.sheet_properties.pageSetUpPr.fitToPage = True
+    ws.print_title_rows = "1:1"
+    return ws
+
+
+def _put(sheet, r: int, c: int, v: Any):
+    """Write a value; every text stays text (never a formula), NaN and inf as text."""
+    cell = sheet.cell(r, c)
+    if isinstance(v, str) or (isinstance(v, float) and not math.isfinite(v)):
+        cell.value = str(v)
+        cell.data_type = "s"
+    else:
+        cell.value = v
+    return cell
 
 
 def write_summary(batch, base: str | os.PathLike, force: bool = False) -> tuple[Path, Path]:
     """Write the batch summary as ``base.xlsx`` and ``base.csv``; return both paths.
 
     The workbook has a sheet per view: Workbooks (one row each: status, reason, key inputs and
-    results, every check verdict, changes, issues), Changes (old and new value of every named
-    cell that changed), Issues, Cautions. Every text is written as text, never as a formula.
-    A file of either name that is not an earlier summary is never replaced (unless ``force``).
+    results, every check verdict, changes, hand edits, notes), Changes (each input and key
+    result changed since the last engine run, old and new, in the workbook's units), Issues,
+    Statuses (what each status means), Cautions. Every text is written as text, never as a
+    formula. A file of either name that is not an earlier summary is never replaced (unless
+    ``force``).
 
     Raises
     ------
@@ -127,8 +190,9 @@ def write_summary(batch, base: str | os.PathLike, force: bool = False) -> tuple[
         When ``base.xlsx`` or ``base.csv`` exists and is not a summary swaytune wrote.
     """
     base = Path(base)
-    rows = batch.table()
-    headers = list(rows[0]) if rows else list(summary_row(RecalcResult(Path("-"))))
+    us = batch.us
+    rows = [summary_row(r, us) for r in batch.results]
+    headers = list(rows[0]) if rows else list(summary_row(RecalcResult(Path("-")), us))
     csv_path, xlsx_path = summary_paths(base)
     guard_summary(base, force)
     base.parent.mkdir(parents=True, exist_ok=True)
@@ -140,61 +204,26 @@ def write_summary(batch, base: str | os.PathLike, force: bool = False) -> tuple[
                 w.writerow([csv_safe(row.get(h, "")) for h in headers])
 
     wb = Workbook()
-    ws = wb.active
-    ws.title = "Workbooks"
-    bold = Font(bold=True)
-    bad = PatternFill("solid", fgColor="FFC7CE")
-    good = PatternFill("solid", fgColor="C6EFCE")
-
-    def put(sheet, r, c, v):
-        cell = sheet.cell(r, c)
-        if isinstance(v, str):
-            cell.value = v
-            cell.data_type = "s"
-        elif isinstance(v, float) and not math.isfinite(v):
-            cell.value = str(v)
-            cell.data_type = "s"
-        else:
-            cell.value = v
-        return cell
-
-    for j, h in enumerate(headers, start=1):
-        put(ws, 1, j, h).font = bold
-    for i, row in enumerate(rows, start=2):
-        for j, h in enumerate(headers, start=1):
-            c = put(ws, i, j, row.get(h, ""))
-            if row.get(h) in ("OK", "NOT OK", "FAILED"):
-                c.fill = good if row[h] == "OK" else bad
-    ws.freeze_panes = "B2"
-    ch = wb.create_sheet("Changes")
-    for j, h in enumerate(("workbook", "quantity (defined name)", "old value", "new value"), 1):
-        put(ch, 1, j, h).font = bold
-    r = 2
-    for res in batch.results:
-        for name, old, new in res.changes:
-            for j, v in enumerate((str(res.path), name, "(none)" if old is None else old,
-                                   new), 1):
-                put(ch, r, j, v)
-            r += 1
-    iss = wb.create_sheet("Issues")
-    for j, h in enumerate(("workbook", "kind", "where", "message", "builder / engine",
-                           "workbook"), 1):
-        put(iss, 1, j, h).font = bold
-    r = 2
+    widths = [34, 9, 30, 34] + [14] * (len(headers) - 4)
+    _sheet(wb, "Workbooks", headers, [[row.get(h, "") for h in headers] for row in rows],
+           widths, status_col=2, first=True)
+    changes = [[str(res.path), c.kind, c.label, _cell(c.old), _cell(c.new), c.unit]
+               for res in batch.results for c in res.changes]
+    _sheet(wb, "Changes", ["Workbook", "Input or result", "Quantity", "Old value", "New value",
+                           "Unit"], changes, [34, 12, 44, 14, 14, 10])
+    issues = []
     for res in batch.results:
         if res.failed:
-            for j, v in enumerate((str(res.path), "FAILED", "", res.error, "", ""), 1):
-                put(iss, r, j, v)
-            r += 1
-        for i in res.issues:
-            for j, v in enumerate((str(res.path), i.kind, i.where, i.message, i.old, i.new), 1):
-                put(iss, r, j, v)
-            r += 1
+            issues.append([str(res.path), "FAILED", "", res.error, "", ""])
+        issues += [[str(res.path), i.kind, i.where, i.message, i.old, i.new] for i in res.issues]
+    _sheet(wb, "Issues", ["Workbook", "Kind", "Where", "Message", "Plan or engine",
+                          "Workbook holds"], issues, [34, 16, 22, 70, 24, 24])
+    _sheet(wb, "Statuses", ["Status", "Meaning"], [[k, v] for k, v in STATUSES.items()],
+           [10, 100], status_col=1)
     cau = wb.create_sheet("Cautions")
     for i, text in enumerate(CAUTIONS, start=1):
-        put(cau, i, 1, text)
-    for sheet in (ws, ch, iss):
-        sheet.column_dimensions["A"].width = 40
+        _put(cau, i, 1, text)
+    cau.column_dimensions["A"].width = 120
     wb.properties.creator = f"swaytune {__version__} (recalc summary)"
     mark_workbook(wb, __version__)
     with atomic_path(xlsx_path) as tmp:
@@ -202,30 +231,48 @@ def write_summary(batch, base: str | os.PathLike, force: bool = False) -> tuple[
     return xlsx_path, csv_path
 
 
+def _cell(v: Any) -> Any:
+    return "(none)" if v is None else v
+
+
+def _listed(label: str, items: list, limit: int = 6) -> str:
+    shown = "; ".join(str(x) for x in items[:limit])
+    more = f" (+{len(items) - limit} more)" if len(items) > limit else ""
+    return f"        {label}: {shown}{more}"
+
+
 def print_report(batch, stream=None) -> None:
-    """Print one block per workbook (status, NOT OK checks, issues, changes) and a total."""
+    """Print one block per workbook and a total.
+
+    A block: the status, the file and its output; the inputs changed since the last engine
+    run (old -> new, in the workbook's units); the key results that changed; the hand edits
+    (formulas that differ from the plan, cells showing an error); the checks NOT OK; notes.
+    """
     stream = stream or sys.stdout
     for r in batch.results:
         if r.failed:
-            print(f"FAILED  {r.path}: {r.error}", file=stream)
+            print(f"{'FAILED':<8}{r.path}: {r.error}", file=stream)
             continue
-        bad = [label for label, v in r.checks if v != "OK"]
-        line = f"{r.status:<7} {r.path}"
+        line = f"{r.status:<8}{r.path}"
         if r.output is not None:
-            line += f" -> {r.output}"
+            line += f" -> {r.output}" if r.rewritten or r.output != r.path else " (unchanged)"
         print(line, file=stream)
+        for label, items in (("inputs changed", r.changed("input")),
+                             ("results changed", r.changed("result")),
+                             ("hand edits", r.hand_edits)):
+            if items:
+                print(_listed(label, items), file=stream)
+        bad = [label for label, v in r.checks if v != "OK"]
         if bad:
             print(f"        NOT OK: {'; '.join(bad)}", file=stream)
         for i in r.issues:
-            print(f"        {i.kind}: {i}", file=stream)
-        if r.changes:
-            shown = ", ".join(f"{n} {_fmt_value(o)} -> {_fmt_value(v)}"
-                              for n, o, v in r.changes[:6])
-            more = f" (+{len(r.changes) - 6} more)" if len(r.changes) > 6 else ""
-            print(f"        changed: {shown}{more}", file=stream)
-    n = len(batch.results)
-    print(f"\n{n} workbook(s): {n - len(batch.failed) - len(batch.not_ok)} OK, "
-          f"{len(batch.not_ok)} NOT OK, {len(batch.failed)} failed "
-          f"({batch.seconds:.1f} s)", file=stream)
+            if i.kind not in HAND_EDITS:
+                print(f"        {i.kind}: {i}", file=stream)
+        if r.backup is not None:
+            print(f"        backup: {r.backup}", file=stream)
+    counts = {s: sum(r.status == s for r in batch.results) for s in STATUSES}
+    print(f"\n{len(batch.results)} workbook(s): "
+          + ", ".join(f"{n} {s}" for s, n in counts.items())
+          + f" ({batch.seconds:.1f} s)", file=stream)
     if batch.summary_xlsx:
         print(f"summary: {batch.summary_xlsx} and {batch.summary_csv}", file=stream)

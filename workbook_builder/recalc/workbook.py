@@ -2,13 +2,16 @@
 """Recalculating one workbook: engine values refreshed, cached values fresh, formulas kept.
 
 :func:`recalc_workbook` reads a workbook through its plan (:mod:`.read`), reruns the engine's
-design chain, writes the new engine values (results without a closed form, the input snapshots
-beside them, the engine column of the cross-checks, the chart tables) into the cells the plan's
-defined names point at, evaluates every formula of the plan's sheets as written in the file for
-its cached value, and copies everything else unchanged (formulas, styles, a firm's own sheets).
-The time-domain simulation of a Nonlinear sheet is not rerun: once the inputs change, its flag
-says so and the workbook is NOT OK with "REBUILD NEEDED". Each workbook is checked: formulas
-against the plan's (:mod:`.edits`), every result formula against the engine, every verdict.
+design chain and, for a workbook with a Nonlinear sheet, the time-domain check; writes the new
+engine values (results without a closed form, the input snapshots beside them, the engine
+column of the cross-checks, the chart tables, the simulation's values and the Record sheet's
+values of the last engine run) into the cells the plan's defined names point at, evaluates
+every formula of the plan's sheets as written in the file for its cached value, and copies
+everything else unchanged (formulas, styles, a firm's own sheets). It reports what the user
+changed since the last engine run (inputs as typed, then key results, in the workbook's units)
+and checks each workbook: formulas against the plan's (:mod:`.edits`), every result formula
+against the engine, every verdict. Overrides that need another layout (another tuning method,
+an input the workbook has no row for) rebuild the workbook from its own inputs.
 """
 from __future__ import annotations
 
@@ -20,31 +23,38 @@ import os
 import shutil
 import threading
 import time
+import zipfile
 from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Any, Mapping
 
 from functions.design import CHECK_RULES
+from functions.quantities import by_name, design_inputs
 from functions.worksheet import TWIN_TOLERANCE
 
-from ..compute import run_design
+from ..build import BuildError, write_workbook
+from ..compute import run_design, run_simulation
 from ..plan.calculation import engine_flags
 from ..plan.charts import chart_tables
 from ..plan import make_plan
 from ..plan.checks import check_name, cross_checked
 from ..plan.model import Plan
+from ..plan.reference import recorded_results
 from ..plan.summary import VERDICT_LABELS
 from ..plan.values import Sources, source_value
+from ..project.units import US_DISPLAY
 from ..xlsx.cached import CellError
+from ..xlsx.draw import DrawError
 from ..xlsx.files import OverwriteRefused, atomic_path, guard_hand_edits, guard_overwrite
 from ..xlsx.formulas import Evaluator, FormulaError, is_error
 from ..xlsx.package import Book, Cell, PackageError, split_coord
 from ..xlsx.rewrite import write_package
 from .edits import CANON_CACHE, formula_issues
+from .inputs import parse_overrides
 from .read import PART_CACHE, Issue, NamedCells, RecalcError, WorkbookData, read_workbook
 
-__all__ = ["RecalcResult", "recalc_workbook", "write_results", "PARSE_CACHE",
-           "CHANGE_TOLERANCE", "SHORT_LABELS", "clear_caches"]
+__all__ = ["RecalcResult", "Change", "recalc_workbook", "write_results", "PARSE_CACHE",
+           "CHANGE_TOLERANCE", "SHORT_LABELS", "STATUSES", "HAND_EDITS", "clear_caches"]
 
 #: Relative tolerance below which a value counts as unchanged since the last calculation [-].
 CHANGE_TOLERANCE = 1e-12
@@ -52,15 +62,50 @@ CHANGE_TOLERANCE = 1e-12
 PARSE_CACHE: dict[str, Any] = {}
 #: Labels of the verdicts besides the design checks (the summary's columns).
 SHORT_LABELS = VERDICT_LABELS
+#: Status of a workbook after recalculation, from the best to the worst, and what it means.
+STATUSES = {
+    "OK": "recalculated; every check passes",
+    "NOT OK": "recalculated; a check fails",
+    "EDITED": "recalculated, but a formula differs from the plan or a cell shows an error: the "
+              "workbook's own verdicts cannot be taken as a pass",
+    "FAILED": "could not be read or written; nothing was written",
+}
+#: Issues that make a workbook EDITED: hand edits of the plan's formulas and what they cause.
+HAND_EDITS = ("formula_edited", "formula_replaced", "formula_added", "error_value",
+              "engine_mismatch", "verdict_mismatch", "unit_factor")
+
+
+def _shown(v: Any) -> str:
+    if v is None:
+        return "(none)"
+    if isinstance(v, float):
+        return f"{v:.6g}"
+    return str(v)
+
+
+@dataclass(frozen=True)
+class Change:
+    """An input or a key result that changed since the last engine run.
+
+    ``kind`` is ``"input"`` (``old`` and ``new`` as typed, ``unit`` the unit beside the input)
+    or ``"result"`` (engine values in the unit the workbook shows them in, ``unit``).
+    """
+
+    kind: str
+    name: str
+    label: str
+    old: Any
+    new: Any
+    unit: str
+
+    def __str__(self) -> str:
+        unit = "" if self.unit in ("", "-") else f" {self.unit}"
+        return f"{self.label}: {_shown(self.old)} -> {_shown(self.new)}{unit}"
 
 
 @dataclass
 class RecalcResult:
-    """Outcome of recalculating one workbook.
-
-    ``status`` is ``"OK"`` (recalculated, every check OK), ``"NOT OK"`` (recalculated, some
-    check NOT OK) or ``"FAILED"`` (nothing written; ``error`` says why).
-    """
+    """Outcome of recalculating one workbook; ``status`` is one of :data:`STATUSES`."""
 
     path: Path
     output: Path | None = None
@@ -68,11 +113,12 @@ class RecalcResult:
     inputs: dict[str, Any] = field(default_factory=dict)       # DesignInputs kwargs (SI)
     typed: dict[str, tuple[Any, str]] = field(default_factory=dict)   # as typed, with unit
     results: dict[str, Any] = field(default_factory=dict)      # named cells, new values
-    previous: dict[str, Any] = field(default_factory=dict)     # named cells, old cached values
-    changes: list[tuple[str, Any, Any]] = field(default_factory=list)
+    changes: list[Change] = field(default_factory=list)        # since the last engine run
     checks: list[tuple[str, str]] = field(default_factory=list)   # (check, "OK"/"NOT OK")
     issues: list[Issue] = field(default_factory=list)
     backup: Path | None = None
+    rewritten: bool = False                                     # the output's bytes changed
+    units: str = ""                                             # the workbook's unit system
     seconds: float = 0.0
     design: Any = None                                          # engine DesignResult
 
@@ -85,10 +131,21 @@ class RecalcResult:
         return not self.failed and all(v == "OK" for _, v in self.checks)
 
     @property
+    def hand_edits(self) -> list[Issue]:
+        """The issues that make the workbook EDITED."""
+        return [i for i in self.issues if i.kind in HAND_EDITS]
+
+    @property
     def status(self) -> str:
         if self.failed:
             return "FAILED"
+        if self.hand_edits:
+            return "EDITED"
         return "OK" if self.checks_ok else "NOT OK"
+
+    def changed(self, kind: str) -> list[Change]:
+        """The changes of one kind (``"input"`` or ``"result"``)."""
+        return [c for c in self.changes if c.kind == kind]
 
 
 def clear_caches() -> None:
@@ -136,12 +193,12 @@ class _Locator:
         raise RecalcError(f"{sheet}!{ref}: an engine value without a name (a bug of the plan)")
 
 
-def _engine_constants(data: WorkbookData, result: Any) -> tuple[dict[tuple[str, str], float],
-                                                                  list[Issue]]:
+def _engine_constants(data: WorkbookData, result: Any, simulation: Any = None
+                      ) -> tuple[dict[tuple[str, str], Any], list[Issue]]:
     """New values of the engine cells recalculation refreshes, at their named places."""
     book, plan = data.book, data.plan
-    sources = Sources(data.project, result, chart_tables(result))
-    out: dict[tuple[str, str], float] = {}
+    sources = Sources(data.project, result, chart_tables(result), simulation)
+    out: dict[tuple[str, str], Any] = {}
     issues: list[Issue] = []
     locate = _Locator(book, plan)
     for sheet, c in plan.refreshed_cells():
@@ -152,11 +209,13 @@ def _engine_constants(data: WorkbookData, result: Any) -> tuple[dict[tuple[str, 
             issues.append(Issue("formula_added", where, "engine value replaced by a formula; "
                                 "kept as it is (not refreshed)", "engine value", cell.value))
             continue
-        if cell.data_type != "n" or cell.value is None:
+        value = source_value(c.source, sources)
+        text = isinstance(value, str)
+        if cell.data_type != ("s" if text else "n") or cell.value is None:
             shown = "empty" if cell.value is None else repr(cell.value)
             raise RecalcError(f"{where} is {shown} where the builder writes an engine value: "
                               "the layout is damaged; rebuild it from its project file")
-        out[(wsheet, coord)] = float(source_value(c.source, sources))
+        out[(wsheet, coord)] = value if text else float(value)
     return out, issues
 
 
@@ -219,12 +278,11 @@ def _verdicts(data: WorkbookData, result: Any, res: RecalcResult, now) -> None:
     for flag, what in engine_flags(plan.options):
         current = now(flag) == "current"
         res.checks.append((f"Engine value current ({flag})", "OK" if current else "NOT OK"))
-        if not current and flag == "engine_flag_simulation":
+        if not current:
             res.issues.append(Issue(
-                "stale_engine_value", flag, "REBUILD NEEDED: the Nonlinear sheet's time-domain "
-                "simulation was computed for other inputs and recalc does not rerun it; "
-                "rebuild the workbook from its project file with the new inputs (swaytune "
-                "build PROJECT.toml -o NEW.xlsx)", "current", str(now(flag))))
+                "stale_engine_value", flag, f"the engine value of the {what} does not match "
+                "the inputs after recalculation (a snapshot cell edited by hand?); rebuild the "
+                "workbook from its project file", "current", str(now(flag))))
     for name in cross_checked(plan.options):
         v, e = now(name), float(result.cells[name])
         ok = isinstance(v, (int, float)) and not isinstance(v, bool)
@@ -238,26 +296,76 @@ def _verdicts(data: WorkbookData, result: Any, res: RecalcResult, now) -> None:
         res.checks.append(("Every result formula agrees with the engine", "NOT OK"))
 
 
-def _recalc(res: RecalcResult, path: Path, dest: Path | None, in_place: bool, backup: bool,
-            overrides: Mapping[str, float] | None, compare_layout: bool, force: bool) -> None:
-    data = read_workbook(path, overrides=overrides)
-    book, plan = data.book, data.plan
-    res.issues.extend(data.issues)
-    res.typed = dict(data.typed)
+def _display(q: Any, options: Any) -> tuple[str, float]:
+    """Unit and factor from SI of a result as the workbook shows it."""
+    if options.us and q.unit in US_DISPLAY:
+        return US_DISPLAY[q.unit]
+    return q.unit, 1.0
+
+
+def _changes(data: WorkbookData, result: Any) -> list[Change]:
+    """Inputs (as typed) and key results changed since the last engine run."""
+    out = []
+    declared = by_name(design_inputs())
+    for name in list(data.last_inputs) + [n for n in data.typed if n not in data.last_inputs]:
+        old, unit = data.last_inputs.get(name, (None, ""))
+        new, unit = data.typed.get(name, (None, unit))
+        if not _close(old, new):
+            out.append(Change("input", name, declared[name].label, old, new, unit))
+    for q in recorded_results(data.plan.options):
+        old, new = data.last_results.get(q.cell_name), result.cells.get(q.cell_name)
+        unit, factor = _display(q, data.plan.options)
+        old = old / factor if isinstance(old, (int, float)) else old
+        new = float(new) / factor if isinstance(new, (int, float)) else new
+        if not _close(old, new):
+            out.append(Change("result", q.cell_name, q.label, old, new, unit))
+    return out
+
+
+def _design(data: WorkbookData) -> tuple[Any, Any]:
+    """The engine's design and, for a workbook with a Nonlinear sheet, its simulation rerun."""
     try:
         result = run_design(data.project)
     except ValueError as exc:
         raise RecalcError(f"the engine cannot compute the design for these inputs: "
                           f"{str(exc).split(': ', 2)[-1]}") from None
+    options = data.plan.options
+    if options.simulation is None:
+        return result, None
+    settings = data.project.simulation
+    if settings is None or not settings.enabled:
+        raise RecalcError("the workbook has a Nonlinear sheet but its simulation settings "
+                          "(document property SwaytuneSimulation) are missing: rebuild it from "
+                          "its project file")
+    try:
+        run = run_simulation(data.project, result)
+    except ValueError as exc:
+        raise RecalcError(f"the time-domain check cannot be rerun: "
+                          f"{str(exc).split(': ', 2)[-1]}") from None
+    sizes = (settings.load, len(run.time_table.rows), len(run.window_table.rows))
+    if sizes != tuple(options.simulation):
+        data.relayout.append(f"the time-domain record now fills {sizes[1]} and {sizes[2]} "
+                             f"rows instead of {options.simulation[1]} and "
+                             f"{options.simulation[2]}")
+    return result, run
+
+
+def _recalc(res: RecalcResult, path: Path, dest: Path | None, in_place: bool, backup: str,
+            overrides: Mapping[str, Any] | None, compare_layout: bool, force: bool) -> None:
+    data = read_workbook(path, overrides=overrides)
+    book, plan = data.book, data.plan
+    res.issues.extend(data.issues)
+    res.typed = dict(data.typed)
+    res.units = plan.options.units
+    result, simulation = _design(data)
     res.design = result
     res.inputs = data.design_kwargs
+    res.changes = _changes(data, result)
+    if data.relayout:
+        _relayout(res, data, path, dest, in_place, backup, force)
+        return
     named = {n: book.name_cell(n) for n in plan.names()}
-    previous = {}
-    for name, loc in named.items():
-        if loc is not None:
-            c = book[loc[0]].get(loc[1])
-            previous[name] = c.cached if c.data_type == "f" else c.value
-    constants: dict[tuple[str, str], float] = {}
+    constants: dict[tuple[str, str], Any] = {}
     if overrides:
         for name, (sheet, coord) in data.value_cells.items():
             cell = book[sheet].get(coord)
@@ -267,15 +375,18 @@ def _recalc(res: RecalcResult, path: Path, dest: Path | None, in_place: bool, ba
                                   "override would replace it")
             if cell.value != new:
                 constants[(sheet, coord)] = new
-    engine, issues = _engine_constants(data, result)
+    engine, issues = _engine_constants(data, result, simulation)
     res.issues.extend(issues)
     constants.update(engine)
+    changed = False
     for (sheet, coord), v in constants.items():
         r, c = split_coord(coord)
         old = book[sheet].cells.get((r, c))
-        book[sheet].cells[(r, c)] = Cell(r, c, float(v), "n", float(v),
+        changed = changed or old is None or not _same_value(old.value, v)
+        book[sheet].cells[(r, c)] = Cell(r, c, v, "s" if isinstance(v, str) else "n", v,
                                           old.cached_type if old else "n")
     cached = _evaluate(book, plan, res)
+    changed = changed or _cached_changed(book, cached)
 
     def now(name: str) -> Any:
         loc = named.get(name)
@@ -286,41 +397,129 @@ def _recalc(res: RecalcResult, path: Path, dest: Path | None, in_place: bool, ba
         return book[loc[0]].get(loc[1]).value
 
     res.results = {name: now(name) for name in named if not name.startswith("TB_")}
-    res.previous = {name: previous.get(name) for name in res.results}
-    res.changes = [(n, previous.get(n), v) for n, v in res.results.items()
-                   if not _close(previous.get(n), v)]
     _verdicts(data, result, res, now)
     if compare_layout:
         res.issues.extend(formula_issues(book, plan, set(data.value_cells.values())))
     if dest is None:
         return
-    if in_place and path.is_symlink():
-        dest = path.resolve()       # replace the file the link points at, keep the link
-        res.issues.append(Issue("note", str(path), f"a symbolic link: recalculated its target "
-                                f"{dest} in place (the link itself is kept)"))
-    if not in_place:
-        guard_overwrite(dest, force=force)
-        guard_hand_edits(dest, force=force)
     chart_values = None
     if "Charts" in book:
         # the book's cells already hold the refreshed constants (written above)
         chart_values = {("Charts", c.coordinate): c.value for c in book["Charts"].cells.values()}
-    if in_place and backup:
-        res.backup = _backup_path(dest)
-        with atomic_path(res.backup) as tmp:        # never a partial backup (full disk)
-            shutil.copy2(dest, tmp)
+    if in_place and not changed:
+        res.output = dest           # every value already current: the file is left alone
+        return
+    _write(res, path, dest, in_place, backup, force, lambda src, out: write_results(
+        src, out, constants=constants, cached=cached, chart_values=chart_values, book=book),
+        data.book)
+
+
+def _relayout(res: RecalcResult, data: WorkbookData, path: Path, dest: Path | None,
+              in_place: bool, backup: str, force: bool) -> None:
+    """Rebuild the workbook from its own inputs, for a layout the overrides need."""
+    why = "; ".join(data.relayout)
+    titles = {s.title for s in data.plan.sheets}
+    foreign = [s for s in data.book.sheets if s not in titles]
+    if data.plan.options.template or foreign:
+        held = "a firm's template" if data.plan.options.template else \
+            "sheets not made by swaytune (" + ", ".join(foreign) + ")"
+        raise RecalcError(f"needs another layout ({why}), but the workbook holds {held}, which "
+                          "a rebuild would not carry over: rebuild it from its project file "
+                          "(swaytune build)")
+    edited = [i for i in formula_issues(data.book, data.plan, set(data.value_cells.values()))
+              if i.kind in HAND_EDITS]
+    if edited:
+        raise RecalcError(f"needs another layout ({why}), but formulas were edited by hand "
+                          f"({', '.join(i.where for i in edited[:4])}), which a rebuild would "
+                          "lose: carry the edits over by hand, or rebuild from the project file")
+    res.issues.append(Issue("note", str(path), f"rebuilt from the workbook's inputs in a new "
+                            f"layout: {why}"))
+    if dest is None:
+        return
+
+    def build(src: Path, out: Path) -> None:
+        try:
+            write_workbook(data.project, out, force=True)
+        except (ValueError, BuildError, DrawError) as exc:
+            raise RecalcError(f"the new layout cannot be built: {exc}") from None
+
+    _write(res, path, dest, in_place, backup, force, build, data.book)
+    fresh = recalc_workbook(res.output, compare_layout=False)
+    if fresh.failed:
+        raise RecalcError(f"the rebuilt workbook cannot be read back: {fresh.error}")
+    res.results, res.checks = fresh.results, fresh.checks
+    res.issues.extend(fresh.issues)
+
+
+#: Relative difference below which a stored number counts as the same value: another writer
+#: may keep 15-16 significant digits where recalculation writes the shortest exact repr [-].
+SAME_VALUE_RTOL = 1e-15
+
+
+def _same_value(old: Any, new: Any) -> bool:
+    if isinstance(old, float) and isinstance(new, float):
+        return math.isclose(old, new, rel_tol=SAME_VALUE_RTOL, abs_tol=0.0)
+    return type(old) is type(new) and old == new
+
+
+def _cached_changed(book: Book, cached: Mapping[tuple[str, str], Any]) -> bool:
+    """Whether a new cached value differs from the one the file holds (:func:`_same_value`)."""
+    for (sheet, coord), v in cached.items():
+        old = book[sheet].cells.get(split_coord(coord))
+        if old is None or not _same_value(old.cached, v):
+            return True
+    return False
+
+
+def _same_package(path: Path, book: Book) -> bool:
+    """Whether the package at ``path`` holds exactly the members of ``book`` (as read)."""
     try:
-        write_results(dest if in_place else path, dest, constants=constants, cached=cached,
-                      chart_values=chart_values, book=book)     # the package as read above
-    except BaseException:
-        if res.backup is not None:                  # the original is untouched: no backup
-            res.backup.unlink(missing_ok=True)
-            res.backup = None
-        raise
-    res.output = dest
+        with zipfile.ZipFile(path) as z:
+            infos = z.infolist()
+            if [i.filename for i in infos] != [i.filename for i, _ in book.members]:
+                return False
+            return all(z.read(i) == raw for i, (_, raw) in zip(infos, book.members))
+    except (OSError, zipfile.BadZipFile):
+        return False
 
 
-def _backup_path(path: Path) -> Path:
+def _write(res: RecalcResult, path: Path, dest: Path, in_place: bool, backup: str,
+           force: bool, write, book: Book) -> None:
+    """Write the output through ``write(source, out)``: a new file, or the workbook itself
+    (atomically; a backup only when its content changes)."""
+    if not in_place:
+        guard_overwrite(dest, force=force)
+        guard_hand_edits(dest, force=force)
+        write(path, dest)
+        res.output, res.rewritten = dest, True
+        return
+    if path.is_symlink():
+        dest = path.resolve()       # replace the file the link points at, keep the link
+        res.issues.append(Issue("note", str(path), f"a symbolic link: recalculated its target "
+                                f"{dest} in place (the link itself is kept)"))
+    scratch = dest.with_name(f".{dest.name}.swaytune-new")
+    try:
+        write(dest, scratch)
+        if _same_package(scratch, book):
+            res.output = dest           # nothing changed: no backup, the file untouched
+            return
+        if backup != "none":
+            res.backup = _backup_path(dest, keep=backup == "keep")
+            if backup != "keep":
+                guard_overwrite(res.backup, force=force)
+            with atomic_path(res.backup) as tmp:        # never a partial backup (full disk)
+                shutil.copy2(dest, tmp)
+        shutil.copymode(dest, scratch)     # the workbook keeps its own permissions
+        os.replace(scratch, dest)
+        res.output, res.rewritten = dest, True
+    finally:
+        scratch.unlink(missing_ok=True)
+
+
+def _backup_path(path: Path, keep: bool = False) -> Path:
+    """``<name>.bak`` (one per workbook, replaced), or with ``keep`` a new time-stamped one."""
+    if not keep:
+        return path.with_name(f"{path.name}.bak")
     stamp = _dt.datetime.now().strftime("%Y%m%d-%H%M%S")
     cand = path.with_name(f"{path.name}.{stamp}.bak")
     n = 1
@@ -391,8 +590,9 @@ def _same_file(a: Path, b: Path) -> bool:
 def recalc_workbook(path: str | os.PathLike, outdir: str | os.PathLike | None = None,
                     in_place: bool = False, backup: bool = True, *,
                     output: str | os.PathLike | None = None,
-                    inputs: Mapping[str, float] | None = None,
-                    compare_layout: bool = True, force: bool = False) -> RecalcResult:
+                    inputs: Mapping[str, Any] | None = None,
+                    compare_layout: bool = True, force: bool = False,
+                    keep_backups: bool = False) -> RecalcResult:
     """Recalculate one workbook with the engine and write the updated copy.
 
     Parameters
@@ -404,16 +604,21 @@ def recalc_workbook(path: str | os.PathLike, outdir: str | os.PathLike | None = 
     in_place : bool, optional
         Replace ``path`` itself, atomically (explicit opt-in) [-].
     backup : bool, optional
-        With ``in_place``, first copy the original to ``<name>.<time>.bak`` [-].
+        With ``in_place``, copy the original to ``<name>.bak`` before it is replaced (only
+        when its content changes) [-].
     output : path-like, optional
         Exact output file (instead of ``outdir``) [-].
     inputs : mapping, optional
-        Input overrides, in the unit shown in the workbook (see
-        :func:`workbook_builder.recalc.read.read_workbook`) [-].
+        Input overrides as the project file writes them: glossary name -> a number in SI
+        units, ``{"value": 25, "unit": "milli-g"}`` or ``"25 milli-g"``; ``tuning_method``
+        -> a choice; None leaves an optional input out. :func:`read_inputs` returns this form.
+        An override the layout has no place for rebuilds the workbook from its inputs [-].
     compare_layout : bool, optional
         Compare every formula with the plan's (detects hand edits) [-].
     force : bool, optional
         Overwrite an existing output that swaytune did not make [-].
+    keep_backups : bool, optional
+        With ``in_place``, keep every backup (``<name>.<time>.bak``) instead of one [-].
 
     Returns
     -------
@@ -425,7 +630,8 @@ def recalc_workbook(path: str | os.PathLike, outdir: str | os.PathLike | None = 
     ------
     ValueError
         Only for contradictory arguments (``in_place`` with ``outdir``/``output``, an output
-        equal to the input without ``in_place``); a bad workbook is reported in the result.
+        equal to the input without ``in_place``) and bad ``inputs`` (naming the input, the
+        value and the valid range); a bad workbook is reported in the result.
 
     Examples
     --------
@@ -448,6 +654,11 @@ def recalc_workbook(path: str | os.PathLike, outdir: str | os.PathLike | None = 
     0.15 11.383 OK
     0.2 6.403 OK
     0.25 4.098 OK
+    >>> from workbook_builder.recalc import read_inputs
+    >>> same = recalc_workbook(folder / "base.xlsx", output=folder / "same.xlsx",
+    ...                        inputs=read_inputs(folder / "base.xlsx"))
+    >>> same.changes
+    []
     """
     t0 = time.perf_counter()
     path = Path(path)
@@ -458,10 +669,12 @@ def recalc_workbook(path: str | os.PathLike, outdir: str | os.PathLike | None = 
     if dest is not None and not in_place and _same_file(dest, path):
         raise ValueError(f"the output {dest} is the input itself; use in_place=True (keeps a "
                          "backup) or another output folder")
+    overrides = parse_overrides(inputs)
+    keep = "none" if not backup else ("keep" if keep_backups else "one")
     res = RecalcResult(path=path)
     try:
         with _gc_paused():
-            _recalc(res, path, dest, in_place, backup, inputs, compare_layout, force)
+            _recalc(res, path, dest, in_place, keep, overrides, compare_layout, force)
     except (RecalcError, OverwriteRefused) as exc:
         res.error, res.output = str(exc), None
     except Exception as exc:  # noqa: BLE001 - one bad file must not stop a batch

@@ -142,12 +142,13 @@ def _targeted_sub(xml: str, refs: set[str], repl) -> str | None:
     return "".join(out)
 
 
-def rewrite_cells(xml: str, sheet: str, constants: Mapping[str, float] | None = None,
+def rewrite_cells(xml: str, sheet: str, constants: Mapping[str, Any] | None = None,
                   cached: Mapping[str, Any] | None = None, *, require_all: bool = False) -> str:
     """One pass over a worksheet part: new constant values and new cached values.
 
     ``constants`` and ``cached`` map a cell (``"D12"``) to its value. A constant is written
-    only into a cell without a formula (as a number), a cached value only into a formula cell
+    only into a cell without a formula (a number, or a text as an inline string), a cached
+    value only into a formula cell
     (:func:`encode_value`); the formula text and every other attribute and element are kept.
     Only the cells to change are located (the cost grows with their number, not with the size
     of the sheet) unless ``require_all`` asks that every formula cell receive a value.
@@ -191,6 +192,10 @@ def rewrite_cells(xml: str, sheet: str, constants: Mapping[str, float] | None = 
             if not in_c:
                 return m.group(0)
             pending_c.discard(ref)
+            if isinstance(constants[ref], str):        # an engine text (a verdict, a note)
+                _, text = encode_value((sheet, ref), constants[ref])
+                return (f'<{p}c{new_attrs} t="inlineStr"><{p}is><{p}t xml:space="preserve">'
+                        f'{text}</{p}t></{p}is></{p}c>')
             x = float(constants[ref])
             if not math.isfinite(x):
                 raise PackageError(f"{sheet}!{ref}: refusing to write {x!r}")
