@@ -15,10 +15,11 @@ name of the topic modules is re-exported here::
     worksheet     closed forms written twice: numpy and native worksheet formula
     chain         the design chain as declared steps, each beside its worksheet formula
     design        the whole design chain -> DesignResult with checks
+    study         the design chain over broadcast input arrays -> DesignTable (columns)
     simulation    time-domain check of the pendulum damper on the building mode
 """
 from functions import (chain, closed_forms, damper, design, optima, pendulum, quantities,
-                       simulation, structure, worksheet)
+                       simulation, structure, study, worksheet)
 from functions.chain import *  # noqa: F401,F403
 from functions.closed_forms import *  # noqa: F401,F403
 from functions.damper import *  # noqa: F401,F403
@@ -28,10 +29,11 @@ from functions.pendulum import *  # noqa: F401,F403
 from functions.quantities import *  # noqa: F401,F403
 from functions.simulation import *  # noqa: F401,F403
 from functions.structure import *  # noqa: F401,F403
+from functions.study import *  # noqa: F401,F403
 from functions.worksheet import *  # noqa: F401,F403
 
 __version__ = "0.2.0"
 
 __all__ = sorted({*pendulum.__all__, *structure.__all__, *closed_forms.__all__,
                   *damper.__all__, *optima.__all__, *quantities.__all__, *worksheet.__all__,
-                  *chain.__all__, *design.__all__, *simulation.__all__})
+                  *chain.__all__, *design.__all__, *study.__all__, *simulation.__all__})

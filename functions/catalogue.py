@@ -619,6 +619,9 @@ BY_NAME: dict[str, SheetFunction] = {f.name: f for f in FUNCTIONS}
 
 #: Public engine functions with no worksheet function of their own, and why.
 COVERED_ELSEWHERE: dict[str, str] = {
+    "functions.study.design_table":
+        "a table of whole designs over input arrays, for scripts; in a sheet, SWAY_DESIGN "
+        "copied down rows of inputs gives one design per row",
     "functions.design.design_tuning":
         "the optimum as the design chain applies it; SWAY_OPTIMAL_TUNING_RATIO and "
         "SWAY_OPTIMAL_DAMPER_DAMPING give it (structural_damping 0 for a closed form)",

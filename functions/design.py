@@ -70,6 +70,12 @@ class DesignInputs:
         out: dict[str, Any] = {}
         for q in declared:
             value = values.get(q.name)
+            if isinstance(value, (list, tuple)) or getattr(value, "ndim", 0):
+                raise ValueError(
+                    f"{q.name}={value!r} must be a single "
+                    f"{'text' if q.kind == 'choice' else 'number'}: design_damper "
+                    "sizes one damper; for arrays of inputs use functions.design_table, which "
+                    "broadcasts them and returns a table of designs")
             if value is not None:
                 out[q.name] = q.validate(value)
             elif q.required:
