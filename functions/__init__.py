@@ -15,6 +15,7 @@ name of the topic modules is re-exported here, imported on first use::
     worksheet     closed forms written twice: numpy and native worksheet formula
     chain         the design chain as declared steps, each beside its worksheet formula
     design        the whole design chain -> DesignResult with checks
+    study         the design chain over broadcast input arrays -> DesignTable (columns)
     simulation    time-domain check of the pendulum damper on the building mode
 """
 import importlib
@@ -26,7 +27,7 @@ __version__ = "0.2.0"
 #: (PEP 562), so ``import functions.quantities`` or the ``swaytune --version`` command does not
 #: pay for scipy's start-up.
 TOPICS = ("pendulum", "structure", "closed_forms", "damper", "optima", "quantities",
-          "worksheet", "chain", "design", "simulation")
+          "worksheet", "chain", "design", "study", "simulation")
 
 
 def _topic(name: str) -> Any:

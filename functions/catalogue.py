@@ -421,13 +421,16 @@ DAMPER: tuple[SheetFunction, ...] = (
         "damper", example=(0.25, 0.15, 0.015)),
     SheetFunction(
         "SWAY_REQUIRED_MASS_RATIO", damper.required_mass_ratio,
-        "Smallest mass ratio whose h2-optimal damper gives a target total (effective) "
-        "damping; 0 when the structure alone has it [-].",
+        "Smallest mass ratio whose damper, tuned by the method (h2 unless given), gives a "
+        "target total (effective) damping; 0 when the structure alone has it [-].",
         "Required mass ratio", "-",
         (Argument("total_damping", "Target effective damping ratio, > 0 and < 1 (0.04 for "
                   "4 %) [-].", "-", fraction=True),
          Argument("structural_damping", "Damping ratio of the structure without the damper, "
-                  "0 to 0.3 [-]. Empty: 0.", "-", default=0.0, fraction=True)),
+                  "0 to 0.3 [-]. Empty: 0.", "-", default=0.0, fraction=True),
+         Argument("method", "Tuning method, as the design applies it (a closed form tuned for "
+                  "an undamped structure; h2, hinf for the damped one) [-]. Empty: h2.", "-",
+                  default="h2", kind=TEXT, choices=damper.OPTIMAL_TUNING_METHODS)),
         "damper", example=(0.04, 0.01)),
     SheetFunction(
         "SWAY_PEAK_FACTOR", damper.peak_factor,
@@ -616,6 +619,9 @@ BY_NAME: dict[str, SheetFunction] = {f.name: f for f in FUNCTIONS}
 
 #: Public engine functions with no worksheet function of their own, and why.
 COVERED_ELSEWHERE: dict[str, str] = {
+    "functions.study.design_table":
+        "a table of whole designs over input arrays, for scripts; in a sheet, SWAY_DESIGN "
+        "copied down rows of inputs gives one design per row",
     "functions.design.design_tuning":
         "the optimum as the design chain applies it; SWAY_OPTIMAL_TUNING_RATIO and "
         "SWAY_OPTIMAL_DAMPER_DAMPING give it (structural_damping 0 for a closed form)",

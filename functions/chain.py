@@ -7,7 +7,10 @@ before it. Most steps are closed forms: their ``compute`` is a numpy twin carryi
 worksheet formula the workbook writes (:func:`functions.worksheet.twin`), so the engine
 (:func:`functions.design.design_damper`) and the workbook evaluate one declaration. Where no
 closed form exists (the required mass ratio, the numerical h2 and hinf optima) the step is an
-engine value: the workbook shows the engine's number and flags it when its inputs change. Two
+engine value: the workbook shows the engine's number and flags it when its inputs change. The
+required mass ratio is solved for the chain's own tuning method, the damper tuned as the chain
+tunes it (a closed form as printed, i.e. ignoring the structure's damping; h2 and hinf for the
+damped structure), so the required damper meets the limit whatever the method. Two
 steps run through helper cells of the Pendulum sheet in a workbook (the pendulum length's fixed
 point and the AGM of the swing); their ``formula`` names that helper and the engine computes
 them exactly (:func:`functions.pendulum.pendulum_length`,
@@ -118,7 +121,25 @@ SMALL_SWING_ERROR = (f"=IF({_T}<0.1,{_T}^2/16+11*{_T}^4/3072+173*{_T}^6/737280"
                      f"+22931*{_T}^8/1321205760,1/agm_at_swing-1)")
 
 
-def _mass_steps(mode: str) -> tuple[Step, ...]:
+def _required_mass_ratio_step(method: str) -> Step:
+    """The required mass ratio for the damper that ``method`` tunes (an engine value)."""
+    if method in CLOSED_FORMS:
+        how = (f"Root of zeta_eff(mu) = zeta_req for the {method} damper, tuned as printed "
+               "(undamped structure) on the damped structure (brentq); "
+               f"functions.damper.required_mass_ratio(method='{method}')")
+    elif method == "h2":
+        how = ("Root of zeta_eff(mu) = zeta_req for the h2-optimal damper (brentq); "
+               "functions.damper.required_mass_ratio")
+    else:
+        how = (f"Root of zeta_eff(mu) = zeta_req for the {method}-optimal damper (brentq); "
+               f"functions.damper.required_mass_ratio(method='{method}')")
+    return Step("mass_ratio",
+                lambda required_damping, structural_damping:
+                required_mass_ratio(required_damping, structural_damping, method),
+                "zeta_eff(mu, f_opt, zeta_opt, zeta_s) = zeta_req", how)
+
+
+def _mass_steps(method: str, mode: str) -> tuple[Step, ...]:
     if mode == "chosen_mass_ratio":
         return (
             _step("mass_ratio", "=chosen_mass_ratio", lambda chosen_mass_ratio:
@@ -136,12 +157,7 @@ def _mass_steps(mode: str) -> tuple[Step, ...]:
     if mode != "required":
         raise ValueError(f"mode={mode!r} must be one of {', '.join(MASS_RATIO_MODES)}")
     return (
-        Step("mass_ratio",
-             lambda required_damping, structural_damping:
-             required_mass_ratio(required_damping, structural_damping),
-             "zeta_eff(mu, f_opt, zeta_opt, zeta_s) = zeta_req",
-             "Root of zeta_eff(mu) = zeta_req for the h2-optimal damper (brentq); "
-             "functions.damper.required_mass_ratio"),
+        _required_mass_ratio_step(method),
         _step("damper_mass", "=mass_ratio*modal_mass", lambda mass_ratio, modal_mass:
               mass_ratio * modal_mass, "mu M*"),
     )
@@ -215,7 +231,7 @@ def sections(method: str, mode: str) -> tuple[Section, ...]:
                   "Resonant response ~ 1/sqrt(zeta): EN 1991-1-4:2005 Annex B, B.2(6)"),
         ), "Preliminary rule for the resonant part of the response; the background part is "
            "not reduced by a damper."),
-        Section("2  Mass ratio and damper mass", _mass_steps(mode),
+        Section("2  Mass ratio and damper mass", _mass_steps(method, mode),
                 "M* is the generalised mass of the mode normalised to 1 at the damper."),
         Section("3  Optimal tuning and damping", _tuning_steps(method) + (
             _step("damper_frequency", "=tuning_ratio*structure_frequency",

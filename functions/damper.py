@@ -52,21 +52,10 @@ from functions.closed_forms import CLOSED_FORM_METHODS, CLOSED_FORMS
 from functions.optima import _h2_optimum, _hinf_optimum
 
 __all__ = [
-    "OPTIMAL_TUNING_METHODS",
-    "CLOSED_FORM_METHODS",
-    "CLOSED_FORMS",
-    "damper_mass_ratio",
-    "optimal_tuning",
-    "displacement_variance_ratio",
-    "effective_damping",
-    "stroke_ratio",
-    "required_damping",
-    "required_mass_ratio",
-    "peak_factor",
-    "frequency_response",
-    "MIN_NUMERICAL_MASS_RATIO",
-    "MAX_NUMERICAL_MASS_RATIO",
-    "MAX_NUMERICAL_STRUCTURAL_DAMPING",
+    "OPTIMAL_TUNING_METHODS", "CLOSED_FORM_METHODS", "CLOSED_FORMS", "damper_mass_ratio",
+    "optimal_tuning", "displacement_variance_ratio", "effective_damping", "stroke_ratio",
+    "required_damping", "required_mass_ratio", "peak_factor", "frequency_response",
+    "MIN_NUMERICAL_MASS_RATIO", "MAX_NUMERICAL_MASS_RATIO", "MAX_NUMERICAL_STRUCTURAL_DAMPING",
 ]
 
 #: Every method accepted by :func:`optimal_tuning`; ``h2`` and ``hinf`` are numerical and hold for
@@ -598,14 +587,17 @@ def required_damping(acceleration, acceleration_limit, structural_damping):
     return scalar_or_array(zs * (a / lim) ** 2)
 
 
-def _h2_effective(mu: float, zs: float) -> float:
-    f, zd = _numerical_optimum(np.array([mu]), np.array([zs]), "h2")
+def _tuned_effective(mu: float, zs: float, method: str) -> float:
+    """zeta_eff of the damper ``method`` tunes as the design chain does (closed form: zs = 0)."""
+    m = np.array([mu])
+    f, zd = _closed_form(m, method) if method in CLOSED_FORMS else \
+        _numerical_optimum(m, np.array([zs]), method)
     n, d, _ = _variance_terms(mu, f[0], zd[0], zs)
     return float(d / n)
 
 
-def required_mass_ratio(total_damping, structural_damping=0.0):
-    """Mass ratio whose H2-optimal damper gives a total damping.
+def required_mass_ratio(total_damping, structural_damping=0.0, method="h2"):
+    """Mass ratio whose optimal damper gives a total damping.
 
     .. math::
 
@@ -618,23 +610,31 @@ def required_mass_ratio(total_damping, structural_damping=0.0):
         Target effective (variance-equivalent) damping ratio, in (0, 1) [-].
     structural_damping : float or array_like, optional
         Damping ratio of the structure without the damper, in [0, 0.3] [-].
+    method : str, optional
+        Tuning method of the damper, one of :data:`OPTIMAL_TUNING_METHODS` [-].
 
     Returns
     -------
     mass_ratio : float or numpy.ndarray
-        mu whose ``h2`` optimum reaches ``total_damping``; 0 when the structure alone already
-        has it (total_damping <= structural_damping) [-].
+        mu whose damper, tuned by ``method``, reaches ``total_damping``; 0 when the structure
+        alone already has it (total_damping <= structural_damping) [-].
 
     Raises
     ------
     ValueError
-        If an argument is outside its range, the arrays do not broadcast, or the target needs a
-        mass ratio above 2 (no practical damper reaches it) or below 1e-4 (negligible).
+        If an argument is outside its range, the arrays do not broadcast, or the target needs
+        a mass ratio above 2 (1 for the base forms: out of reach) or below 1e-4 (negligible).
 
     Notes
     -----
-    Solved with brentq on mu in [1e-4, 2] for each element (zeta_eff of the optimum rises
-    with mu). For an undamped structure the result
+    The damper is tuned as the design chain (:mod:`functions.chain`) tunes it: ``h2`` and
+    ``hinf`` for the damped structure; a closed form as printed, for an undamped structure
+    (its zeta_eff is then that of the damped one). h2 maximises zeta_eff: the least mass.
+
+    Solved with brentq on mu in [1e-4, 2] for each element (zeta_eff of the tuned damper
+    rises with mu there; the base-excitation forms reach critical damper damping at mu = 1.54
+    (harmonic_base) or lose zeta_eff above mu = 1.38 (white_noise_base), so their search ends
+    at 1 (computed)). For ``h2`` on an undamped structure the result
     equals the root of mu^2 + mu (1 - 12 zeta^2) - 16 zeta^2 = 0, from the exact optimum
     zeta_eff = sqrt(mu (1+mu)/(1+3 mu/4))/4 (computed; used as a check in the tests).
 
@@ -642,28 +642,37 @@ def required_mass_ratio(total_damping, structural_damping=0.0):
     --------
     >>> round(required_mass_ratio(0.04, 0.01), 5)
     0.01665
+    >>> round(required_mass_ratio(0.04, 0.01, "den_hartog"), 5)
+    0.01724
 
     References
     ----------
     1. G. B. Warburton, Earthquake Eng. Struct. Dyn. 10:381-401, 1982.
+    2. J. P. Den Hartog, Mechanical Vibrations, 4th ed., McGraw-Hill, 1956, §3.3.
     """
+    if not isinstance(method, str) or method not in OPTIMAL_TUNING_METHODS:
+        raise ValueError(f"method={method!r} must be one of {', '.join(OPTIMAL_TUNING_METHODS)}")
     tot = check_range("total_damping", total_damping, 0.0, 1.0, low_open=True, high_open=True,
                       unit="-")
     zs = _structural_damping(structural_damping, MAX_NUMERICAL_STRUCTURAL_DAMPING)
     tot, zs = broadcast(total_damping=tot, structural_damping=zs)
     out = np.zeros(tot.shape)
-    lo, hi = MIN_NUMERICAL_MASS_RATIO, MAX_NUMERICAL_MASS_RATIO
+    base = method in ("harmonic_base", "white_noise_base")      # searched up to 1: see Notes
+    lo, hi = MIN_NUMERICAL_MASS_RATIO, 1.0 if base else MAX_NUMERICAL_MASS_RATIO
     for idx in np.ndindex(tot.shape):
         t, z = float(tot[idx]), float(zs[idx])
         if t <= z:
             continue
-        if _h2_effective(hi, z) < t:
+        if _tuned_effective(hi, z, method) < t:
             raise ValueError(f"total_damping={t!r} needs a mass_ratio above {hi:g} with "
-                             f"structural_damping={z!r}; no practical damper reaches it")
-        if _h2_effective(lo, z) > t:
+                             f"structural_damping={z!r} and method={method!r}; no practical "
+                             "damper reaches it")
+        if _tuned_effective(lo, z, method) > t:
             raise ValueError(f"total_damping={t!r} needs a mass_ratio below {lo:g} with "
-                             f"structural_damping={z!r}; in practice no damper is needed")
-        out[idx] = brentq(lambda m: _h2_effective(m, z) - t, lo, hi, xtol=1e-16, rtol=1e-15)
+                             f"structural_damping={z!r} and method={method!r}; in practice "
+                             "no damper is needed")
+        out[idx] = brentq(lambda m: _tuned_effective(m, z, method) - t, lo, hi, xtol=1e-16,
+                          rtol=1e-15)
     return scalar_or_array(out)
 
 

@@ -70,6 +70,12 @@ class DesignInputs:
         out: dict[str, Any] = {}
         for q in declared:
             value = values.get(q.name)
+            if isinstance(value, (list, tuple)) or getattr(value, "ndim", 0):
+                raise ValueError(
+                    f"{q.name}={value!r} must be a single "
+                    f"{'text' if q.kind == 'choice' else 'number'}: design_damper "
+                    "sizes one damper; for arrays of inputs use functions.design_table, which "
+                    "broadcasts them and returns a table of designs")
             if value is not None:
                 out[q.name] = q.validate(value)
             elif q.required:
@@ -380,8 +386,9 @@ def design_damper(inputs: DesignInputs | None = None, **kwargs: Any) -> DesignRe
     Notes
     -----
     The steps of :mod:`functions.chain`: required damping (resonant rule, EN 1991-1-4 Annex B)
-    -> mass ratio (given, or the smallest whose h2-optimal damper reaches the required
-    damping, :func:`functions.damper.required_mass_ratio`) -> tuning (``tuning_method``; the
+    -> mass ratio (given, or the smallest whose damper, tuned by ``tuning_method`` as the next
+    step tunes it, reaches the required damping,
+    :func:`functions.damper.required_mass_ratio`) -> tuning (``tuning_method``; the
     closed forms are derived for an undamped structure and are used as printed, ignoring the
     structure's damping; ``h2`` and ``hinf`` account for it) -> effective damping ->
     acceleration with the damper (resonant rule again) -> structure displacement (harmonic

@@ -25,7 +25,8 @@ and zeta_d = g / f.
 
 Dependencies run one way, ``functions.damper -> functions.optima``:
 :func:`functions.damper.optimal_tuning` (the public dispatcher over every method) and
-:func:`functions.damper.required_mass_ratio` (which inverts the h2 effective damping) call
+:func:`functions.damper.required_mass_ratio` (which inverts the effective damping of the
+chosen method's damper) call
 :func:`_h2_optimum` and :func:`_hinf_optimum` here, while this module imports nothing from
 :mod:`functions.damper`: the caller passes the undamped closed-form optimum as the start
 (``white_noise_force`` for h2, ``nishihara_asami`` for hinf) and validates the arguments

@@ -23,7 +23,7 @@ PROMISED = {
     "optimal_tuning": ["mass_ratio", "method", "structural_damping"],
     "effective_damping": ["mass_ratio", "tuning_ratio", "damper_damping", "structural_damping"],
     "required_damping": ["acceleration", "acceleration_limit", "structural_damping"],
-    "required_mass_ratio": ["total_damping", "structural_damping"],
+    "required_mass_ratio": ["total_damping", "structural_damping", "method"],  # issue 11
     "stroke_ratio": ["mass_ratio", "tuning_ratio", "damper_damping", "structural_damping"],
 }
 
@@ -40,6 +40,7 @@ def test_defaults():
     assert sig.parameters["g"].default == functions.STANDARD_GRAVITY == 9.80665
     assert inspect.signature(functions.optimal_tuning).parameters["method"].default == "den_hartog"
     assert inspect.signature(functions.modal_mass).parameters["damper_level"].default == -1
+    assert inspect.signature(functions.required_mass_ratio).parameters["method"].default == "h2"
 
 
 def test_engine_does_not_import_xlwings():

@@ -271,6 +271,37 @@ def test_required_mass_ratio_edges():
         required_mass_ratio(0.0200001, 0.02)
 
 
+@pytest.mark.parametrize("method", OPTIMAL_TUNING_METHODS)
+@pytest.mark.parametrize("target, zs", [(0.04, 0.01), (0.05, 0.02), (0.12, 0.05), (0.03, 0.0)])
+def test_required_mass_ratio_for_every_method(method, target, zs):
+    """The damper tuned as the design chain tunes it (a closed form as printed, ignoring
+    zeta_s; h2 and hinf for the damped structure) reaches the target. Checked with the
+    independent Lyapunov variance of tests/damper_references.py: zeta_eff = pi / (2 sigma^2)
+    (bare structure, m = k = S0 = 1; T. T. Soong & M. Grigoriu, Random Vibration of Mechanical
+    and Structural Systems, 1993)."""
+    mu = required_mass_ratio(target, zs, method)
+    f, zd = optimal_tuning(mu, method, zs if method in ("h2", "hinf") else 0.0)
+    vx, _ = lyapunov_variances(mu, f, zd, zs)
+    assert math.pi / (2 * vx) == pytest.approx(target, rel=1e-9)
+    assert mu >= required_mass_ratio(target, zs) * (1 - 1e-12)     # h2 needs the least
+
+
+def test_required_mass_ratio_default_method_is_h2():
+    assert required_mass_ratio(0.04, 0.01) == required_mass_ratio(0.04, 0.01, "h2")
+    out = required_mass_ratio(np.array([0.03, 0.04]), 0.01, "hinf")
+    assert out.shape == (2,) and out[1] == required_mass_ratio(0.04, 0.01, "hinf")
+
+
+def test_required_mass_ratio_out_of_reach_names_the_method():
+    # the base-excitation forms are searched up to mu = 1 only (zeta_eff stops rising above
+    # about 1.4 for white_noise_base; computed)
+    with pytest.raises(ValueError, match=r"total_damping=0\.3 needs a mass_ratio above 1 .*"
+                                         r"method='white_noise_base'"):
+        required_mass_ratio(0.3, 0.0, "white_noise_base")
+    with pytest.raises(ValueError, match=r"method='fast' must be one of den_hartog"):
+        required_mass_ratio(0.04, 0.01, "fast")
+
+
 # ---------------------------------------------------------------------------------------------
 # peak factor (Davenport, Proc. ICE 28(2):187-196, 1964 -- confirmed form)
 # ---------------------------------------------------------------------------------------------

@@ -169,6 +169,49 @@ def test_h2_design_has_the_most_effective_damping():
                              tuning_method=method).effective_damping <= h2 * (1 + 1e-14)
 
 
+# Required mass ratio for the chosen method (issue 11): a grid of structural damping and
+# acceleration over limit, every tuning method.
+REQUIRED_GRID = [(0.005, 1.3), (0.015, 0.25 / 0.15), (0.02, 2.5), (0.04, 1.5)]
+
+
+@pytest.mark.parametrize("method", OPTIMAL_TUNING_METHODS)
+@pytest.mark.parametrize("zs, ratio", REQUIRED_GRID)
+def test_required_mass_ratio_meets_the_limit_with_every_method(method, zs, ratio):
+    """The required damper meets the limit whatever the method. Its effective damping is
+    recomputed by an independent route: the stationary variance of the 2-DOF state equations
+    (Lyapunov equation A P + P A^T + B W B^T = 0; T. T. Soong & M. Grigoriu, Random Vibration
+    of Mechanical and Structural Systems, 1993, state-space covariance analysis), with the
+    bare-structure result sigma^2 = pi S0 / (2 zeta) (m = k = S0 = 1, same source) giving
+    zeta_eff = pi / (2 sigma^2); then the resonant rule a_d = a sqrt(zeta_s / zeta_eff)
+    (EN 1991-1-4:2005 Annex B, B.2(6))."""
+    a = 0.15 * ratio
+    r = design_damper(**{**BASE, "structural_damping": zs, "acceleration": a},
+                      tuning_method=method)
+    # consistency (our own rule): the damper checked is the one the method tunes
+    assert (r.tuning_ratio, r.damper_damping) == pytest.approx(
+        design_tuning(r.mass_ratio, method, zs), rel=1e-12)
+    vx, _ = lyapunov(r.mass_ratio, r.tuning_ratio, r.damper_damping, zs)
+    a_d = a * math.sqrt(zs / (math.pi / (2 * vx)))
+    assert a_d == pytest.approx(0.15, rel=1e-9)
+    assert r.check("acceleration").ok and r.mode == "required"
+
+
+@pytest.mark.parametrize("zs, ratio", REQUIRED_GRID)
+def test_h2_needs_the_least_mass_and_other_methods_need_their_own(zs, ratio):
+    """The h2 optimum maximises the variance-equivalent damping at any mass ratio (Warburton
+    1982, the optimum for minimum displacement variance under white-noise force), so its
+    required mass ratio is the smallest; another method sized with h2's mass ratio misses the
+    limit (the fault of the h2-only sizing, by up to about 1 %; computed)."""
+    inputs = {**BASE, "structural_damping": zs, "acceleration": 0.15 * ratio}
+    h2 = design_damper(**inputs).mass_ratio
+    for method in OPTIMAL_TUNING_METHODS:
+        own = design_damper(**inputs, tuning_method=method).mass_ratio
+        assert own >= h2 * (1 - 1e-12)
+        if method != "h2":
+            short = design_damper(**inputs, mass_ratio=h2, tuning_method=method)
+            assert own > h2 and not short.check("acceleration").ok
+
+
 def test_failing_checks():
     r = design_damper(**{**BASE, "clearance": 0.5}, mass_ratio=0.004)
     assert not r.check("stroke").ok and not r.check("mass_ratio").ok
