@@ -45,7 +45,6 @@ from __future__ import annotations
 import math
 
 import numpy as np
-from scipy.optimize import brentq
 
 from functions._validation import broadcast, check_range, scalar_or_array
 from functions.closed_forms import CLOSED_FORM_METHODS, CLOSED_FORMS
@@ -671,6 +670,7 @@ def required_mass_ratio(total_damping, structural_damping=0.0, method="h2"):
             raise ValueError(f"total_damping={t!r} needs a mass_ratio below {lo:g} with "
                              f"structural_damping={z!r} and method={method!r}; in practice "
                              "no damper is needed")
+        from scipy.optimize import brentq   # lazy import: scipy.optimize's start-up (0.15 s)
         out[idx] = brentq(lambda m: _tuned_effective(m, z, method) - t, lo, hi, xtol=1e-16,
                           rtol=1e-15)
     return scalar_or_array(out)

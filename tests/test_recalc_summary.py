@@ -210,15 +210,15 @@ def test_report_of_ok_not_ok_edited_and_failed_workbooks():
     lines = out.getvalue().splitlines()
     assert lines == [
         "OK      in/tower.xlsx -> out/tower.xlsx",
-        "        inputs changed: Frequency of the mode: 0.2 -> 0.25 Hz",
+        "        inputs changed:  Frequency of the mode: 0.2 -> 0.25 Hz",
         "        results changed: Damper mass: 480000 -> 512000 kg",
         "NOT OK  in/b.xlsx -> out/b.xlsx",
-        "        inputs changed: Input 0: 0 -> (none) m; Input 1: 1 -> (none) m; Input 2: 2 -> "
-        "(none) m; Input 3: 3 -> (none) m; Input 4: 4 -> (none) m; Input 5: 5 -> (none) m "
-        "(+2 more)",
+        "        inputs changed:  Input 0: 0 -> (none) m"] + [
+        f"                         Input {i}: {i} -> (none) m" for i in range(1, 6)] + [
+        "                         (+2 more in the summary)",
         f"        NOT OK: {labels[1]}; {labels[2]}",
         "EDITED  in/e.xlsx -> out/e.xlsx",
-        "        hand edits: Calculation!D16: formula edited",
+        "        hand edits:      Calculation!D16: formula edited",
         "        note: Other: a note",
         "FAILED  in/c.xlsx: empty file",
         "",

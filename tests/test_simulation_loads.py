@@ -11,8 +11,10 @@ import math
 import numpy as np
 import pytest
 from scipy.integrate import quad
+from scipy.signal import lfilter
 
 from functions.simulation import HarmonicForce, RandomForce, force_spectrum
+from functions.simulation.loads import _first_order
 
 
 def test_force_generator_statistics():
@@ -48,3 +50,15 @@ def test_force_spectrum_integrates_to_variance():
 def test_loads_reject_bad_input(make, match):
     with pytest.raises(ValueError, match=match):
         make()
+
+
+@pytest.mark.parametrize("a", [0.0, 0.3, 0.97, 0.999999])
+def test_first_order_recursion_equals_scipy_lfilter_bit_for_bit(a):
+    """The random force's filter is written out (to spare scipy.signal's start-up); it must
+    give exactly what scipy.signal.lfilter gives (reference library, direct form II
+    transposed)."""
+    x = np.random.default_rng(7).standard_normal(5000)
+    gain, state = 1.7, 0.4
+    want, _ = lfilter([gain], [1.0, -a], x, zi=[state])
+    got = _first_order(gain, a, x, state)
+    assert np.array_equal(got, want)

@@ -13,21 +13,22 @@ import shutil
 import sys
 import tempfile
 from pathlib import Path
+from typing import TYPE_CHECKING
 
 from functions.design import CAUTION
 from functions.worksheet import TWIN_TOLERANCE
 
-from .build import BuildError, BuiltWorkbook, write_workbook
-from .reference_docs import update_docs
-from .lite_export import NEXT_STEPS, export_lite
 from .plan.reference import CAUTIONS
 from .progress import Progress
 from .project import ProjectError, load_cases, load_project, output_names
-from .recalc import print_report, recalc_many
-from .xlsx import libreoffice
-from .xlsx.compare import compare_workbooks
-from .xlsx.draw import DrawError
 from .xlsx.files import OverwriteRefused, guard_hand_edits, guard_overwrite
+
+if TYPE_CHECKING:
+    from .build import BuiltWorkbook
+
+# Each command imports the rest of what it needs when it runs (marked "lazy import"): the
+# builders, the recalculation, LibreOffice and the reference generator are not all needed at
+# once, and ``swaytune recalc`` on one workbook should start quickly.
 
 __all__ = ["print_cautions", "summary_line", "summary_table", "cmd_build", "cmd_examples",
            "cmd_pdf", "cmd_recalc", "cmd_lite_export", "cmd_docs", "EXPECTED_ERRORS", "run"]
@@ -59,7 +60,7 @@ def print_cautions(stream=None) -> None:
         print(f"  {text}", file=stream)
 
 
-def summary_line(label: str, built: BuiltWorkbook) -> list[str]:
+def summary_line(label: str, built: "BuiltWorkbook") -> list[str]:
     """One line of the build summary: key results and verdicts of a built workbook."""
     v = built.value
     design = "OK" if all(verdict == "OK" for _, verdict in built.design_verdicts) \
@@ -81,7 +82,7 @@ def summary_line(label: str, built: BuiltWorkbook) -> list[str]:
             nonlinear]
 
 
-def all_checks_pass(built: BuiltWorkbook) -> bool:
+def all_checks_pass(built: "BuiltWorkbook") -> bool:
     """Whether every verdict of a built workbook is OK: design checks, cross-checks against
     the engine and the time-domain checks."""
     return (all(verdict == "OK" for _, verdict in built.design_verdicts + built.nonlinear_verdicts)
@@ -101,6 +102,7 @@ def summary_table(lines: list[list[str]]) -> str:
 
 
 def _build_one(project, out: Path, args) -> tuple[list[str], bool]:
+    from .build import write_workbook       # lazy import (start-up time)
     built = write_workbook(project, out, force=args.force, template=args.template)
     print(f"wrote {out}")
     for warning in project.warnings:
@@ -112,6 +114,7 @@ def _build_one(project, out: Path, args) -> tuple[list[str], bool]:
 
 
 def _pdf(path: Path, outdir: Path) -> None:
+    from .xlsx import libreoffice           # lazy import (start-up time)
     if libreoffice.find_soffice() is None:
         print("PDF not written: LibreOffice (soffice) is not installed", file=sys.stderr)
         return
@@ -140,7 +143,7 @@ def cmd_build(args) -> int:
             try:
                 lines.append(_build_one(project, outdir / name, args))
                 bar.update(name, "written")
-            except (ValueError, BuildError, DrawError, OverwriteRefused) as exc:
+            except (ValueError, RuntimeError, OverwriteRefused) as exc:   # BuildError, DrawError
                 failed.append((project.case, str(exc)))      # the other rows are built
                 bar.update(name, "FAILED")
     except KeyboardInterrupt:
@@ -190,6 +193,8 @@ def _build_example(project, out: Path, args) -> tuple[list[str], bool]:
 
     Keeps a clean working tree after the README's main command when the code has not changed.
     """
+    from .build import write_workbook                # lazy import (start-up time)
+    from .xlsx.compare import compare_workbooks      # lazy import (start-up time)
     if not out.exists():
         return _build_one(project, out, args)
     guard_overwrite(out, force=args.force)
@@ -225,6 +230,7 @@ def cmd_recalc(args) -> int:
     if args.jobs < 1:
         print(f"error: --jobs {args.jobs} must be >= 1", file=sys.stderr)
         return 2
+    from .recalc import print_report, recalc_many       # lazy import (start-up time)
     batch = recalc_many(args.paths, outdir=args.outdir, jobs=args.jobs,
                         progress=not args.no_progress, in_place=args.in_place,
                         backup=not args.no_backup, keep_backups=args.keep_backups,
@@ -244,6 +250,7 @@ def cmd_recalc(args) -> int:
 
 
 def cmd_lite_export(args) -> int:
+    from .lite_export import NEXT_STEPS, export_lite    # lazy import (start-up time)
     for path in export_lite(args.out, force=args.force):
         print(f"wrote {path}")
     print(NEXT_STEPS)
@@ -251,6 +258,7 @@ def cmd_lite_export(args) -> int:
 
 
 def cmd_docs(args) -> int:
+    from .reference_docs import update_docs            # lazy import (start-up time)
     changed = update_docs(args.dir, check=args.check)
     for path in changed:
         print(f"{path}: {'out of date' if args.check else 'updated'}")

@@ -13,13 +13,11 @@ from dataclasses import dataclass
 from typing import Any
 
 from functions.design import DesignInputs, DesignResult, design_damper
-from functions.simulation import calibrated_load, hanger_damping, simulate
-from functions.simulation.calibration import PEAK_DURATION
 
 from .plan.charts import ChartTable, swing_window_table, time_history_table
 from .project import Project
 
-__all__ = ["run_design", "run_simulation", "SimulationRun", "PEAK_DURATION"]
+__all__ = ["run_design", "run_simulation", "SimulationRun"]
 
 
 def _prefix(project: Project) -> str:
@@ -74,7 +72,7 @@ def run_simulation(project: Project, result: DesignResult) -> SimulationRun:
     on the hanger's small-angle frequency (``functions.simulation.hanger_damping``), under a
     load that gives the building WITHOUT the damper the input peak acceleration times the load
     factor (``functions.simulation.calibrated_load``: a random force, expected peak over
-    :data:`PEAK_DURATION`, or a harmonic force at the mode's frequency).
+    :data:`functions.simulation.PEAK_DURATION`, or a harmonic force at the mode's frequency).
 
     Raises
     ------
@@ -82,6 +80,10 @@ def run_simulation(project: Project, result: DesignResult) -> SimulationRun:
         When the project has no enabled [simulation] table, or from the engine (prefixed with
         the project's source name).
     """
+    # the simulation's modules load scipy.signal and scipy.integrate (about half a second):
+    # only a workbook with a Nonlinear sheet needs them
+    from functions.simulation import (PEAK_DURATION, calibrated_load,  # lazy import
+                                      hanger_damping, simulate)
     settings = project.simulation
     if settings is None or not settings.enabled:
         raise ValueError(f"{project.source_name}: the project does not ask for a simulation")

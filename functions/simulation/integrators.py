@@ -23,7 +23,6 @@ from __future__ import annotations
 import math
 
 import numpy as np
-from scipy.integrate import solve_ivp
 from scipy.linalg import expm
 
 from functions.simulation.loads import HarmonicForce, _force_at
@@ -240,6 +239,7 @@ def _nonlinear_ivp(p, y0, load, tau, forces, first_record, rtol):
     xs = max(abs(y0[0]), f_scale / K, m * L * abs(y0[2]) / M, 1e-15 * L)
     ths = max(abs(y0[2]), xs / L, 1e-15)
     atol = rtol * np.array([xs, xs * p.ws, ths, ths * p.wd]) * 1e-2
+    from scipy.integrate import solve_ivp   # lazy import: only this integrator needs it
     sol = solve_ivp(rhs, (tau[0], tau[-1]), np.asarray(y0, float), method="DOP853",
                     t_eval=tau[first_record:], rtol=rtol, atol=atol)
     if not sol.success:  # pragma: no cover - defensive

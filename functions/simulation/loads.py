@@ -22,7 +22,6 @@ import math
 from dataclasses import dataclass
 
 import numpy as np
-from scipy.signal import lfilter
 
 from functions._validation import check_range, scalar_or_array
 from functions.simulation._inputs import _scalar
@@ -100,8 +99,23 @@ class RandomForce:
             return xi
         first = self.rms * xi[0]
         gain = self.rms * math.sqrt(-math.expm1(2.0 * math.log(a))) if a > 0 else self.rms
-        rest, _ = lfilter([gain], [1.0, -a], xi[1:], zi=[a * first])
-        return np.concatenate(([first], rest))
+        return np.concatenate(([first], _first_order(gain, a, xi[1:], a * first)))
+
+
+def _first_order(gain: float, a: float, x: np.ndarray, state: float) -> np.ndarray:
+    """The recursion y[n] = gain x[n] + a y[n-1], with a y[-1] = ``state`` [N].
+
+    The same operations in the same order as ``scipy.signal.lfilter([gain], [1, -a], x,
+    zi=[state])`` (direct form II transposed; a test compares them bit for bit), without
+    importing scipy.signal, whose start-up takes half a second.
+    """
+    out = np.empty(x.size)
+    z = state
+    for i, v in enumerate(x.tolist()):
+        y = gain * v + z
+        out[i] = y
+        z = a * y
+    return out
 
 
 def force_spectrum(frequency, rms, corner_frequency):

@@ -13,7 +13,6 @@ from dataclasses import dataclass
 
 import numpy as np
 from scipy.linalg import solve_continuous_lyapunov
-from scipy.optimize import brentq
 
 from functions.pendulum import STANDARD_GRAVITY
 from functions.simulation._inputs import _scalar
@@ -97,6 +96,7 @@ def _zeta_from_variance(p: _System, variance, load: RandomForce):
     flo, fhi = f(math.log(lo)), f(math.log(hi))
     if flo < 0.0 or fhi > 0.0:
         return math.nan
+    from scipy.optimize import brentq   # lazy import: scipy.optimize's start-up (0.15 s)
     return math.exp(brentq(f, math.log(lo), math.log(hi), xtol=1e-12, rtol=1e-12))
 
 

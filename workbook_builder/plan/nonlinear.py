@@ -11,7 +11,6 @@ from __future__ import annotations
 
 from dataclasses import replace
 
-from functions.simulation.calibration import PEAK_DURATION
 
 from .calculation import engine_flag, unit_format
 from .charts import CHART_ROWS, BLUE, GREY, ORANGE, TIME_SPEC, WINDOW_SPEC, TableSpec, \
@@ -84,6 +83,8 @@ def _section(sh: SheetLayout, row: int, title: str, note: str = "") -> int:
 
 def nonlinear_sheet(options: PlanOptions) -> SheetLayout:
     """The Nonlinear sheet for ``options`` (which must carry a simulation layout)."""
+    # only a workbook with a Nonlinear sheet pays for the simulation's imports (scipy.signal)
+    from functions.simulation import PEAK_DURATION      # lazy import (start-up time)
     load, time_rows, window_rows = options.simulation
     random = load == "random"
     sh = SheetLayout("Nonlinear")

@@ -236,9 +236,12 @@ def _cell(v: Any) -> Any:
 
 
 def _listed(label: str, items: list, limit: int = 6) -> str:
-    shown = "; ".join(str(x) for x in items[:limit])
-    more = f" (+{len(items) - limit} more)" if len(items) > limit else ""
-    return f"        {label}: {shown}{more}"
+    """``label: item``, one item a line (at most ``limit``; the rest counted)."""
+    head = f"        {label + ':':<17}"
+    lines = [head + str(items[0])] + [" " * len(head) + str(x) for x in items[1:limit]]
+    if len(items) > limit:
+        lines.append(" " * len(head) + f"(+{len(items) - limit} more in the summary)")
+    return "\n".join(lines)
 
 
 def print_report(batch, stream=None) -> None:

@@ -32,7 +32,6 @@ from functions.design import CHECK_RULES
 from functions.quantities import by_name, design_inputs
 from functions.worksheet import TWIN_TOLERANCE
 
-from ..build import BuildError, write_workbook
 from ..compute import run_design, run_simulation
 from ..plan.calculation import engine_flags
 from ..plan.charts import chart_tables
@@ -44,7 +43,6 @@ from ..plan.summary import VERDICT_LABELS
 from ..plan.values import Sources, source_value
 from ..project.units import US_DISPLAY
 from ..xlsx.cached import CellError
-from ..xlsx.draw import DrawError
 from ..xlsx.files import OverwriteRefused, atomic_path, guard_hand_edits, guard_overwrite
 from ..xlsx.formulas import Evaluator, FormulaError, is_error
 from ..xlsx.package import Book, Cell, PackageError, split_coord
@@ -386,7 +384,6 @@ def _recalc(res: RecalcResult, path: Path, dest: Path | None, in_place: bool, ba
         book[sheet].cells[(r, c)] = Cell(r, c, v, "s" if isinstance(v, str) else "n", v,
                                           old.cached_type if old else "n")
     cached = _evaluate(book, plan, res)
-    changed = changed or _cached_changed(book, cached)
 
     def now(name: str) -> Any:
         loc = named.get(name)
@@ -406,7 +403,7 @@ def _recalc(res: RecalcResult, path: Path, dest: Path | None, in_place: bool, ba
     if "Charts" in book:
         # the book's cells already hold the refreshed constants (written above)
         chart_values = {("Charts", c.coordinate): c.value for c in book["Charts"].cells.values()}
-    if in_place and not changed:
+    if in_place and not (changed or _cached_changed(book, cached)):
         res.output = dest           # every value already current: the file is left alone
         return
     _write(res, path, dest, in_place, backup, force, lambda src, out: write_results(
@@ -438,9 +435,10 @@ def _relayout(res: RecalcResult, data: WorkbookData, path: Path, dest: Path | No
         return
 
     def build(src: Path, out: Path) -> None:
+        from ..build import write_workbook      # lazy import (only a new layout needs it)
         try:
             write_workbook(data.project, out, force=True)
-        except (ValueError, BuildError, DrawError) as exc:
+        except (ValueError, RuntimeError) as exc:       # BuildError, DrawError
             raise RecalcError(f"the new layout cannot be built: {exc}") from None
 
     _write(res, path, dest, in_place, backup, force, build, data.book)
