@@ -39,7 +39,7 @@ from functions.pendulum import STANDARD_GRAVITY
 
 __all__ = [
     "Quantity", "REQUIRED", "OPTIONAL", "DESIGN_INPUTS", "DESIGN_RESULTS", "HELPERS",
-    "SIMULATION_SETTINGS", "FLOOR_TABLE", "UNIT_KINDS", "quantity", "by_name",
+    "SIMULATION_SETTINGS", "FLOOR_TABLE", "UNIT_KINDS", "WORKING_VALUES", "quantity", "by_name",
     "design_inputs", "design_results", "input_relation_errors", "design_signature",
 ]
 
@@ -288,7 +288,7 @@ DESIGN_RESULTS: tuple[Quantity, ...] = (
        description="Damper mass over modal mass"),
     _q("damper_mass", "m_d", "Damper mass", "kg", "mass", fmt="#,##0", summary=True,
        description="Moving mass of the damper"),
-    _q("tuning_ratio", "f", "Optimal tuning ratio", "-", "fraction", fmt="0.000000",
+    _q("tuning_ratio", "f", "Optimal tuning ratio", "-", "fraction", fmt="0.0000",
        description="Damper frequency over structure frequency"),
     _q("damper_damping", "zeta_d", "Optimal damper damping (own frequency)", "-", "fraction",
        fmt="0.000000", summary=True,
@@ -310,7 +310,7 @@ DESIGN_RESULTS: tuple[Quantity, ...] = (
        fmt="0.0000", description="Peak displacement of the structure with the damper, "
                                  "a_d/(2 pi f_s)^2"),
     _q("stroke_ratio", "x_d/x_s", "Stroke ratio (RMS relative / RMS structure)", "-",
-       "fraction", fmt="0.000000",
+       "fraction", fmt="0.000",
        description="RMS damper displacement relative to the structure over RMS structure "
                    "displacement"),
     _q("stroke", "x_d", "Peak stroke of the damper (relative)", "m", "length", fmt="0.0000",
@@ -333,26 +333,38 @@ DESIGN_RESULTS: tuple[Quantity, ...] = (
 )
 
 _VARIANCE = "Helper of the white-noise variance"
+#: Display format of the variance helpers: 5 significant digits whatever their size (D is of
+#: the order of 1e-5, w near 1).
+_HELPER_FMT = "0.0000E+00"
 
 #: Intermediate cells of the worksheet formulas (not results of the engine's chain).
 HELPERS: tuple[Quantity, ...] = (
-    _q("var_w", "w", "Helper: w = f^2", "-", "fraction", description=_VARIANCE),
-    _q("var_g", "g", "Helper: g = zeta_d f", "-", "fraction", description=_VARIANCE),
-    _q("var_x", "X", "Helper: X = zeta_s w + g", "-", "fraction", description=_VARIANCE),
-    _q("var_y", "Y", "Helper: Y = g (1 + mu) + zeta_s", "-", "fraction",
+    _q("var_w", "w", "Helper: w = f^2", "-", "fraction", fmt=_HELPER_FMT,
        description=_VARIANCE),
-    _q("var_t", "t", "Helper: t = (1 + mu) w - 1", "-", "fraction", description=_VARIANCE),
-    _q("var_n", "N", "Helper: N (variance numerator)", "-", "fraction",
+    _q("var_g", "g", "Helper: g = zeta_d f", "-", "fraction", fmt=_HELPER_FMT,
        description=_VARIANCE),
-    _q("var_d", "D", "Helper: D (variance denominator)", "-", "fraction",
+    _q("var_x", "X", "Helper: X = zeta_s w + g", "-", "fraction", fmt=_HELPER_FMT,
+       description=_VARIANCE),
+    _q("var_y", "Y", "Helper: Y = g (1 + mu) + zeta_s", "-", "fraction", fmt=_HELPER_FMT,
+       description=_VARIANCE),
+    _q("var_t", "t", "Helper: t = (1 + mu) w - 1", "-", "fraction", fmt=_HELPER_FMT,
+       description=_VARIANCE),
+    _q("var_n", "N", "Helper: N (variance numerator)", "-", "fraction", fmt=_HELPER_FMT,
+       description=_VARIANCE),
+    _q("var_d", "D", "Helper: D (variance denominator)", "-", "fraction", fmt=_HELPER_FMT,
        description=_VARIANCE),
     _q("warburton_tuning_ratio", "f_W", "For comparison: Warburton white-noise-force tuning "
-       "(undamped structure)", "-", "fraction", fmt="0.000000",
+       "(undamped structure)", "-", "fraction", fmt="0.0000",
        description="Warburton's white-noise-force optimum, shown beside a numerical one"),
     _q("warburton_damper_damping", "zeta_W", "For comparison: Warburton white-noise-force "
        "damping (undamped structure)", "-", "fraction", fmt="0.000000",
        description="Warburton's white-noise-force optimum, shown beside a numerical one"),
 )
+
+#: Defined names of the helpers that are working values only (the white-noise variance's
+#: terms): a workbook groups them on a page of their own.
+WORKING_VALUES: tuple[str, ...] = tuple(q.cell_name for q in HELPERS
+                                        if q.description == _VARIANCE)
 
 #: Settings of the optional time-domain check (project file table ``[simulation]``).
 SIMULATION_SETTINGS: tuple[Quantity, ...] = (
