@@ -28,7 +28,8 @@ INPUTS = dict(frequency=0.2, modal_mass=2e7, structural_damping=0.01, accelerati
               acceleration_limit=0.15, clearance=3.0)
 MODE_INPUT = {"chosen_mass_ratio": {"mass_ratio": 0.01},
               "chosen_damper_mass": {"damper_mass": 2e5}, "required": {}}
-US_FACTORS = {"m": ("ft", 0.3048), "kg": ("kip (weight)", 453.59237), "m/s^2": ("milli-g", 9.80665e-3),
+US_FACTORS = {"m": ("ft", 0.3048), "kg": ("kip (weight)", 453.59237),
+              "m/s^2": ("milli-g", 9.80665e-3),
               "N/m": ("kip/ft", 4448.2216152605 / 0.3048),
               "N s/m": ("kip s/ft", 4448.2216152605 / 0.3048)}
 

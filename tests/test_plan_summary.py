@@ -15,6 +15,7 @@ from functions.quantities import DESIGN_INPUTS, DESIGN_RESULTS, quantity
 from functions.worksheet import formula_names
 from workbook_builder.plan import PlanOptions
 from workbook_builder.plan.checks import NONLINEAR_CHECKS
+from workbook_builder.plan.inputs import input_comment
 from workbook_builder.plan.reference import CAUTIONS
 from workbook_builder.plan.summary import (HEADING, TITLE_BLOCK, SummaryColumns, key_results,
                                            summary_sheet)
@@ -89,7 +90,7 @@ def test_design_inputs_are_shown_with_units_and_where_they_come_from(units):
         q = next(q for q in DESIGN_INPUTS if q.name == name)
         assert _text(sheet, f"A{r}") == q.label
         value = sheet.cells[f"{_col(cols.value)}{r}"]
-        assert value.content.startswith(f"={q.cell_name}") and value.comment == q.note
+        assert value.content.startswith(f"={q.cell_name}") and value.comment == input_comment(q)
         unit = US.get(q.unit, (q.unit, 1.0))[0] if options.us else q.unit
         if options.us and q.cell_name == "gravity":
             unit = "ft/s^2"

@@ -19,6 +19,7 @@ from functions.worksheet import formula_names
 from ..project.units import us_display
 from .calculation import engine_flags, result_comment, unit_format
 from .checks import NONLINEAR_CHECKS, check_name
+from .inputs import input_comment
 from .options import PlanOptions
 from .reference import CAUTIONS
 from .sheet import Looks, SheetLayout, ref
@@ -142,7 +143,7 @@ def _inputs(sh: SheetLayout, row: int, options: PlanOptions, cols: SummaryColumn
             sh.label(row, cols.label, q.label, "box wrap")
             sh.label(row, cols.symbol, q.symbol, "box")
             unit = _shown(sh, row, cols.value, q.cell_name, q.unit, q.fmt, cols.us,
-                          comment=q.note)
+                          comment=input_comment(q))
             sh.label(row, cols.unit, unit, "box")
             if cols.us:
                 sh.formula(row, cols.input_si, f"={q.cell_name}", fmt=q.fmt,
