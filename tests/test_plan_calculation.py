@@ -17,7 +17,8 @@ from functions.design import design_damper
 from functions.quantities import WORKING_VALUES, quantity
 from functions.worksheet import formula_names
 from workbook_builder.plan import PlanOptions
-from workbook_builder.plan.calculation import calculation_sheet, engine_flags, snapshot_name
+from workbook_builder.plan.calculation import (FLAG_LABEL, calculation_sheet, engine_flags,
+                                               snapshot_name)
 from workbook_builder.plan.pendulum import pendulum_sheet
 
 from plan_workbooks import evaluator, plan_workbook
@@ -110,6 +111,9 @@ def test_flags_and_snapshots_guard_the_engine_values(method, mode):
     named = {c.name: c for c in sheet.cells.values() if c.name}
     for flag, deps in expected.items():
         assert named[flag].kind == "check"
+        # the question beside the flag is answered by its "current" (not "Inputs changed?")
+        assert sheet.cells[f"B{_row(named[flag].ref)}"].content == FLAG_LABEL
+        assert FLAG_LABEL.startswith("Engine value current?")
         for dep in deps:
             snap = named[snapshot_name(flag, dep)]
             assert (snap.kind, snap.source) == ("engine", ("snapshot", "design", dep))

@@ -156,7 +156,7 @@ def test_every_verdict_is_repeated_and_coloured(options, extra):
 
 
 def test_summary_prints_on_one_page():
-    assert summary_sheet(PlanOptions()).plan.one_page
+    assert summary_sheet(PlanOptions()).plan.pages == 1
 
 
 def test_title_block_carries_the_template_names_unless_a_template_holds_it():

@@ -63,7 +63,7 @@ def test_page_header_carries_the_project_on_every_page():
     ws["A1"] = "Title"
     header = PageHeader(number="P-7", title="Mast & deck", revision="C",
                         calculated_by="A. Author", checked_by="")
-    set_print_layout(ws, header=header, one_page=True)
+    set_print_layout(ws, header=header, pages=1)
     for part in (ws.oddHeader, ws.evenHeader):
         assert part.left.text == "P-7  Mast && deck"     # '&' starts a header code: doubled
         assert part.center.text == "Rev. C"

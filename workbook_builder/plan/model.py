@@ -139,8 +139,8 @@ class SheetPlan:
     print_area: str | None = None
     row_breaks: list[int] = field(default_factory=list)
     freeze: str | None = None
-    #: Print the sheet on one page (scaled to fit width and height).
-    one_page: bool = False
+    #: Pages the sheet is scaled to fit in height (0: as many as its width allows).
+    pages: int = 0
     #: Named ranges of this sheet: defined name -> range (``A63:C93``), e.g. a chart table.
     ranges: dict[str, str] = field(default_factory=dict)
 

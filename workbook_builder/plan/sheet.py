@@ -132,9 +132,9 @@ class SheetLayout:
 
     def page(self, *, landscape: bool = False, title_rows: str | None = None,
              print_area: str | None = None, freeze: str | None = None,
-             one_page: bool = False) -> None:
+             pages: int = 0) -> None:
         self.plan.landscape = landscape
         self.plan.title_rows = title_rows
         self.plan.print_area = print_area
         self.plan.freeze = freeze
-        self.plan.one_page = one_page
+        self.plan.pages = pages

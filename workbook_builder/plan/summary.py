@@ -250,5 +250,5 @@ def summary_sheet(options: PlanOptions) -> SheetLayout:
         row += 1
     sh.label(row, 1, "See the Cautions sheet.")
     sh.widths(cols.widths())
-    sh.page(one_page=True)
+    sh.page(pages=1)
     return sh

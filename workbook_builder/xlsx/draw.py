@@ -206,7 +206,7 @@ def _sheet(wb: Any, sp: SheetPlan, values: Mapping[tuple[str, str], Any], paper:
         ws.freeze_panes = sp.freeze
     ws.protection.sheet = True
     set_print_layout(ws, paper, landscape=sp.landscape, title_rows=sp.title_rows,
-                     print_area=sp.print_area, one_page=sp.one_page, header=header)
+                     print_area=sp.print_area, pages=sp.pages, header=header)
 
 
 def draw(plan: Plan, values: Mapping[tuple[str, str], Any], *, template: Any = None,

@@ -56,7 +56,7 @@ def header_text(header: PageHeader) -> tuple[str, str, str]:
 def set_print_layout(ws: Any, paper: str = "A4", landscape: bool = False,
                      title_rows: str | tuple[int, int] | None = None, *,
                      print_area: str | None = None, fit_to_width: bool = True,
-                     margins_in: float = 0.6, footer: bool = True, one_page: bool = False,
+                     margins_in: float = 0.6, footer: bool = True, pages: int = 0,
                      header: PageHeader | None = None) -> None:
     """Lay out an openpyxl worksheet for filing: paper, fit to width, titles, header, footer.
 
@@ -64,8 +64,8 @@ def set_print_layout(ws: Any, paper: str = "A4", landscape: bool = False,
     (``"1:3"`` or ``(1, 3)``); ``print_area`` defaults to the used range of the sheet. With
     ``fit_to_width`` the sheet is scaled to one page wide and as many pages tall as needed. With
     ``footer`` each page shows the sheet name and "Page n of N" (header/footer codes &A, &P, &N).
-    With ``one_page`` the sheet is scaled to one page. ``header`` puts the project number,
-    title, revision and calculated / checked by at the top of every page.
+    With ``pages`` > 0 the sheet is scaled to fit that many pages in height. ``header`` puts
+    the project number, title, revision and calculated / checked by at the top of every page.
 
     Raises
     ------
@@ -81,7 +81,7 @@ def set_print_layout(ws: Any, paper: str = "A4", landscape: bool = False,
     if fit_to_width:
         ws.sheet_properties.pageSetUpPr.fitToPage = True
         ws.page_setup.fitToWidth = 1
-        ws.page_setup.fitToHeight = 1 if one_page else 0
+        ws.page_setup.fitToHeight = pages
     else:
         ws.sheet_properties.pageSetUpPr.fitToPage = False
     if title_rows is not None:
