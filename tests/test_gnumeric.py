@@ -2,7 +2,8 @@
 """Built workbooks recalculated by a second spreadsheet application (Gnumeric's ssconvert).
 
 Every example workbook and a generated set (every tuning method, every way of setting the
-mass ratio, SI and US units, a floor table, designs that fail their checks) is recalculated
+mass ratio, SI and US units, a floor table, designs that fail their checks, a US workbook
+with a time-domain simulation) is recalculated
 with ``ssconvert --recalc`` (workbook_builder.xlsx.gnumeric). Then: no cell holds an error;
 every formula cell's value equals the value the builder cached (the engine's numbers and the
 builder's own evaluation of the formulas) to 1e-9 relative, 1e-12 absolute near zero; every
@@ -62,7 +63,10 @@ GENERATED = (
        ("us_required", _variant("G-11", "US", tuning_method="hinf")),
        ("chosen_ratio", _variant("G-12", tuning_method="nishihara_asami", mass_ratio=0.03)),
        # a clearance far too small and a tight swing limit: checks come out NOT OK
-       ("not_ok", _variant("G-13", tuning_method="h2", clearance=0.05, max_swing=1.0))]
+       ("not_ok", _variant("G-13", tuning_method="h2", clearance=0.05, max_swing=1.0)),
+       # a US workbook with a Nonlinear sheet (its US rows are formulas of the SI values)
+       ("us_simulation", {**_variant("G-14", "US", tuning_method="h2"),
+                          "simulation": {"load": "harmonic", "duration": 120}})]
 )
 
 
