@@ -184,10 +184,13 @@ def inputs_sheet(options: PlanOptions) -> SheetLayout:
         row += 1
     row += 1
     if options.floors:
+        # the floor table starts a page of its own under its own header (the input table's
+        # header is then not repeated: it would stand over the floor table's other columns)
+        sh.plan.row_breaks.append(row - 1)
         row = _floor_table(sh, row, options.floors)
     sh.label(row, 1, "Notes", Looks.BOLD)
     sh.text(row + 1, 1, ("info", "notes"), Looks.WRAP, name="project_notes")
     sh.merge(row + 1, 1, row + 1, 9)
     sh.widths([34, 9, 12, 9, 12, 14, 8, 16, 52])
-    sh.page(landscape=True, title_rows="1:4", freeze="C5")
+    sh.page(landscape=True, title_rows=None if options.floors else "1:4", freeze="C5")
     return sh
