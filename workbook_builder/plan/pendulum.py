@@ -20,7 +20,7 @@ from openpyxl.utils import get_column_letter
 from .sheet import Looks, SheetLayout
 
 __all__ = ["pendulum_sheet", "AGM_STEPS", "FIXED_POINT_ITERATIONS", "CONVERGENCE",
-           "SLOPE_STEP", "SLOPE_MAX"]
+           "SLOPE_STEP", "SLOPE_MAX", "SLOPE_DECIMALS"]
 
 #: Arithmetic-geometric steps per row before the final mean (quadratic convergence: a - b
 #: falls 0.29 -> 1.1e-2 -> 1.5e-5 -> 2.8e-11 at a 90 deg swing, so the mean of a3 and b3 is
@@ -37,6 +37,11 @@ CONVERGENCE = 1e-12
 #: (1e-16 / 1e-5 = 1e-11 relative, so every application shows the same slope to 1e-9) and the
 #: previous slope is kept; the rows to convergence stay the same (computed).
 SLOPE_STEP = 1e-5
+#: Decimals the slope is rounded to: the difference quotient of G carries the rounding noise of
+#: an application's COS and ASIN amplified by 1 / (G(L_k) - G(L_(k-1))) (measured up to 7e-10
+#: relative between Gnumeric and the builder); rounded, every application shows the same
+#: slope, and a slope 1e-6 off still gains about six digits per row.
+SLOPE_DECIMALS = 6
 #: Upper clamp of the slope (G' stays below about 0.8 wherever a fixed point exists; 1 would
 #: divide by zero).
 SLOPE_MAX = 0.95
@@ -97,8 +102,8 @@ def pendulum_sheet() -> SheetLayout:
         else:
             p = r - 1
             sh.formula(r, s_col, f"=IF(ABS(B{r}-B{p})>{SLOPE_STEP:.0E}*B{r},"
-                                 f"MIN(MAX(({g}{r}-{g}{p})/(B{r}-B{p}),0),{SLOPE_MAX}),"
-                                 f"{s}{p})", fmt="0.0000", style="box")
+                                 f"ROUND(MIN(MAX(({g}{r}-{g}{p})/(B{r}-B{p}),0),{SLOPE_MAX}),"
+                                 f"{SLOPE_DECIMALS}),{s}{p})", fmt="0.000000", style="box")
         sh.formula(r, next_col_n, f"=B{r}+({g}{r}-B{r})/(1-{s}{r})", fmt=_LENGTH_FMT,
                    style="box", name="fixed_point_length" if last else "", unit="m",
                    label="Pendulum length after the last iteration")
