@@ -39,7 +39,7 @@ from functions.pendulum import STANDARD_GRAVITY
 
 __all__ = [
     "Quantity", "REQUIRED", "OPTIONAL", "DESIGN_INPUTS", "DESIGN_RESULTS", "HELPERS",
-    "SIMULATION_SETTINGS", "FLOOR_TABLE", "UNIT_KINDS", "quantity", "by_name",
+    "SIMULATION_SETTINGS", "FLOOR_TABLE", "UNIT_KINDS", "WORKING_VALUES", "quantity", "by_name",
     "design_inputs", "design_results", "input_relation_errors", "design_signature",
 ]
 
@@ -209,6 +209,9 @@ def _q(*args: Any, **kwargs: Any) -> Quantity:
 
 
 _PRACTICE = "Common practice, no source."
+#: Display format of lengths: 4 decimals below 10 m, 3 below 100 m, then 2 (5 significant
+#: digits from 1 m to 1000 m, 3 or 4 below).
+_LENGTH_FMT = "[<10]0.0000;[<100]0.000;0.00"
 
 #: Inputs of the design chain (``functions.design.DesignInputs``), in the order of the
 #: workbook's Inputs sheet.
@@ -254,7 +257,7 @@ DESIGN_INPUTS: tuple[Quantity, ...] = (
             "undamped one. The Calculation sheet is laid out for the method (rebuild to "
             "change it)."),
     _q("clearance", "x_max", "Available peak stroke (one side)", "m", "length", 0.0, 100.0,
-       low_open=True, fmt="0.0000", section="damper", summary=True,
+       low_open=True, fmt=_LENGTH_FMT, section="damper", summary=True,
        description="Available peak stroke of the damper, one side",
        note="Free travel of the mass to the nearest obstruction or buffer."),
     _q("max_swing_deg", "theta_max", "Accepted swing angle", "deg", "angle", 0.0, 45.0,
@@ -288,7 +291,7 @@ DESIGN_RESULTS: tuple[Quantity, ...] = (
        description="Damper mass over modal mass"),
     _q("damper_mass", "m_d", "Damper mass", "kg", "mass", fmt="#,##0", summary=True,
        description="Moving mass of the damper"),
-    _q("tuning_ratio", "f", "Optimal tuning ratio", "-", "fraction", fmt="0.000000",
+    _q("tuning_ratio", "f", "Optimal tuning ratio", "-", "fraction", fmt="0.0000",
        description="Damper frequency over structure frequency"),
     _q("damper_damping", "zeta_d", "Optimal damper damping (own frequency)", "-", "fraction",
        fmt="0.000000", summary=True,
@@ -296,7 +299,7 @@ DESIGN_RESULTS: tuple[Quantity, ...] = (
     _q("damper_frequency", "f_d", "Damper frequency", "Hz", "frequency", fmt="0.00000",
        summary=True, description="Natural frequency of the damper"),
     _q("small_angle_length", "L_0", "Small-angle pendulum length", "m", "length",
-       fmt="0.0000", description="Pendulum length tuned to f_d at small swings, "
+       fmt=_LENGTH_FMT, description="Pendulum length tuned to f_d at small swings, "
                                  "g/(2 pi f_d)^2"),
     _q("effective_damping", "zeta_eff", "Effective damping (equal displacement variance)",
        "-", "fraction", fmt="0.000000", summary=True,
@@ -307,16 +310,16 @@ DESIGN_RESULTS: tuple[Quantity, ...] = (
        description="Peak acceleration with the damper, a sqrt(zeta_s/zeta_eff) (resonant "
                    "response)"),
     _q("structure_displacement", "x_s", "Peak displacement of the structure", "m", "length",
-       fmt="0.0000", description="Peak displacement of the structure with the damper, "
+       fmt=_LENGTH_FMT, description="Peak displacement of the structure with the damper, "
                                  "a_d/(2 pi f_s)^2"),
     _q("stroke_ratio", "x_d/x_s", "Stroke ratio (RMS relative / RMS structure)", "-",
-       "fraction", fmt="0.000000",
+       "fraction", fmt="0.000",
        description="RMS damper displacement relative to the structure over RMS structure "
                    "displacement"),
-    _q("stroke", "x_d", "Peak stroke of the damper (relative)", "m", "length", fmt="0.0000",
+    _q("stroke", "x_d", "Peak stroke of the damper (relative)", "m", "length", fmt=_LENGTH_FMT,
        summary=True, description="Peak damper displacement relative to the structure"),
     _q("pendulum_length", "L", "Pendulum length in tune at the design swing", "m", "length",
-       fmt="0.0000", summary=True, description="Pendulum length in tune at its design swing"),
+       fmt=_LENGTH_FMT, summary=True, description="Pendulum length in tune at its design swing"),
     _q("swing_angle_deg", "theta", "Swing angle at the design stroke", "deg", "angle",
        fmt="0.000", summary=True, description="Design swing angle, asin(x_d/L)"),
     _q("small_angle_error", "e", "Small-angle period error at that swing", "-", "fraction",
@@ -333,26 +336,38 @@ DESIGN_RESULTS: tuple[Quantity, ...] = (
 )
 
 _VARIANCE = "Helper of the white-noise variance"
+#: Display format of the variance helpers: 5 significant digits whatever their size (D is of
+#: the order of 1e-5, w near 1).
+_HELPER_FMT = "0.0000E+00"
 
 #: Intermediate cells of the worksheet formulas (not results of the engine's chain).
 HELPERS: tuple[Quantity, ...] = (
-    _q("var_w", "w", "Helper: w = f^2", "-", "fraction", description=_VARIANCE),
-    _q("var_g", "g", "Helper: g = zeta_d f", "-", "fraction", description=_VARIANCE),
-    _q("var_x", "X", "Helper: X = zeta_s w + g", "-", "fraction", description=_VARIANCE),
-    _q("var_y", "Y", "Helper: Y = g (1 + mu) + zeta_s", "-", "fraction",
+    _q("var_w", "w", "Helper: w = f^2", "-", "fraction", fmt=_HELPER_FMT,
        description=_VARIANCE),
-    _q("var_t", "t", "Helper: t = (1 + mu) w - 1", "-", "fraction", description=_VARIANCE),
-    _q("var_n", "N", "Helper: N (variance numerator)", "-", "fraction",
+    _q("var_g", "g", "Helper: g = zeta_d f", "-", "fraction", fmt=_HELPER_FMT,
        description=_VARIANCE),
-    _q("var_d", "D", "Helper: D (variance denominator)", "-", "fraction",
+    _q("var_x", "X", "Helper: X = zeta_s w + g", "-", "fraction", fmt=_HELPER_FMT,
+       description=_VARIANCE),
+    _q("var_y", "Y", "Helper: Y = g (1 + mu) + zeta_s", "-", "fraction", fmt=_HELPER_FMT,
+       description=_VARIANCE),
+    _q("var_t", "t", "Helper: t = (1 + mu) w - 1", "-", "fraction", fmt=_HELPER_FMT,
+       description=_VARIANCE),
+    _q("var_n", "N", "Helper: N (variance numerator)", "-", "fraction", fmt=_HELPER_FMT,
+       description=_VARIANCE),
+    _q("var_d", "D", "Helper: D (variance denominator)", "-", "fraction", fmt=_HELPER_FMT,
        description=_VARIANCE),
     _q("warburton_tuning_ratio", "f_W", "For comparison: Warburton white-noise-force tuning "
-       "(undamped structure)", "-", "fraction", fmt="0.000000",
+       "(undamped structure)", "-", "fraction", fmt="0.0000",
        description="Warburton's white-noise-force optimum, shown beside a numerical one"),
     _q("warburton_damper_damping", "zeta_W", "For comparison: Warburton white-noise-force "
        "damping (undamped structure)", "-", "fraction", fmt="0.000000",
        description="Warburton's white-noise-force optimum, shown beside a numerical one"),
 )
+
+#: Defined names of the helpers that are working values only (the white-noise variance's
+#: terms): a workbook groups them on a page of their own.
+WORKING_VALUES: tuple[str, ...] = tuple(q.cell_name for q in HELPERS
+                                        if q.description == _VARIANCE)
 
 #: Settings of the optional time-domain check (project file table ``[simulation]``).
 SIMULATION_SETTINGS: tuple[Quantity, ...] = (
@@ -379,7 +394,7 @@ SIMULATION_SETTINGS: tuple[Quantity, ...] = (
 #: ``[mode.floors]``); the floor heights and masses themselves are lists > 0.
 FLOOR_TABLE: tuple[Quantity, ...] = (
     _q("building_height", "h", "Building height (floor table)", "m", "length", 0.0, 1000.0,
-       low_open=True, fmt="0.0000", section="mode.floors",
+       low_open=True, fmt=_LENGTH_FMT, section="mode.floors",
        description="Height h of the power-law mode shape (z/h)^k"),
     _q("exponent", "k", "Mode shape exponent (floor table)", "-", "fraction", 0.0, 5.0,
        low_open=True, fmt="0.000", defined_name="mode_exponent", section="mode.floors",

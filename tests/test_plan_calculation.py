@@ -14,10 +14,11 @@ import pytest
 from functions.chain import all_variants, sections
 from functions.damper import CLOSED_FORM_METHODS
 from functions.design import design_damper
-from functions.quantities import quantity
+from functions.quantities import WORKING_VALUES, quantity
 from functions.worksheet import formula_names
 from workbook_builder.plan import PlanOptions
-from workbook_builder.plan.calculation import calculation_sheet, engine_flags, snapshot_name
+from workbook_builder.plan.calculation import (FLAG_LABEL, calculation_sheet, engine_flags,
+                                               snapshot_name)
 from workbook_builder.plan.pendulum import pendulum_sheet
 
 from plan_workbooks import evaluator, plan_workbook
@@ -28,7 +29,8 @@ INPUTS = dict(frequency=0.2, modal_mass=2e7, structural_damping=0.01, accelerati
               acceleration_limit=0.15, clearance=3.0)
 MODE_INPUT = {"chosen_mass_ratio": {"mass_ratio": 0.01},
               "chosen_damper_mass": {"damper_mass": 2e5}, "required": {}}
-US_FACTORS = {"m": ("ft", 0.3048), "kg": ("kip", 453.59237), "m/s^2": ("milli-g", 9.80665e-3),
+US_FACTORS = {"m": ("ft", 0.3048), "kg": ("kip (weight)", 453.59237),
+              "m/s^2": ("milli-g", 9.80665e-3),
               "N/m": ("kip/ft", 4448.2216152605 / 0.3048),
               "N s/m": ("kip s/ft", 4448.2216152605 / 0.3048)}
 
@@ -55,11 +57,16 @@ def _row(ref):
 def test_one_row_per_step_with_its_formula_or_engine_value(method, mode):
     sheet = calculation_sheet(_options(method, mode)).plan
     pairs = _step_cells(sheet, method, mode)
-    rows = [_row(c.ref) for _, c in pairs]
-    assert rows == sorted(set(rows)), "one row per step, in the chain's order"
+    main = [_row(c.ref) for s, c in pairs if s.name not in WORKING_VALUES]
+    working = [_row(c.ref) for s, c in pairs if s.name in WORKING_VALUES]
+    assert main == sorted(set(main)), "one row per step, in the chain's order"
+    # the working values (variance terms), in chain order, on a page of their own at the end
+    assert working == sorted(set(working)) and len(working) == len(WORKING_VALUES)
+    assert min(working) > max(main) and sheet.row_breaks == [min(working) - 2]
     for step, cell in pairs:
         q = quantity(step.name)
         assert cell.ref == f"D{cell.ref[1:]}" and (cell.unit, cell.fmt) == (q.unit, q.fmt)
+        assert cell.comment.startswith((q.description or q.label).rstrip(".")), step.name
         if step.is_engine_value:
             assert (cell.kind, cell.source) == ("engine", ("cell", step.name)), step.name
         else:
@@ -83,6 +90,10 @@ def test_steps_are_numbered_by_section(method, mode):
         numbers += [f"{s}.{k}" for k in range(1, len(sec.steps) + 1)]
     got = [sheet.cells[f"A{c.ref[1:]}"].content for _, c in _step_cells(sheet, method, mode)]
     assert got == numbers
+    # where the working values were, a row names them and their numbers
+    pointer = [c for c in sheet.cells.values() if str(c.content).startswith("Working values w")]
+    assert len(pointer) == 1
+    assert sheet.cells[f"A{pointer[0].ref[1:]}"].content == "4.1-7"
 
 
 @pytest.mark.parametrize("method, mode", VARIANTS)
@@ -100,6 +111,9 @@ def test_flags_and_snapshots_guard_the_engine_values(method, mode):
     named = {c.name: c for c in sheet.cells.values() if c.name}
     for flag, deps in expected.items():
         assert named[flag].kind == "check"
+        # the question beside the flag is answered by its "current" (not "Inputs changed?")
+        assert sheet.cells[f"B{_row(named[flag].ref)}"].content == FLAG_LABEL
+        assert FLAG_LABEL.startswith("Engine value current?")
         for dep in deps:
             snap = named[snapshot_name(flag, dep)]
             assert (snap.kind, snap.source) == ("engine", ("snapshot", "design", dep))
@@ -159,24 +173,29 @@ def test_flag_reports_an_input_changed_by_more_than_1e_12(method, mode):
                     flag, dep, scale)
 
 
-def test_us_columns_convert_with_exact_factors_only_for_us_units():
+def test_us_columns_come_first_and_convert_with_exact_factors():
+    """US layout: the US value and unit first (D, E), the named SI value beside (F, G); units
+    without a US counterpart are shown as they are; masses as weights in kip."""
     options = _options("h2", "required", units="US")
     result = _design("h2", "required")
     sheet = calculation_sheet(options).plan
     si_sheet = calculation_sheet(_options("h2", "required")).plan
     assert not any(c.ref[0] in "HI" for c in si_sheet.cells.values())
-    assert [sheet.cells[f"{c}4"].content for c in "HI"] == ["Value (US)", "US unit"]
+    assert [sheet.cells[f"{c}4"].content for c in "DEFG"] == ["Value (US)", "US unit",
+                                                              "Value (SI)", "SI unit"]
     ev = evaluator(_sheet_workbook(options, result))
     shown = 0
     for step, cell in _step_cells(sheet, "h2", "required"):
         r = cell.ref[1:]
+        assert cell.ref == f"F{r}", step.name
         unit = quantity(step.name).unit
+        got = ev.evaluate(f"=D{r}", "Calculation")
         if unit not in US_FACTORS:
-            assert f"H{r}" not in sheet.cells and f"I{r}" not in sheet.cells, step.name
+            assert sheet.cells[f"E{r}"].content == unit, step.name
+            assert got == ev.evaluate(f"=F{r}", "Calculation"), step.name
             continue
         us_unit, factor = US_FACTORS[unit]
-        assert sheet.cells[f"I{r}"].content == us_unit
-        got = ev.evaluate(f"=H{r}", "Calculation")
+        assert sheet.cells[f"E{r}"].content == us_unit
         assert got == pytest.approx(result.cells[step.name] / factor, rel=1e-13), step.name
         shown += 1
     assert shown >= 8

@@ -158,3 +158,24 @@ def test_nonlinear_verdicts_follow_the_simulated_values(values, expected):
     ev = evaluator(wb)
     got = tuple(ev.evaluate(f"={name}", "Checks") for name, *_ in NONLINEAR_CHECKS)
     assert got == expected
+
+
+def test_us_design_checks_show_us_values_first_with_si_beside():
+    """1 ft = 0.3048 m (exact, NIST SP 811 (2008), App. B); 1 milli-g = 9.80665e-3 m/s^2
+    (g_n exact, 3rd CGPM 1901)."""
+    us = checks_sheet(PlanOptions(units="US")).plan
+    si = checks_sheet(PlanOptions()).plan
+    assert not any(c.ref[0] in "HIJ" and c.ref[1:] in ("3", "4") for c in si.cells.values())
+    assert [us.cells[f"{c}3"].content for c in "HIJ"] == ["Value (SI)", "Limit (SI)", "SI unit"]
+    factors = {"m": ("ft", 0.3048), "m/s^2": ("milli-g", 9.80665e-3)}
+    values = {"acceleration_with_damper": 0.12, "acceleration_limit": 0.15, "stroke": 0.7,
+              "clearance": 1.6, "swing_angle_deg": 5.0, "max_swing_deg": 15.0,
+              "detuning": -6e-4, "max_detuning": 0.01, "mass_ratio": 0.01,
+              "mass_ratio_max": 0.05, "mass_ratio_min": 0.005}
+    ev = evaluator(plan_workbook([us], named=values))
+    for row, rule in enumerate(CHECK_RULES, start=4):
+        unit, factor = factors.get(rule.unit, (rule.unit, 1.0))
+        assert us.cells[f"F{row}"].content == unit and us.cells[f"J{row}"].content == rule.unit
+        limit = ev.evaluate(f"=D{row}", "Checks")
+        assert limit == pytest.approx(values[rule.limit] / factor, rel=1e-15), rule.name
+        assert ev.evaluate(f"=I{row}", "Checks") == values[rule.limit]

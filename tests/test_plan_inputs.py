@@ -16,7 +16,7 @@ from openpyxl import Workbook
 from functions.quantities import DESIGN_INPUTS, FLOOR_TABLE, by_name
 from functions.structure import modal_mass, power_law_mode_shape
 from workbook_builder.plan import PlanOptions
-from workbook_builder.plan.inputs import (FLOOR_NAMES, entered_name, factor_name,
+from workbook_builder.plan.inputs import (FLOOR_NAMES, entered_name, factor_name, input_comment,
                                           inputs_sheet, unit_name)
 from workbook_builder.project.units import UNITS
 from workbook_builder.xlsx.formulas import Evaluator, check_formula
@@ -189,3 +189,14 @@ def test_floor_heights_and_masses_must_be_positive_numbers():
     assert v.ref.startswith("C") and v.ref.split(":")[1].startswith("D")
     for x, ok in ((1e-3, True), (450.0, True), (0.0, False), (-2.0, False), ("tall", False)):
         assert _accepted(v.formula, {first: x}) is ok, x
+
+
+def test_entered_inputs_carry_a_note_with_where_they_come_from():
+    options = PlanOptions(inputs=tuple(q.name for q in DESIGN_INPUTS if q.kind != "choice"))
+    sheet = inputs_sheet(options).plan
+    entered = [c for c in sheet.cells.values() if c.kind == "input"]
+    assert len(entered) == len(options.inputs)
+    for cell in entered:
+        q = next(q for q in DESIGN_INPUTS if q.name == cell.source[1])
+        assert cell.comment == input_comment(q)
+        assert q.note in cell.comment and q.interval() in cell.comment

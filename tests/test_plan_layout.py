@@ -75,3 +75,25 @@ def test_every_engine_value_of_the_chain_is_flagged():
         assert flag in names and f"{flag}_ok" in names
         for dep in deps:
             assert f"{flag}_{dep}" in names
+
+
+@pytest.mark.parametrize("options", OPTIONS[:12], ids=lambda o: f"{o.tuning_method}-"
+                         f"{o.mass_ratio_mode}-{o.units}-{o.floors}-{(o.simulation or ['-'])[0]}")
+def test_every_sheet_with_a_header_row_freezes_it(options):
+    """A sheet whose header rows repeat on every printed page keeps them on screen too."""
+    plan = make_plan(options)
+    for sheet in plan.sheets:
+        heads = [c for c in sheet.cells.values() if c.style.split()[:1] == ["head"]]
+        if sheet.title in ("Summary", "Record"):   # one page: its tables' headers are on it
+            assert sheet.pages == 1
+            continue
+        if not heads:
+            assert sheet.title in ("Charts", "Cautions", "Record"), sheet.title
+        if not sheet.title_rows:
+            # Inputs with a floor table: its header is not repeated, the panes still freeze
+            assert not heads or (sheet.title == "Inputs" and options.floors), sheet.title
+            assert sheet.freeze is not None or not heads, sheet.title
+            continue
+        last = int(sheet.title_rows.split(":")[1])
+        assert sheet.freeze is not None, sheet.title
+        assert int("".join(ch for ch in sheet.freeze if ch.isdigit())) > last, sheet.title

@@ -142,3 +142,25 @@ def test_verdict_needs_the_departure_within_tolerance_and_a_swing_up_to_90_deg(v
     sheet = nonlinear_sheet(_options()).plan
     formula = _named(sheet)["sim_verdict"].content
     assert evaluator(plan_workbook([], named=values)).evaluate(formula, "V") == verdict
+
+
+def test_us_workbook_shows_us_values_first_with_the_named_si_values_beside():
+    """1 ft = 0.3048 m, 1 lbf = 4.4482216152605 N (exact, NIST SP 811 (2008), App. B);
+    1 milli-g = 9.80665e-3 m/s^2 (g_n exact, 3rd CGPM 1901)."""
+    us = nonlinear_sheet(PlanOptions(units="US", simulation=("random", 50, 20))).plan
+    named = _named(us)
+    for name, unit, factor in (("sim_length", "ft", 0.3048), ("sim_force", "kip",
+                                                                4448.2216152605)):
+        cell = named[name]
+        r = cell.ref[1:]
+        assert cell.ref == f"D{r}" and us.cells[f"E{r}"].content == cell.unit
+        assert us.cells[f"C{r}"].content == unit
+        ev = evaluator(plan_workbook([us], lambda source: 2.5))
+        assert ev.evaluate(f"=B{r}", "Nonlinear") == pytest.approx(2.5 / factor, rel=1e-15)
+    # the response table: a US row, then the named SI row
+    stroke = named["sim_stroke_peak"]
+    r = int(stroke.ref[1:])
+    assert stroke.ref == f"B{r}" and us.cells[f"B{r - 1}"].content == f"=B{r}/0.3048"
+    assert us.cells[f"E{r - 1}"].content == "ft" and us.cells[f"E{r}"].content == "m"
+    si = nonlinear_sheet(_options()).plan
+    assert _named(si)["sim_length"].ref[0] == "B"

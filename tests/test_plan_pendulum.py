@@ -167,13 +167,38 @@ def test_sheet_iterates_from_the_small_angle_length_with_the_planned_steps():
     first, last = 5, 5 + FIXED_POINT_ITERATIONS - 1
     assert sh.cells[f"B{first}"].content == "=small_angle_length"
     length = names["fixed_point_length"]
-    assert length.ref[1:] == str(last) and length.content.startswith("=small_angle_length*")
+    assert length.ref[1:] == str(last) and length.content.startswith(f"=B{last}+")
     # each iteration starts from the previous one's new length
     assert sh.cells[f"B{last}"].content == f"={length.ref[0]}{last - 1}"
-    # per row: L_k, theta_k, b0, a and b of each AGM step, the AGM, L_(k+1), the change
+    # the first step is the plain fixed point G(L_0) (slope 0), the later ones secant steps
+    slope_col = chr(ord(length.ref[0]) - 1)
+    assert sh.cells[f"{slope_col}{first}"].content == 0
+    assert sh.cells[f"{slope_col}{first + 1}"].content.startswith("=IF(ABS(")
+    # per row: L_k, theta_k, b0, a and b of each AGM step, the AGM, G(L_k), the slope (a
+    # constant in row 0), L_(k+1), the change
     row = [c for c in sh.cells.values() if c.kind == "formula" and c.ref[1:] == str(first)]
-    assert len(row) == 3 + 2 * AGM_STEPS + 3
+    assert len(row) == 3 + 2 * AGM_STEPS + 4
     final = int(names["agm_at_swing"].ref[1:])
     assert final > last
     assert sh.cells[f"B{final}"].content == "=pendulum_length"
     assert sh.cells[f"C{final}"].content == "=swing_angle_deg"
+
+
+def test_rows_after_convergence_are_few(sheet_workbook):
+    """The sheet shows the rows that converge, not dozens of identical ones: at a 60 deg
+    swing (a stroke of 0.75 L_0) the change reaches 0 (<= 1e-15) by row 8 of the planned
+    FIXED_POINT_ITERATIONS, below 12 deg by row 5 (computed)."""
+    assert FIXED_POINT_ITERATIONS <= 12
+    change_col = chr(ord("A") + 4 + 2 * AGM_STEPS + 4)
+    for f in FREQUENCIES:
+        l0 = STANDARD_GRAVITY / (2 * math.pi * f) ** 2
+        for ratio, by_row in ((0.2, 5), (0.75, 8)):
+            stroke = ratio * l0
+            length = float(pendulum_length(f, stroke, STANDARD_GRAVITY))
+            swing = float(np.degrees(np.arcsin(stroke / length)))
+            set_values(sheet_workbook, dict(zip(READS, (l0, stroke, length, swing))))
+            ev = evaluator(sheet_workbook, {})
+            changes = [ev.evaluate(f"=Pendulum!{change_col}{5 + k}", "V")
+                       for k in range(FIXED_POINT_ITERATIONS)]
+            assert all(c <= 1e-15 for c in changes[by_row - 1:]), (f, ratio, changes)
+            assert changes[0] > 0, (f, ratio)

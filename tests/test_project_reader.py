@@ -321,3 +321,14 @@ def test_a_damper_where_the_mode_hardly_moves_is_warned_about(tmp_path):
     p = load_project(write(tmp_path, low))
     assert len(p.warnings) == 1 and "moves only 19% as much" in p.warnings[0]
     assert load_project(write(tmp_path, FLOORS)).warnings == ()
+
+
+def test_us_project_defaults_gravity_in_feet_with_the_exact_si_value():
+    """With units = "US" the default g is shown in ft/s^2: 9.80665 / 0.3048 ft/s^2, whose
+    conversion back is exactly standard gravity (3rd CGPM 1901; 1 ft = 0.3048 m exact, NIST
+    SP 811 (2008), App. B). Our own rule for the display: common practice, no source."""
+    us = load_project(EXAMPLES / "office_tower_us.toml").inputs["g"]
+    assert (us.unit.symbol, us.si, us.given) == ("ft/s^2", 9.80665, False)
+    assert us.value * 0.3048 == 9.80665 and us.value == pytest.approx(32.174049, rel=1e-7)
+    si = load_project(EXAMPLES / "residential_tower.toml").inputs["g"]
+    assert (si.unit.symbol, si.value, si.si) == ("m/s^2", 9.80665, 9.80665)

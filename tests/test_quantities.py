@@ -16,8 +16,12 @@ from functions.design import DesignInputs
 from functions.quantities import (DESIGN_INPUTS, DESIGN_RESULTS, FLOOR_TABLE, HELPERS,
                                   SIMULATION_SETTINGS, UNIT_KINDS, design_signature,
                                   input_relation_errors, quantity)
+from workbook_builder.compute import run_design
+from workbook_builder.project import load_project
 from workbook_builder.project.units import SI_UNIT, UNITS
 from workbook_builder.xlsx.formulas import ALLOWED_FUNCTIONS
+
+from workbook_cases import EXAMPLES
 
 ALL = DESIGN_INPUTS + DESIGN_RESULTS + HELPERS + SIMULATION_SETTINGS + FLOOR_TABLE
 CELL_REF = re.compile(r"^[A-Za-z]{1,3}\d+$")
@@ -105,3 +109,44 @@ def test_help_text_states_range_and_default():
     assert quantity("max_swing_deg").help_text() == ("Largest accepted swing angle, (0, 45] "
                                                      "[deg]. Empty: 15.")
     assert len(quantity("acceleration").help_text()) <= 255
+
+
+def _shown(value: float, fmt: str) -> str:
+    """The digits a number format shows (the formats the declarations use: fixed decimals,
+    scientific, and sections with conditions such as ``[<10]0.0000;0.00``)."""
+    if fmt.startswith("["):
+        for section in fmt.split(";"):
+            cond = re.match(r"\[<([0-9.]+)\]", section)
+            if cond is None or abs(value) < float(cond.group(1)):
+                return _shown(value, section[cond.end():] if cond else section)
+    if fmt.endswith("E+00"):
+        decimals = len(fmt.split(".")[1]) - 4 if "." in fmt else 0
+        return f"{value:.{decimals}e}".split("e")[0]
+    decimals = len(fmt.split(".")[1]) if "." in fmt else 0
+    return f"{value:.{decimals}f}"
+
+
+def _significant(text: str) -> int:
+    return len(text.lstrip("-").replace(".", "").lstrip("0")) or 1
+
+
+def test_number_formats_show_what_a_reviewer_reads():
+    """3 to 5 significant digits at the example designs' values (a whole-number format
+    shows every digit of a mass or a stiffness, whole units being its reading precision);
+    the value itself keeps full precision. Our own rule: common practice, no source."""
+    numeric = [q for q in DESIGN_INPUTS + DESIGN_RESULTS + HELPERS
+               if q.kind not in ("choice", "flag", "count")]
+    assert all(q.fmt != "General" for q in numeric), [q.name for q in numeric
+                                                      if q.fmt == "General"]
+    checked = 0
+    for name in ("residential_tower", "observation_mast", "office_tower_us"):
+        cells = run_design(load_project(EXAMPLES / f"{name}.toml")).cells
+        for q in numeric:
+            value = cells.get(q.cell_name)
+            if not isinstance(value, float) or value == 0.0 or q.fmt.startswith("#,##0"):
+                continue
+            digits = _significant(_shown(value, q.fmt))
+            assert 3 <= digits <= 6 if q.cell_name == "gravity" else 3 <= digits <= 5, (
+                name, q.name, value, q.fmt)
+            checked += 1
+    assert checked > 60

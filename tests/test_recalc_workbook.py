@@ -390,7 +390,7 @@ def test_output_opens_in_libreoffice_without_errors(built, tmp_path):
         if isinstance(v, float) and key[0] in ("Calculation", "Pendulum", "Checks"):
             assert theirs[key] == pytest.approx(v, rel=1e-9, abs=1e-12), key
             n += 1
-    assert n > 400
+    assert n > 200        # the design chain, the Pendulum sheet's 10 rows, the cross-check
     # A workbook saved by LibreOffice (other package layout) is read and recalculated too.
     again = recalc_workbook(lo, outdir=tmp_path / "again")
     assert again.status == "OK", again.error or [str(i) for i in again.issues]

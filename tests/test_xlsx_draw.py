@@ -237,3 +237,18 @@ def test_set_property_replaces_a_custom_property():
     set_property(wb, "SwaytuneTest", "=second")
     props = [(p.name, p.value) for p in wb.custom_doc_props.props]
     assert props == [("SwaytuneTest", "=second")]
+
+
+def test_planned_notes_become_cell_comments_and_styled_cells_name_the_body_font(drawn):
+    plan, _, wb = drawn
+    notes = 0
+    for (sheet, ref), c in _planned(plan).items():
+        cell = wb[sheet][ref]
+        if c.comment:
+            assert cell.comment is not None and cell.comment.text == c.comment, (sheet, ref)
+            notes += 1
+        else:
+            assert cell.comment is None, (sheet, ref)
+        if c.style and cell.font is not None and (cell.font.b or cell.font.color):
+            assert cell.font.name == "Calibri", (sheet, ref)
+    assert notes > 30

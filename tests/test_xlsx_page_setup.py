@@ -10,7 +10,8 @@ from __future__ import annotations
 import openpyxl
 import pytest
 
-from workbook_builder.xlsx.page_setup import set_print_layout
+from workbook_builder.xlsx.page_setup import (HEADER_LIMIT, PageHeader, header_text,
+                                              set_print_layout)
 
 
 def test_set_print_layout_fields():
@@ -55,3 +56,25 @@ def test_set_print_layout_letter_landscape_without_fit_or_footer():
     assert "$A$1:$C$9" in str(ws.print_area)
     assert ws.page_margins.left == ws.page_margins.right == 0.5
     assert not ws.oddFooter.right.text
+
+
+def test_page_header_carries_the_project_on_every_page():
+    ws = openpyxl.Workbook().active
+    ws["A1"] = "Title"
+    header = PageHeader(number="P-7", title="Mast & deck", revision="C",
+                        calculated_by="A. Author", checked_by="")
+    set_print_layout(ws, header=header, pages=1)
+    for part in (ws.oddHeader, ws.evenHeader):
+        assert part.left.text == "P-7  Mast && deck"     # '&' starts a header code: doubled
+        assert part.center.text == "Rev. C"
+        assert part.right.text == "Calc. A. Author / Check. -"
+    assert ws.oddFooter.left.text == "&A" and ws.oddFooter.right.text == "Page &P of &N"
+    assert ws.page_setup.fitToWidth == 1 and ws.page_setup.fitToHeight == 1
+
+
+def test_header_texts_stay_within_the_applications_limit():
+    long = PageHeader(number="N" * 80, title="T " * 200, revision="R" * 40,
+                      calculated_by="C" * 90, checked_by="K\n" * 60)
+    left, centre, right = header_text(long)
+    assert len(left) + len(centre) + len(right) + 20 <= HEADER_LIMIT
+    assert "\n" not in right and left.endswith("...")

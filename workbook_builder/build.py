@@ -29,6 +29,7 @@ from .project import Project
 from .project.model import settings_text
 from .xlsx.cached import write_with_cached_values
 from .xlsx.draw import draw
+from .xlsx.page_setup import PageHeader
 from .xlsx.files import (guard_hand_edits, guard_overwrite, mark_workbook, set_digest,
                           set_hidden_name, set_property)
 from .xlsx.formulas import Evaluator, is_error
@@ -37,7 +38,7 @@ from .xlsx.template import open_template
 from functions.design import CHECK_RULES
 
 __all__ = ["BuildError", "BuiltWorkbook", "build_workbook", "write_workbook",
-           "SIMULATION_PROPERTY", "title_fields"]
+           "SIMULATION_PROPERTY", "title_fields", "page_header"]
 
 
 class BuildError(RuntimeError):
@@ -87,6 +88,15 @@ def title_fields(project: Project) -> dict[str, str]:
             "calculated_by": info.get("calculated_by", ""),
             "checked_by": info.get("checked_by", ""), "date": info.get("date", ""),
             "revision": info.get("revision", "")}
+
+
+def page_header(project: Project) -> PageHeader:
+    """The project's identification printed at the top of every page."""
+    info = project.info
+    return PageHeader(number=info.get("number", ""), title=info.get("title", ""),
+                      revision=info.get("revision", ""),
+                      calculated_by=info.get("calculated_by", ""),
+                      checked_by=info.get("checked_by", ""))
 
 
 def _mark(wb: Workbook, plan: Plan, project: Project) -> None:
@@ -150,7 +160,7 @@ def build_workbook(project: Project, *, template: str | Path | None = None,
     plan = make_plan(options_for(project, simulation, template is not None))
     values = plan_values(plan, Sources(project, result, chart_tables(result), simulation))
     tpl = open_template(template, title_fields(project)) if template is not None else None
-    wb = draw(plan, values, template=tpl)
+    wb = draw(plan, values, template=tpl, header=page_header(project))
     _mark(wb, plan, project)
     cached = _cached_values(wb, plan)
     built = BuiltWorkbook(wb, cached, result, project, plan, simulation)

@@ -239,7 +239,8 @@ def charts_sheet(options: PlanOptions) -> SheetLayout:
               x_format="0.000", y_format="0.0%", y_min=0.0, fit_x=True),
     ]
     last_row = max(p2, r2, d2, dm2, pm2 + 1)
-    sh.page(title_rows="1:2", print_area=f"A1:L{last_row}")
+    # two pages: the charts, then their tables (scaled so the longest table fits)
+    sh.page(title_rows="1:2", print_area=f"A1:L{last_row}", freeze="A3", pages=2)
     return sh
 
 

@@ -14,6 +14,7 @@ from functions.design import CHECK_RULES
 from functions.quantities import design_results, quantity
 from functions.worksheet import TWIN_TOLERANCE
 
+from ..project.units import us_display
 from .calculation import engine_flags, unit_format
 from .options import PlanOptions
 from .pendulum import CONVERGENCE
@@ -24,7 +25,9 @@ __all__ = ["checks_sheet", "check_name", "engine_name", "cross_checked", "NOT_DE
 
 #: Number format of relative differences and tolerances.
 SCIENTIFIC = "0.000E+00"
-_FULL = "0.00000000000E+00"
+#: Number format of the values compared with the engine: 5 significant digits (the relative
+#: difference beside them shows the agreement to the last digit).
+_COMPARED = "0.0000E+00"
 #: Shown for an engine value that is not defined (NaN: e.g. no detuning beyond 180 deg).
 NOT_DEFINED = "not defined"
 
@@ -86,23 +89,38 @@ def _nonlinear(sh: SheetLayout, row: int) -> int:
     return row + 1
 
 
+def _design_check(sh: SheetLayout, row: int, rule, us: bool) -> None:
+    """One design check: value, limit and lower limit in the display unit (US first, the SI
+    values beside them in H:J), the verdict in G."""
+    sh.label(row, 1, rule.label, "wrap box")
+    sh.label(row, 2, rule.rule, "box")
+    unit, factor = us_display(rule.unit) if us else (rule.unit, 1.0)
+    fmt = unit_format(unit)
+    formulas = [rule.value_formula, f"={rule.limit}", f"={rule.lower}" if rule.lower else ""]
+    for col, formula in zip((3, 4, 5), formulas):
+        if not formula:
+            sh.blank(row, col, "box")
+        elif factor == 1.0:
+            sh.formula(row, col, formula, fmt=fmt, style="box")
+        else:
+            sh.formula(row, col, f"=({formula[1:]})/{factor!r}", fmt=fmt, style="box")
+    sh.label(row, 6, unit, "box")
+    sh.check(row, 7, rule.verdict_formula, name=check_name(rule.name), label=rule.label)
+    if us:
+        for col, formula in zip((8, 9), formulas):
+            sh.formula(row, col, formula, fmt=unit_format(rule.unit), style="box secondary")
+        sh.label(row, 10, rule.unit, "box secondary")
+
+
 def checks_sheet(options: PlanOptions) -> SheetLayout:
     """The Checks sheet for ``options``."""
     sh = SheetLayout("Checks")
     sh.label(1, 1, "Checks", Looks.TITLE)
-    sh.header(3, ["Design check", "Rule", "Value", "Limit", "Lower limit", "Unit", "Verdict"])
+    sh.header(3, ["Design check", "Rule", "Value", "Limit", "Lower limit", "Unit", "Verdict"]
+              + (["Value (SI)", "Limit (SI)", "SI unit"] if options.us else []))
     row = 4
     for rule in CHECK_RULES:
-        sh.label(row, 1, rule.label, "wrap box")
-        sh.label(row, 2, rule.rule, "box")
-        sh.formula(row, 3, rule.value_formula, fmt=unit_format(rule.unit), style="box")
-        sh.formula(row, 4, f"={rule.limit}", fmt=unit_format(rule.unit), style="box")
-        if rule.lower:
-            sh.formula(row, 5, f"={rule.lower}", fmt=unit_format(rule.unit), style="box")
-        else:
-            sh.blank(row, 5, "box")
-        sh.label(row, 6, rule.unit, "box")
-        sh.check(row, 7, rule.verdict_formula, name=check_name(rule.name), label=rule.label)
+        _design_check(sh, row, rule, options.us)
         row += 1
     sh.verdicts(f"G4:G{row - 1}")
     cells = ",".join(f'{check_name(r.name)}="OK"' for r in CHECK_RULES)
@@ -124,8 +142,8 @@ def checks_sheet(options: PlanOptions) -> SheetLayout:
         q = quantity(name)
         sh.label(row, 1, q.label, "wrap box")
         sh.label(row, 2, q.symbol, "box")
-        sh.formula(row, 3, f"={name}", fmt=_FULL, style="box")
-        sh.engine(row, 4, ("cell", name), fmt=_FULL, name=engine_name(name), unit=q.unit,
+        sh.formula(row, 3, f"={name}", fmt=_COMPARED, style="box")
+        sh.engine(row, 4, ("cell", name), fmt=_COMPARED, name=engine_name(name), unit=q.unit,
                   label=f"Engine value of {q.label.lower()}")
         sh.formula(row, 5, f"=ROUND(IF(D{row}=0,ABS(C{row}),ABS(C{row}/D{row}-1)),12)",
                    fmt=SCIENTIFIC, style="box")
@@ -155,6 +173,6 @@ def checks_sheet(options: PlanOptions) -> SheetLayout:
         row += 1
     if options.simulation is not None:
         row = _nonlinear(sh, row + 2)
-    sh.widths([40, 25, 20, 20, 12, 10, 10])
-    sh.page(title_rows="1:3", freeze="A4")
+    sh.widths([40, 25, 14, 14, 12, 10, 10] + ([12, 12, 8] if options.us else []))
+    sh.page(landscape=options.us, title_rows="1:3", freeze="A4")
     return sh

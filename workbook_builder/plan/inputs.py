@@ -16,7 +16,8 @@ from functions.quantities import FLOOR_TABLE, Quantity, by_name, design_inputs
 from .options import PlanOptions
 from .sheet import Looks, SheetLayout, ref
 
-__all__ = ["inputs_sheet", "entered_name", "unit_name", "factor_name", "FLOOR_NAMES"]
+__all__ = ["inputs_sheet", "entered_name", "unit_name", "factor_name", "FLOOR_NAMES",
+           "input_comment"]
 
 #: Defined names of the floor table (besides those of its scalar quantities).
 FLOOR_NAMES = ("floor_heights_entered", "floor_masses_entered", "floor_height_unit",
@@ -39,6 +40,13 @@ def factor_name(cell_name: str) -> str:
     return f"{cell_name}_factor"
 
 
+def input_comment(q: Quantity) -> str:
+    """The cell note of an input: what it is, where it usually comes from, its valid range."""
+    what = (q.description or q.label).rstrip(".")
+    where = q.note or "Given in the project file."
+    return f"{what} [{q.unit}]. {where} Valid range {q.interval()} {q.unit}."
+
+
 def _range_rule(coord: str, q: Quantity, factor_cell: str) -> str:
     """Data-validation formula: a number in the declared range, in the entered unit."""
     conds = [f"ABS({coord})>=0"]
@@ -54,7 +62,7 @@ def _input_row(sh: SheetLayout, row: int, q: Quantity) -> None:
     sh.label(row, 1, q.label, "wrap box")
     sh.label(row, 2, q.symbol, "box")
     c = sh.input(row, 3, ("input", q.name), name=entered_name(n), label=f"{q.label} (as "
-                 "entered)")
+                 "entered)", comment=input_comment(q))
     sh.value(row, 4, source=("unit", q.name), style="box", name=unit_name(n),
              label=f"Unit of {q.label.lower()}")
     sh.value(row, 5, source=("factor", q.name), fmt="General", style="box",
@@ -104,7 +112,7 @@ def _floor_table(sh: SheetLayout, row: int, floors: int) -> int:
         sh.label(row, 1, q.label, "box")
         sh.label(row, 2, q.symbol, "box")
         c = sh.input(row, 3, ("floors", q.name), name=entered_name(q.cell_name),
-                     label=f"{q.label} (as entered)")
+                     label=f"{q.label} (as entered)", comment=input_comment(q))
         factor = f"*{factor_cell}" if factor_cell else ""
         sh.formula(row, 6, f"={c.ref}{factor}", fmt=q.fmt, style="box", name=q.cell_name,
                    unit=q.unit, label=q.label)
@@ -176,10 +184,13 @@ def inputs_sheet(options: PlanOptions) -> SheetLayout:
         row += 1
     row += 1
     if options.floors:
+        # the floor table starts a page of its own under its own header (the input table's
+        # header is then not repeated: it would stand over the floor table's other columns)
+        sh.plan.row_breaks.append(row - 1)
         row = _floor_table(sh, row, options.floors)
     sh.label(row, 1, "Notes", Looks.BOLD)
     sh.text(row + 1, 1, ("info", "notes"), Looks.WRAP, name="project_notes")
     sh.merge(row + 1, 1, row + 1, 9)
     sh.widths([34, 9, 12, 9, 12, 14, 8, 16, 52])
-    sh.page(landscape=True, title_rows="1:4", freeze="C5")
+    sh.page(landscape=True, title_rows=None if options.floors else "1:4", freeze="C5")
     return sh

@@ -51,7 +51,7 @@ class Cell:
     value of a ``text``, ``input``, ``value`` or ``engine`` cell comes from (a tuple whose first
     item is its kind, e.g. ``("input", "frequency")``, ``("cell", "tuning_ratio")``,
     ``("chart", "period", 3, 1)``). ``style`` holds space-separated look tokens drawn by
-    ``workbook_builder.xlsx.draw``.
+    ``workbook_builder.xlsx.draw``; ``comment`` becomes the cell's note.
     """
 
     ref: str
@@ -63,6 +63,8 @@ class Cell:
     style: str = ""
     unit: str = ""
     label: str = ""
+    #: The cell's note (comment): where an input or a result comes from.
+    comment: str = ""
 
     def __post_init__(self) -> None:
         if self.kind not in CELL_KINDS:
@@ -135,6 +137,8 @@ class SheetPlan:
     print_area: str | None = None
     row_breaks: list[int] = field(default_factory=list)
     freeze: str | None = None
+    #: Pages the sheet is scaled to fit in height (0: as many as its width allows).
+    pages: int = 0
     #: Named ranges of this sheet: defined name -> range (``A63:C93``), e.g. a chart table.
     ranges: dict[str, str] = field(default_factory=dict)
 

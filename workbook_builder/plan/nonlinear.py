@@ -10,8 +10,10 @@ inputs have changed since the simulation ran.
 from __future__ import annotations
 
 from dataclasses import replace
+from functools import partial
 
 
+from ..project.units import us_display
 from .calculation import engine_flag, unit_format
 from .charts import CHART_ROWS, BLUE, GREY, ORANGE, TIME_SPEC, WINDOW_SPEC, TableSpec, \
     write_table
@@ -53,21 +55,65 @@ def simulation_dependencies(options: PlanOptions) -> tuple[str, ...]:
 
 
 def _row(sh: SheetLayout, row: int, label: str, source: tuple | str, unit: str,
-         note: str | tuple = "", name: str = "", fmt: str = "") -> int:
-    """Label, engine value (or a formula), unit, note merged over D:F."""
+         note: str | tuple = "", name: str = "", fmt: str = "", us: bool = False) -> int:
+    """Label, engine value (or a formula), unit, note merged over D:F. In a US workbook a value
+    with a US unit is shown in it first (B, C) with the SI value, the named cell, in D, E."""
     sh.label(row, 1, label, "wrap box")
+    us_unit, factor = us_display(unit) if us else (unit, 1.0)
+    col = 4 if factor != 1.0 else 2
+    style = "box top" + (" secondary" if col == 4 else "")
     if isinstance(source, str):
-        sh.formula(row, 2, source, fmt=fmt or unit_format(unit), style="box top", name=name,
+        sh.formula(row, col, source, fmt=fmt or unit_format(unit), style=style, name=name,
                    unit=unit, label=label)
     else:
-        sh.engine(row, 2, source, fmt=fmt or unit_format(unit), style="box top", name=name,
+        sh.engine(row, col, source, fmt=fmt or unit_format(unit), style=style, name=name,
                   unit=unit, label=label)
-    sh.label(row, 3, unit, "box top")
-    if isinstance(note, tuple):
-        sh.cell(row, 4, "engine", source=note, style="wrap box")
+    if col == 4:
+        sh.formula(row, 2, f"=D{row}/{factor!r}", fmt=unit_format(us_unit), style="box top")
+        sh.label(row, 3, us_unit, "box top")
+        sh.label(row, 5, unit, "box top secondary")
     else:
-        sh.label(row, 4, note, "wrap box")
-    sh.merge(row, 4, row, 6)
+        sh.label(row, 3, unit, "box top")
+    note_col = 6 if us else 4
+    if us and col == 2:
+        sh.blank(row, 4, "box")
+        sh.blank(row, 5, "box")
+    if isinstance(note, tuple):
+        sh.cell(row, note_col, "engine", source=note, style="wrap box")
+    else:
+        sh.label(row, note_col, note, "wrap box")
+    if not us:
+        sh.merge(row, 4, row, 6)
+    return row + 1
+
+
+def _response_row(sh: SheetLayout, row: int, label: str, attr: str, unit: str,
+                  has_bare: bool, name: str, us: bool) -> int:
+    """A row of the response table; in a US workbook a value with a US unit gets a row in it
+    first, the SI row (the named engine values) below it in grey."""
+    us_unit, factor = us_display(unit) if us else (unit, 1.0)
+    if factor != 1.0:
+        sh.label(row, 1, label, "wrap box")
+        for col in (2, 3, 4):
+            if col == 4 and not has_bare:
+                sh.label(row, col, "-", "box")
+            else:
+                cell = f"{'ABCD'[col - 1]}{row + 1}"
+                sh.formula(row, col, f"={cell}/{factor!r}", fmt=unit_format(us_unit),
+                           style="box")
+        sh.label(row, 5, us_unit, "box")
+        row += 1
+    sh.label(row, 1, label if factor == 1.0 else "   the same in SI",
+             "wrap box" if factor == 1.0 else "box italic secondary")
+    style = "box" + (" secondary" if factor != 1.0 else "")
+    for col, model in ((2, "nonlinear"), (3, "linear"), (4, "without_damper")):
+        if col == 4 and not has_bare:
+            sh.label(row, col, "-", style)
+        else:
+            sh.engine(row, col, ("sim_response", model, attr), fmt=unit_format(unit),
+                      style=style, name=name if col == 2 else "", unit=unit,
+                      label=f"Simulated {label[0].lower()}{label[1:]}")
+    sh.label(row, 5, unit, style)
     return row + 1
 
 
@@ -87,6 +133,8 @@ def nonlinear_sheet(options: PlanOptions) -> SheetLayout:
     from functions.simulation import PEAK_DURATION      # lazy import (start-up time)
     load, time_rows, window_rows = options.simulation
     random = load == "random"
+    us = options.us
+    put = partial(_row, us=us)
     sh = SheetLayout("Nonlinear")
     sh.label(1, 1, "Nonlinear check: the pendulum damper simulated in time", Looks.TITLE)
     sh.label(2, 1, "Green cells are ENGINE VALUES (functions.simulation.simulate) computed when "
@@ -99,43 +147,49 @@ def nonlinear_sheet(options: PlanOptions) -> SheetLayout:
                    "and a linear dashpot; check it against the manufacturer's design.",
              Looks.WARNING)
     sh.merge(3, 1, 3, 6)
-    sh.header(4, ["Quantity", "Value", "Unit", "Note", "", ""])
-    sh.merge(4, 4, 4, 6)
+    if us:
+        sh.header(4, ["Quantity", "Value", "Unit", "Value (SI)", "SI unit", "Note"])
+    else:
+        sh.header(4, ["Quantity", "Value", "Unit", "Note"])
+        sh.blank(4, 5, Looks.HEAD)
+        sh.blank(4, 6, Looks.HEAD)
+        sh.merge(4, 4, 4, 6)
     row = _section(sh, 5, "1  Load and damper simulated")
     calib = (f"chosen so that the building WITHOUT the damper has the expected peak "
              f"acceleration a x load factor: RMS x peak factor over {PEAK_DURATION:g} s"
              if random else "chosen so that the steady peak acceleration of the building "
                             "WITHOUT the damper is a x load factor")
-    row = _row(sh, row, "Load (project file, [simulation] load)", ("sim", "load"), "",
+    row = put(sh, row, "Load (project file, [simulation] load)", ("sim", "load"), "",
                ("sim", "load_description"))
-    row = _row(sh, row, "Force RMS" if random else "Force amplitude", ("sim", "force"), "N",
+    row = put(sh, row, "Force RMS" if random else "Force amplitude", ("sim", "force"), "N",
                calib, "sim_force", "#,##0")
-    row = _row(sh, row, "Load factor (force / calibrated force)", ("sim", "load_factor"), "-",
+    row = put(sh, row, "Load factor (force / calibrated force)", ("sim", "load_factor"), "-",
                "project file, [simulation] load_factor", fmt="0.00")
     if random:
-        row = _row(sh, row, "Peak factor g (Davenport)", ("sim", "peak_factor"), "-",
+        row = put(sh, row, "Peak factor g (Davenport)", ("sim", "peak_factor"), "-",
                    f"functions.damper.peak_factor(f_s, {PEAK_DURATION:g} s)", fmt="0.000")
-    row = _row(sh, row, "Corner frequency of the force spectrum" if random else
+    row = put(sh, row, "Corner frequency of the force spectrum" if random else
                "Forcing frequency", ("sim", "load_frequency"), "Hz", "the mode's frequency f_s")
-    row = _row(sh, row, "Hanger length simulated (design pendulum length)", ("sim", "length"),
+    row = put(sh, row, "Hanger length simulated (design pendulum length)", ("sim", "length"),
                "m", "Calculation sheet, step 5.2: in tune at the design swing", "sim_length")
-    row = _row(sh, row, "Damper mass", ("sim", "damper_mass"), "kg",
+    row = put(sh, row, "Damper mass", ("sim", "damper_mass"), "kg",
                "Calculation sheet, step 2")
-    row = _row(sh, row, "Small-angle frequency of that hanger", ("sim", "hanger_frequency"),
+    row = put(sh, row, "Small-angle frequency of that hanger", ("sim", "hanger_frequency"),
                "Hz", "f_L = sqrt(g/L) / (2 pi): above f_d, equal to it at the design swing")
-    row = _row(sh, row, "Damper damping on the hanger's small-angle frequency",
+    row = put(sh, row, "Damper damping on the hanger's small-angle frequency",
                ("sim", "damper_damping"), "-", "zeta_d f_d / f_L: the dashpot c_d designed on "
                                                 "the Calculation sheet")
-    row = _row(sh, row, "Record length (after the warm-up)", ("sim", "record_length"), "s",
+    row = put(sh, row, "Record length (after the warm-up)", ("sim", "record_length"), "s",
                "project file, [simulation] duration", fmt="0.0")
-    row = _row(sh, row, "Warm-up simulated and discarded", ("sim", "warmup"), "s",
+    row = put(sh, row, "Warm-up simulated and discarded", ("sim", "warmup"), "s",
                "lets the start-up transient die out", fmt="0.0")
-    row = _row(sh, row, "Output time step", ("sim", "time_step"), "s",
+    row = put(sh, row, "Output time step", ("sim", "time_step"), "s",
                ("sim", "substeps_note"), fmt="0.0000")
-    row = _row(sh, row, "Estimated relative integration error", ("sim", "integration_error"),
+    row = put(sh, row, "Estimated relative integration error", ("sim", "integration_error"),
                "-", "step doubling (Richardson), relative to the peaks", fmt=SCIENTIFIC)
     row = engine_flag(sh, row, "engine_flag_simulation", simulation_dependencies(options),
-                      "simulation", label_col=1, value_col=2, note_col=4, note_to=6)
+                      "simulation", label_col=1, value_col=2, note_col=6 if us else 4,
+                      note_to=None if us else 6)
     row += 1
 
     row = _section(sh, row, "2  Response over the record",
@@ -145,24 +199,27 @@ def nonlinear_sheet(options: PlanOptions) -> SheetLayout:
     sh.header(row, ["Quantity", "Exact pendulum", "Linearised", "Without damper", "Unit", ""])
     row += 1
     for label, attr, unit, has_bare, name in RESPONSE_ROWS:
-        sh.label(row, 1, label, "wrap box")
-        for col, model in ((2, "nonlinear"), (3, "linear"), (4, "without_damper")):
-            if col == 4 and not has_bare:
-                sh.label(row, col, "-", "box")
-            else:
-                sh.engine(row, col, ("sim_response", model, attr), fmt=unit_format(unit),
-                          name=name if col == 2 else "", unit=unit,
-                          label=f"Simulated {label[0].lower()}{label[1:]}")
-        sh.label(row, 5, unit, "box")
-        row += 1
+        row = _response_row(sh, row, label, attr, unit, has_bare, name, us)
     if random:
-        sh.label(row, 1, "RMS building acceleration, frequency domain (linear theory)",
-                 "wrap box")
-        sh.label(row, 2, "-", "box")
-        sh.engine(row, 3, ("sim", "theory_acceleration_rms"), fmt=unit_format("m/s^2"))
+        label = "RMS building acceleration, frequency domain (linear theory)"
+        us_unit, factor = us_display("m/s^2") if us else ("m/s^2", 1.0)
+        if factor != 1.0:
+            sh.label(row, 1, label, "wrap box")
+            sh.label(row, 2, "-", "box")
+            for col in (3, 4):
+                sh.formula(row, col, f"={'ABCD'[col - 1]}{row + 1}/{factor!r}",
+                           fmt=unit_format(us_unit), style="box")
+            sh.label(row, 5, us_unit, "box")
+            row += 1
+            label = "   the same in SI"
+        style = "box" + (" secondary italic" if factor != 1.0 else "")
+        sh.label(row, 1, label, "wrap " + style)
+        sh.label(row, 2, "-", style)
+        sh.engine(row, 3, ("sim", "theory_acceleration_rms"), fmt=unit_format("m/s^2"),
+                  style=style)
         sh.engine(row, 4, ("sim", "theory_acceleration_rms_without_damper"),
-                  fmt=unit_format("m/s^2"))
-        sh.label(row, 5, "m/s^2", "box")
+                  fmt=unit_format("m/s^2"), style=style)
+        sh.label(row, 5, "m/s^2", style)
         row += 1
         sh.label(row, 1, "Expected scatter of an RMS over this record (1 standard deviation)",
                  "wrap box")
@@ -177,33 +234,33 @@ def nonlinear_sheet(options: PlanOptions) -> SheetLayout:
                    "A pendulum's frequency falls as it swings further (exact period, A&S 17.6). "
                    "The hanger is cut to be in tune at the design swing; here the simulated "
                    "swing is compared with it.")
-    row = _row(sh, row, "Peak swing simulated (exact pendulum)", ("sim", "swing_deg"), "deg",
+    row = put(sh, row, "Peak swing simulated (exact pendulum)", ("sim", "swing_deg"), "deg",
                "largest |theta| over the record", "sim_swing_deg")
-    row = _row(sh, row, "Design swing (Calculation sheet)", "=swing_angle_deg", "deg",
+    row = put(sh, row, "Design swing (Calculation sheet)", "=swing_angle_deg", "deg",
                "at the design stroke")
-    row = _row(sh, row, "Frequency of the hanger at the simulated peak swing",
+    row = put(sh, row, "Frequency of the hanger at the simulated peak swing",
                ("sim", "frequency_at_swing"), "Hz",
                "exact period (functions.pendulum.pendulum_frequency)", "sim_frequency_at_swing")
-    row = _row(sh, row, "Detuning at the simulated peak swing, exact-period prediction",
+    row = put(sh, row, "Detuning at the simulated peak swing, exact-period prediction",
                ("sim", "detuning"), "-", "f(theta) / f(0) - 1 "
                                           "(functions.pendulum.amplitude_detuning)",
                "sim_detuning")
-    row = _row(sh, row, "Detuning measured from the simulated swing",
+    row = put(sh, row, "Detuning measured from the simulated swing",
                ("sim", "simulated_detuning"), "-", "equivalent linearisation of m g L "
                "sin(theta) over the record: for a random swing it reflects the typical, not the "
                "peak, swing", "sim_measured_detuning")
-    row = _row(sh, row, "Measured minus predicted detuning",
+    row = put(sh, row, "Measured minus predicted detuning",
                f'=IFERROR(sim_measured_detuning-sim_detuning,"{NOT_DEFINED}")', "-",
                "0 for a steady harmonic swing (to order theta^4)")
-    row = _row(sh, row, "Swing whose exact period gives the measured detuning",
+    row = put(sh, row, "Swing whose exact period gives the measured detuning",
                ("sim", "equivalent_swing_deg"), "deg", "functions.pendulum.amplitude_for_error")
-    row = _row(sh, row, "Mistuning at the simulated peak swing against the damper frequency f_d",
+    row = put(sh, row, "Mistuning at the simulated peak swing against the damper frequency f_d",
                f'=IFERROR(sim_frequency_at_swing/damper_frequency-1,"{NOT_DEFINED}")', "-",
                "0 at the design swing; the hanger runs fast at smaller swings and slow at "
                "larger ones")
-    row = _row(sh, row, "Largest departure, exact pendulum against linearised",
+    row = put(sh, row, "Largest departure, exact pendulum against linearised",
                ("sim", "departure"), "-", ("sim", "departure_quantity"), "sim_departure")
-    row = _row(sh, row, "Accepted departure", ("sim", "tolerance"), "-",
+    row = put(sh, row, "Accepted departure", ("sim", "tolerance"), "-",
                "project file, [simulation] tolerance", "sim_tolerance", "0.000")
     sh.label(row, 1, "Verdict: nonlinear response within the tolerance and swing <= 90 deg",
              "bold wrap box")
@@ -252,6 +309,6 @@ def nonlinear_sheet(options: PlanOptions) -> SheetLayout:
               x_format="0", y_format="0.0", tick_labels_low=True, fit_x=True, x_round=10.0),
     ]
     last = chart_row + 2 * CHART_ROWS - 1
-    sh.widths([40, 15, 15, 15, 9, 22, 3, 10, 14, 14, 14, 14, 3, 10, 14, 14])
+    sh.widths([40, 15, 15, 15, 9, 34 if us else 22, 3, 10, 14, 14, 14, 14, 3, 10, 14, 14])
     sh.page(title_rows="1:1", print_area=f"A1:F{last}", freeze="A5")
     return sh

@@ -27,9 +27,11 @@ __all__ = ["PLAN_VERSION", "FORMAT_NAME", "PLAN_PROPERTY", "SIMULATION_PROPERTY"
 #: EVERY LAYOUT CHANGE (a sheet, row, column, defined name or formula moved, added, removed or
 #: rewritten). History: 1 = swaytune 0.1 before the mark existed; 2 = the mark and the
 #: SwaytuneSimulation property (0.1.0); 3 = the plan as data, every value recalculation reads
-#: or writes in a named cell, the options in SwaytunePlan; 4 = the values of the last engine
-#: run on the Record sheet, every simulation value named, fixed-size simulation tables.
-PLAN_VERSION = 4
+#: or writes in a named cell, the options in SwaytunePlan; 4 = the printed calculation: Summary
+#: with inputs and limits, US values first, working values on their own page, the Pendulum
+#: sheet's secant iteration in 10 rows, cell notes, page headers; 5 = the values of the last
+#: engine run on the Record sheet, every simulation value named, fixed-size simulation tables.
+PLAN_VERSION = 5
 #: Defined name (workbook scope, hidden) holding :data:`PLAN_VERSION`.
 FORMAT_NAME = "SWAYTUNE_FORMAT"
 #: Custom document property holding the options as JSON data (never a formula).

@@ -9,9 +9,9 @@ workbook with to report the user's edits (:func:`last_run_name`).
 """
 from __future__ import annotations
 
-from functions.quantities import design_inputs, design_results
+from functions.quantities import HELPERS, design_inputs, design_results
 
-from .calculation import unit_format
+from .calculation import unit_format, value_format
 from .model import Plan
 from .options import PlanOptions
 from .sheet import Looks, SheetLayout
@@ -58,6 +58,7 @@ def names_sheet(plan: Plan) -> SheetLayout:
     sh.merge(2, 1, 2, 5)
     sh.header(4, ["Name", "Refers to", "Quantity", "Unit", "Value"])
     row = 5
+    quantities = {q.cell_name for q in design_inputs() + design_results() + HELPERS}
     entries = [(cell.name, sheet, cell.ref, cell.label, cell.unit, cell.kind != "text")
                for sheet, cell in plan.cells() if cell.name]
     entries += [(name, sheet, rng, "range of values", "", False)
@@ -68,12 +69,15 @@ def names_sheet(plan: Plan) -> SheetLayout:
         sh.label(row, 3, label or "helper cell", "wrap box")
         sh.label(row, 4, unit, "box")
         if single:
-            sh.formula(row, 5, f"={name}", fmt=unit_format(unit) if unit else "General",
-                       style="box")
+            fmt = value_format(name) if name in quantities else (
+                unit_format(unit) if unit else "General")
+            sh.formula(row, 5, f"={name}", fmt=fmt, style="box")
         else:
             sh.blank(row, 5, "box")
         row += 1
-    sh.widths([30, 18, 52, 8, 22])
+    # the longest name whole (about one width unit per character, and a margin)
+    longest = max(len(e[0]) for e in entries)
+    sh.widths([max(30.0, longest + 4.0), 18, 52, 8, 16])
     sh.page(title_rows="1:4", freeze="A5")
     return sh
 
@@ -145,5 +149,5 @@ def record_sheet(options: PlanOptions) -> SheetLayout:
         sh.label(row, 3, q.unit, "box")
         row += 1
     sh.widths([40, 72, 10])
-    sh.page()
+    sh.page(pages=1)            # one page: the table's header is on it
     return sh

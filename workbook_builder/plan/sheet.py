@@ -42,6 +42,7 @@ class Looks:
     TOP = "top"
     TB_LABEL = "tb_label"      # title-block label
     TB_VALUE = "tb_value"      # title-block value
+    SECONDARY = "secondary"    # grey text: a value shown a second time (SI beside US)
 
 
 class SheetLayout:
@@ -57,7 +58,7 @@ class SheetLayout:
     # cells --------------------------------------------------------------------------------
     def cell(self, row: int, col: int, kind: str, content: Any = None, *, source: tuple = (),
              name: str = "", fmt: str = "", style: str = "", unit: str = "",
-             label: str = "") -> Cell:
+             label: str = "", comment: str = "") -> Cell:
         """Record one cell (replacing what was planned there).
 
         A simulation value without a name of its own is named after its source
@@ -66,7 +67,7 @@ class SheetLayout:
         """
         if kind == "engine" and not name and source and source[0] in SIMULATION_SOURCES:
             name = "_".join(["engine"] + [str(part) for part in source])
-        c = Cell(ref(row, col), kind, content, source, name, fmt, style, unit, label)
+        c = Cell(ref(row, col), kind, content, source, name, fmt, style, unit, label, comment)
         self.plan.cells[c.ref] = c
         return c
 
@@ -82,18 +83,19 @@ class SheetLayout:
         return self.cell(row, col, "text", source=source, style=style, name=name)
 
     def formula(self, row: int, col: int, formula: str, *, fmt: str = "", style: str = "",
-                name: str = "", unit: str = "", label: str = "") -> Cell:
+                name: str = "", unit: str = "", label: str = "", comment: str = "") -> Cell:
         return self.cell(row, col, "formula", formula, fmt=fmt, style=style, name=name,
-                         unit=unit, label=label)
+                         unit=unit, label=label, comment=comment)
 
     def check(self, row: int, col: int, formula: str, *, name: str = "", style: str = "bold box",
               label: str = "") -> Cell:
         return self.cell(row, col, "check", formula, style=style, name=name, label=label)
 
     def input(self, row: int, col: int, source: tuple, *, fmt: str = "General",
-              style: str = "box", name: str = "", unit: str = "", label: str = "") -> Cell:
+              style: str = "box", name: str = "", unit: str = "", label: str = "",
+              comment: str = "") -> Cell:
         return self.cell(row, col, "input", source=source, fmt=fmt, style=f"input {style}",
-                         name=name, unit=unit, label=label)
+                         name=name, unit=unit, label=label, comment=comment)
 
     def value(self, row: int, col: int, content: Any = None, *, source: tuple = (),
               fmt: str = "", style: str = "", name: str = "", unit: str = "",
@@ -102,9 +104,9 @@ class SheetLayout:
                          name=name, unit=unit, label=label)
 
     def engine(self, row: int, col: int, source: tuple, *, fmt: str = "", style: str = "box",
-               name: str = "", unit: str = "", label: str = "") -> Cell:
+               name: str = "", unit: str = "", label: str = "", comment: str = "") -> Cell:
         return self.cell(row, col, "engine", source=source, fmt=fmt, style=f"engine {style}",
-                         name=name, unit=unit, label=label)
+                         name=name, unit=unit, label=label, comment=comment)
 
     def header(self, row: int, labels: list[str], first_col: int = 1) -> None:
         for i, text in enumerate(labels):
@@ -139,8 +141,10 @@ class SheetLayout:
         self.plan.ranges[name] = cell_range
 
     def page(self, *, landscape: bool = False, title_rows: str | None = None,
-             print_area: str | None = None, freeze: str | None = None) -> None:
+             print_area: str | None = None, freeze: str | None = None,
+             pages: int = 0) -> None:
         self.plan.landscape = landscape
         self.plan.title_rows = title_rows
         self.plan.print_area = print_area
         self.plan.freeze = freeze
+        self.plan.pages = pages

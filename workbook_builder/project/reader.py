@@ -188,11 +188,16 @@ def _read_choice(ctx: _Context, q: Quantity, key: str, raw: Any) -> InputValue:
     return InputValue(q, raw, None, raw, q.note, True, ctx.lines.get(key))
 
 
-def _default(q: Quantity) -> InputValue:
+def _default(q: Quantity, system: str = "SI") -> InputValue:
+    """The default of ``q`` in the unit system's unit of its kind (US: g in ft/s^2) when the
+    conversion back to SI is exact, else in the SI unit; its SI value is the declared one."""
     if q.kind == "choice":
         return InputValue(q, q.default, None, q.default, q.note, False)
-    unit = unit_for(q.kind, SI_UNIT[q.kind])
-    return InputValue(q, q.default, unit, q.default, q.note, False)
+    unit = unit_for(q.kind, DEFAULT_UNITS[system].get(q.kind, SI_UNIT[q.kind]))
+    value = q.default / unit.factor
+    if value * unit.factor != q.default:
+        unit, value = unit_for(q.kind, SI_UNIT[q.kind]), q.default
+    return InputValue(q, value, unit, q.default, q.note, False)
 
 
 def _read_floors(ctx: _Context, flat: dict[str, Any], system: str) -> Floors:
@@ -365,7 +370,7 @@ def parse_project(data: dict, *, source: str = "<project>", text: str = "",
             inputs[q.name] = (_read_choice(ctx, q, key, flat[key]) if q.kind == "choice"
                               else read_number(ctx, q, key, flat[key], system))
         elif q.has_default:
-            inputs[q.name] = _default(q)
+            inputs[q.name] = _default(q, system)
         elif q.required:
             raise ctx.error(key, "is missing (required)")
     for name, message in input_relation_errors({n: iv.si for n, iv in inputs.items()}):

@@ -8,9 +8,10 @@ cell instead of CONVERT (whose pound constants differ between applications by ~1
 
 Sources: international foot 0.3048 m and avoirdupois pound 0.45359237 kg, exact (international
 yard and pound agreement, 1959; NIST SP 811 (2008), Appendix B); standard gravity
-9.80665 m/s^2, exact (3rd CGPM, 1901). ``kip`` is used as a mass unit: the mass that weighs
-1 kip (1000 lbf) under standard gravity, i.e. 1000 lb of mass — the US practice of giving
-masses as weights.
+9.80665 m/s^2, exact (3rd CGPM, 1901). ``kip`` is accepted as a mass unit in the US practice
+of giving masses as weights: the mass that weighs 1 kip (1000 lbf) under standard gravity, i.e.
+1000 lb of mass; a workbook shows such values labelled as weights (:func:`us_display`).
+``kip s^2/ft`` is the mass on which 1 kip gives 1 ft/s^2 (1000 slug).
 """
 from __future__ import annotations
 
@@ -18,11 +19,16 @@ from dataclasses import dataclass
 
 from functions.pendulum import STANDARD_GRAVITY
 
-__all__ = ["Unit", "UNITS", "DEFAULT_UNITS", "SI_UNIT", "unit_for"]
+__all__ = ["Unit", "UNITS", "DEFAULT_UNITS", "SI_UNIT", "unit_for", "US_DISPLAY",
+           "KIP_WEIGHT", "KIP_MASS", "us_display", "POUND_FORCE", "WEIGHT_UNIT"]
 
 FOOT = 0.3048
 INCH = 0.0254
 POUND = 0.45359237
+#: The mass that weighs 1 kip under standard gravity [kg] (1000 lb, exact).
+KIP_WEIGHT = 1000.0 * POUND
+#: 1 kip s^2/ft in kg: 1000 lbf / (1 ft/s^2) = 1000 x 0.45359237 x 9.80665 / 0.3048 (exact).
+KIP_MASS = 1000.0 * POUND * STANDARD_GRAVITY / FOOT
 
 
 @dataclass(frozen=True)
@@ -43,8 +49,10 @@ UNITS: dict[str, dict[str, Unit]] = {
         "kg": Unit("kg", 1.0, "SI unit"),
         "t": Unit("t", 1000.0, "exact: 1 t = 1000 kg (SI Brochure)"),
         "lb": Unit("lb", POUND, _EXACT_1959),
-        "kip": Unit("kip", 1000.0 * POUND, "exact: mass weighing 1 kip under standard "
+        "kip": Unit("kip", KIP_WEIGHT, "exact: mass weighing 1 kip under standard "
                     "gravity = 1000 lb; " + _EXACT_1959),
+        "kip s^2/ft": Unit("kip s^2/ft", KIP_MASS, "exact: 1 kip / (1 ft/s^2) = 1000 slug; "
+                           + _EXACT_1959),
     },
     "fraction": {
         "-": Unit("-", 1.0, "fraction"),
@@ -105,9 +113,38 @@ POUND_FORCE = POUND * STANDARD_GRAVITY
 
 #: Results shown beside the SI value in US customary projects: SI unit -> (unit, factor).
 US_DISPLAY: dict[str, tuple[str, float]] = {
-    "kg": ("kip", 1000.0 * POUND),
+    "kg": ("kip", KIP_WEIGHT),
     "m": ("ft", FOOT),
     "m/s^2": ("milli-g", STANDARD_GRAVITY / 1000.0),
     "N/m": ("kip/ft", 1000.0 * POUND_FORCE / FOOT),
     "N s/m": ("kip s/ft", 1000.0 * POUND_FORCE / FOOT),
+    "N": ("kip", 1000.0 * POUND_FORCE),
 }
+
+#: Unit text of a mass shown in kip: it is the weight under standard gravity.
+WEIGHT_UNIT = "kip (weight)"
+#: Quantities (defined names) shown in another US unit than their SI unit's default.
+_US_BY_NAME = {"gravity": ("ft/s^2", FOOT)}
+
+
+def us_display(si_unit: str, name: str = "") -> tuple[str, float]:
+    """The US customary unit a workbook shows a value of ``si_unit`` in, and its factor to SI.
+
+    Masses are shown as their weight under standard gravity in kip (the unit text says
+    "weight"); the acceleration of gravity (``name`` ``gravity``) in ft/s^2, the building's
+    accelerations in milli-g; a unit without a US counterpart (Hz, deg, -, s) is kept, factor 1.
+
+    Examples
+    --------
+    >>> us_display("kg")
+    ('kip (weight)', 453.59237)
+    >>> us_display("m/s^2", "gravity")
+    ('ft/s^2', 0.3048)
+    >>> us_display("Hz")
+    ('Hz', 1.0)
+    """
+    if name in _US_BY_NAME:
+        return _US_BY_NAME[name]
+    if si_unit == "kg":
+        return WEIGHT_UNIT, KIP_WEIGHT
+    return US_DISPLAY.get(si_unit, (si_unit, 1.0))

@@ -15,6 +15,7 @@ import textwrap
 from typing import Any, Mapping
 
 from openpyxl import Workbook
+from openpyxl.comments import Comment
 from openpyxl.formatting.rule import CellIsRule
 from openpyxl.styles import Alignment, Border, Font, PatternFill, Protection, Side
 from openpyxl.utils import absolute_coordinate, get_column_letter, quote_sheetname
@@ -26,7 +27,7 @@ from ..plan.model import Plan, SheetPlan
 from .charts import add_chart, fill_chart_caches
 from .files import set_property
 from .formulas import check_formula
-from .page_setup import set_print_layout
+from .page_setup import PageHeader, set_print_layout
 
 __all__ = ["draw", "DrawError", "set_property", "fit_rows"]
 
@@ -37,12 +38,19 @@ class DrawError(RuntimeError):
 
 _THIN = Side(style="thin", color="A6A6A6")
 _TB = Side(style="thin", color="808080")
+#: Every look's font names the workbook's body font, so that applications do not fall back to
+#: their own default (a serif face) for styled cells.
+_FONT = "Calibri"
 _FONTS = {
-    "title": Font(bold=True, size=14), "heading": Font(bold=True, size=13),
-    "bold": Font(bold=True), "italic": Font(italic=True),
-    "caution": Font(bold=True, color="C00000"), "warning": Font(italic=True, color="C00000"),
-    "head": Font(bold=True, color="FFFFFF"), "table_head": Font(bold=True),
-    "section": Font(bold=True), "tb_label": Font(bold=True, size=9, color="404040"),
+    "title": Font(name=_FONT, bold=True, size=14), "heading": Font(name=_FONT, bold=True, size=13),
+    "bold": Font(name=_FONT, size=11, bold=True), "italic": Font(name=_FONT, size=11, italic=True),
+    "caution": Font(name=_FONT, size=11, bold=True, color="C00000"),
+    "warning": Font(name=_FONT, size=11, italic=True, color="C00000"),
+    "head": Font(name=_FONT, size=11, bold=True, color="FFFFFF"),
+    "table_head": Font(name=_FONT, size=11, bold=True),
+    "section": Font(name=_FONT, size=11, bold=True),
+    "tb_label": Font(name=_FONT, bold=True, size=9, color="404040"),
+    "secondary": Font(name=_FONT, size=11, color="6F6F6F"),
 }
 _FILLS = {
     "head": PatternFill("solid", fgColor="44546A"), "section": PatternFill("solid", fgColor="D9E1F2"),
@@ -131,7 +139,20 @@ def _define(wb: Any, name: str, sheet: str, cell_range: str) -> None:
     wb.defined_names.add(DefinedName(name, attr_text=f"{quote_sheetname(sheet)}!{target}"))
 
 
-def _sheet(wb: Any, sp: SheetPlan, values: Mapping[tuple[str, str], Any], paper: str) -> None:
+#: Author of the cell notes.
+NOTE_AUTHOR = "swaytune"
+
+
+def _comment(text: str) -> Comment:
+    """A cell note sized to its text (about 40 characters a line)."""
+    note = Comment(text, NOTE_AUTHOR)
+    note.width = 300
+    note.height = 20 + 15 * (len(text) // 40 + 1)
+    return note
+
+
+def _sheet(wb: Any, sp: SheetPlan, values: Mapping[tuple[str, str], Any], paper: str,
+           header: PageHeader | None) -> None:
     ws = wb.create_sheet(sp.title)
     for i, width in enumerate(sp.widths, start=1):
         ws.column_dimensions[get_column_letter(i)].width = width
@@ -151,6 +172,8 @@ def _sheet(wb: Any, sp: SheetPlan, values: Mapping[tuple[str, str], Any], paper:
             _look(cell, c.style)
         if c.kind == "input":
             cell.protection = Protection(locked=False)
+        if c.comment:
+            cell.comment = _comment(c.comment)
         if c.name:
             _define(wb, c.name, sp.title, c.ref)
     for name, cell_range in sp.ranges.items():
@@ -183,14 +206,16 @@ def _sheet(wb: Any, sp: SheetPlan, values: Mapping[tuple[str, str], Any], paper:
         ws.freeze_panes = sp.freeze
     ws.protection.sheet = True
     set_print_layout(ws, paper, landscape=sp.landscape, title_rows=sp.title_rows,
-                     print_area=sp.print_area)
+                     print_area=sp.print_area, pages=sp.pages, header=header)
 
 
-def draw(plan: Plan, values: Mapping[tuple[str, str], Any], *, template: Any = None) -> Any:
+def draw(plan: Plan, values: Mapping[tuple[str, str], Any], *, template: Any = None,
+         header: PageHeader | None = None) -> Any:
     """Draw ``plan`` with the values of its sourced cells; return the openpyxl workbook.
 
     ``template`` is a firm's workbook already opened (its title block filled); the plan's
-    sheets are added after its own.
+    sheets are added after its own. ``header`` is the project's identification printed at the
+    top of every page.
 
     Raises
     ------
@@ -203,6 +228,6 @@ def draw(plan: Plan, values: Mapping[tuple[str, str], Any], *, template: Any = N
     if template is None:
         wb.remove(wb.active)
     for sp in plan.sheets:
-        _sheet(wb, sp, values, plan.options.paper)
+        _sheet(wb, sp, values, plan.options.paper, header)
     return wb
 
