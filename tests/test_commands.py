@@ -11,6 +11,7 @@ import sys
 import pytest
 
 from workbook_builder.cli import main
+from workbook_builder.recalc import recalc_workbook
 
 from recalc_helpers import ROOT
 
@@ -88,3 +89,16 @@ def test_help_and_version_do_not_import_the_engine(argv):
                           cwd=ROOT, timeout=60)
     assert proc.returncode == 0, proc.stderr
     assert "HEAVY []" in proc.stdout, proc.stdout[-400:]
+
+
+def test_the_build_summary_of_a_us_project_is_in_us_customary_units(tmp_path, capsys):
+    """units = "US": the console shows kip (weight), ft and milli-g (1 kip = 453.59237 kg of
+    weight, 1 ft = 0.3048 m, exact, NIST SP 811 (2008) App. B; g_n = 9.80665 m/s^2)."""
+    src = ROOT / "example_workbooks" / "office_tower_us.toml"
+    assert main(["build", str(src), "-o", str(tmp_path / "us.xlsx")]) == 0
+    line = next(x for x in capsys.readouterr().out.splitlines() if x.startswith("us.xlsx"))
+    r = recalc_workbook(tmp_path / "us.xlsx").results
+    assert f"{r['damper_mass'] / 453.59237:,.0f} kip (weight)" in line
+    assert f"{r['pendulum_length'] / 0.3048:,.3f} ft" in line
+    assert f"{r['acceleration_with_damper'] / 9.80665e-3:,.4f} milli-g" in line
+    assert " kg" not in line and " m/s^2" not in line

@@ -31,13 +31,15 @@ TAIL = ["Inputs changed", "Results changed", "Hand edits", "Other notes", "Backu
 #: m/s^2 (3rd CGPM 1901); the summary of a US batch shows kip, ft and milli-g.
 FOOT, KIP, MILLI_G = 0.3048, 453.59237, 9.80665e-3
 KIPF_PER_FT = 1000 * 0.45359237 * 9.80665 / 0.3048          # kip (force) per foot, in N/m
-US = {"kg": ("kip", KIP), "m": ("ft", FOOT), "m/s^2": ("milli-g", MILLI_G),
+US = {"kg": ("kip (weight)", KIP), "m": ("ft", FOOT), "m/s^2": ("milli-g", MILLI_G),
       "N/m": ("kip/ft", KIPF_PER_FT), "N s/m": ("kip s/ft", KIPF_PER_FT)}
 
 
 def _header(q, us: bool = False) -> str:
     """The column of a quantity: its label, then its unit in brackets (none for a choice)."""
     unit = US.get(q.unit, (q.unit,))[0] if us else q.unit
+    if us and q.name == "g":
+        unit = "ft/s^2"                 # gravity in ft/s^2, the building's response in milli-g
     return f"{q.label} [{unit}]" if unit else q.label
 
 

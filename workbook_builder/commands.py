@@ -21,6 +21,7 @@ from functions.worksheet import TWIN_TOLERANCE
 from .plan.reference import CAUTIONS
 from .progress import Progress
 from .project import ProjectError, load_cases, load_project, output_names
+from .project.units import us_display
 from .xlsx.files import OverwriteRefused, guard_hand_edits, guard_overwrite
 
 if TYPE_CHECKING:
@@ -74,10 +75,18 @@ def summary_line(label: str, built: "BuiltWorkbook") -> list[str]:
                if verdict != "OK"]
         nonlinear = (f"OK ({sim.departure:.1%}, swing {sim.nonlinear.swing_deg:.1f} deg)"
                      if not bad else "NOT OK: " + ", ".join(bad))
-    return [label, f"{v('mass_ratio'):.4f}", f"{v('damper_mass'):,.0f}",
-            f"{v('damper_frequency'):.4f}", f"{v('pendulum_length'):.3f}",
-            f"{v('stroke'):.3f}", f"{v('swing_angle_deg'):.2f}",
-            f"{v('acceleration_with_damper'):.4f}", f"{v('acceleration_limit'):.4f}",
+    us = built.project.units == "US"
+
+    def shown(name: str, si_unit: str, digits: int) -> str:
+        """The value in the project's units (US customary first in a US project)."""
+        unit, factor = us_display(si_unit, name) if us else (si_unit, 1.0)
+        return f"{v(name) / factor:,.{digits}f} {unit}"
+
+    return [label, f"{v('mass_ratio'):.4f}", shown("damper_mass", "kg", 0),
+            f"{v('damper_frequency'):.4f}", shown("pendulum_length", "m", 3),
+            shown("stroke", "m", 3), f"{v('swing_angle_deg'):.2f}",
+            shown("acceleration_with_damper", "m/s^2", 4),
+            shown("acceleration_limit", "m/s^2", 4),
             design, f"OK ({worst:.0e})" if worst <= TWIN_TOLERANCE else f"NOT OK ({worst:.1e})",
             nonlinear]
 
@@ -91,9 +100,8 @@ def all_checks_pass(built: "BuiltWorkbook") -> bool:
 
 def summary_table(lines: list[list[str]]) -> str:
     """Plain-text table of :func:`summary_line` lines, with a header."""
-    head = ["Workbook", "mu [-]", "m_d [kg]", "f_d [Hz]", "L [m]", "stroke [m]",
-            "swing [deg]", "a_d [m/s^2]", "a_lim [m/s^2]", "design", "cross-check",
-            "nonlinear"]
+    head = ["Workbook", "mu [-]", "damper mass", "f_d [Hz]", "hanger L", "stroke",
+            "swing [deg]", "a with damper", "a limit", "design", "cross-check", "nonlinear"]
     widths = [max(len(str(r[i])) for r in [head] + lines) for i in range(len(head))]
     out = ["  ".join(str(c).ljust(w) for c, w in zip(head, widths))]
     out.append("  ".join("-" * w for w in widths))

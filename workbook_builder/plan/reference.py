@@ -144,10 +144,11 @@ def record_sheet(options: PlanOptions) -> SheetLayout:
         row += 1
     for q in recorded_results(options):
         sh.label(row, 1, f"{q.label} (result)", "box wrap")
-        sh.engine(row, 2, ("cell", q.cell_name), fmt="General", name=last_run_name(q.cell_name),
-                  unit=q.unit, label=f"{q.label} at the last engine run")
+        sh.engine(row, 2, ("cell", q.cell_name), fmt=value_format(q.cell_name),
+                  name=last_run_name(q.cell_name), unit=q.unit,
+                  label=f"{q.label} at the last engine run")
         sh.label(row, 3, q.unit, "box")
         row += 1
-    sh.widths([40, 72, 10])
+    sh.widths([44, 60, 10])
     sh.page(pages=1)            # one page: the table's header is on it
     return sh

@@ -26,7 +26,7 @@ from functions.quantities import design_inputs, design_results
 
 from .. import __version__
 from ..plan.reference import CAUTIONS
-from ..project.units import US_DISPLAY
+from ..project.units import us_display
 from ..xlsx.files import (FORCE_HINT, OverwriteRefused, atomic_path, guard_overwrite,
                           mark_workbook)
 from .workbook import HAND_EDITS, SHORT_LABELS, STATUSES, RecalcResult
@@ -44,9 +44,7 @@ _STATUS_FILL = {"OK": "D9EAD3", "NOT OK": "F4CCCC", "EDITED": "FCE5CD", "FAILED"
 
 def _unit(q, us: bool) -> tuple[str, float]:
     """Unit and factor from SI a quantity is shown in (the batch's unit system)."""
-    if us and q.unit in US_DISPLAY:
-        return US_DISPLAY[q.unit]
-    return q.unit, 1.0
+    return us_display(q.unit, q.cell_name) if us else (q.unit, 1.0)
 
 
 def _header(q, us: bool) -> str:

@@ -41,7 +41,7 @@ from ..plan.model import Plan
 from ..plan.reference import recorded_results
 from ..plan.summary import VERDICT_LABELS
 from ..plan.values import Sources, source_value
-from ..project.units import US_DISPLAY
+from ..project.units import us_display
 from ..xlsx.cached import CellError
 from ..xlsx.files import OverwriteRefused, atomic_path, guard_hand_edits, guard_overwrite
 from ..xlsx.formulas import Evaluator, FormulaError, is_error
@@ -295,10 +295,9 @@ def _verdicts(data: WorkbookData, result: Any, res: RecalcResult, now) -> None:
 
 
 def _display(q: Any, options: Any) -> tuple[str, float]:
-    """Unit and factor from SI of a result as the workbook shows it."""
-    if options.us and q.unit in US_DISPLAY:
-        return US_DISPLAY[q.unit]
-    return q.unit, 1.0
+    """Unit and factor from SI of a result as the workbook shows it (US values first in a US
+    customary workbook)."""
+    return us_display(q.unit, q.cell_name) if options.us else (q.unit, 1.0)
 
 
 def _changes(data: WorkbookData, result: Any) -> list[Change]:
