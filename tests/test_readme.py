@@ -3,8 +3,11 @@
 from __future__ import annotations
 
 import doctest
+import io
 import re
 from pathlib import Path
+
+from workbook_builder.recalc import print_report, read_workbook, recalc_many, write_results
 
 ROOT = Path(__file__).resolve().parents[1]
 
@@ -39,3 +42,21 @@ def test_readme_states_the_cautions():
     for phrase in ("preliminary design aid", "licensed engineer", "local codes", "wind-tunnel",
                    "manufacturer"):
         assert phrase in text
+
+
+def test_the_recalc_report_excerpt_is_what_recalc_prints(tmp_path, monkeypatch):
+    """The README's report excerpt is real: the residential tower with its acceleration typed
+    as 25 instead of 21 milli-g, recalculated from projects/ into recalculated/."""
+    text = (ROOT / "README.md").read_text(encoding="utf-8")
+    excerpt = re.search(r"```text\n(OK      projects/residential_tower.+?)\n```", text,
+                        flags=re.S).group(1).splitlines()
+    monkeypatch.chdir(tmp_path)
+    (tmp_path / "projects").mkdir()
+    src = ROOT / "example_workbooks" / "residential_tower.xlsx"
+    edited = Path("projects") / "residential_tower.xlsx"
+    data = read_workbook(src)
+    write_results(src, edited, constants={data.value_cells["acceleration"]: 25.0})
+    batch = recalc_many([Path("projects")], outdir=Path("recalculated"), progress=False)
+    out = io.StringIO()
+    print_report(batch, out)
+    assert out.getvalue().splitlines()[:len(excerpt)] == excerpt
