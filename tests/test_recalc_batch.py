@@ -371,7 +371,8 @@ def test_cli_exit_status_and_summary(built, tmp_path, capsys):
     out = capsys.readouterr().out
     assert "NOT OK: Stroke within the clearance" in out
     wb = openpyxl.load_workbook(tmp_path / "o2" / "recalc_summary.xlsx")
-    assert wb.sheetnames == ["Workbooks", "Changes", "Issues", "Statuses", "Cautions"]
+    assert wb.sheetnames == ["Report", "Workbooks", "Changes", "Issues", "Statuses",
+                             "Cautions"]
     head = [c.value for c in wb["Workbooks"][1]]
     row = [c.value for c in wb["Workbooks"][2]]
     verdict = dict(zip(head, row))

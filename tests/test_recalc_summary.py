@@ -22,7 +22,7 @@ from functions.design import CHECK_RULES
 from functions.quantities import design_inputs, design_results
 from workbook_builder.plan.reference import CAUTIONS
 from workbook_builder.recalc import BatchSummary, Issue, RecalcResult, print_report, write_summary
-from workbook_builder.recalc.summary import csv_safe, summary_row
+from workbook_builder.recalc.summary import csv_safe, report_lines, summary_row
 from workbook_builder.recalc.workbook import SHORT_LABELS, STATUSES, Change
 
 FIXED = ["Workbook", "Status", "Reason", "Output"]
@@ -158,7 +158,8 @@ def test_summary_workbook_sheets_and_csv(tmp_path):
     with open(csv_path, encoding="utf-8", newline="") as fh:
         rows = list(csv.reader(fh))
     wb = openpyxl.load_workbook(xlsx)
-    assert wb.sheetnames == ["Workbooks", "Changes", "Issues", "Statuses", "Cautions"]
+    assert wb.sheetnames == ["Report", "Workbooks", "Changes", "Issues", "Statuses",
+                             "Cautions"]
     sheet = [[c.value for c in r] for r in wb["Workbooks"].iter_rows()]
     assert sheet[0] == rows[0] == list(summary_row(batch.results[0]))
     assert [r[1] for r in sheet[1:]] == ["OK", "EDITED", "FAILED"]
@@ -168,6 +169,9 @@ def test_summary_workbook_sheets_and_csv(tmp_path):
     assert ws.auto_filter.ref == ws.dimensions
     assert [[c.value for c in r] for r in wb["Statuses"].iter_rows(min_row=2)] == [
         [k, v] for k, v in STATUSES.items()]
+    # the page to print: the report, every change listed (none left to "more")
+    report = [r[0].value or "" for r in wb["Report"].iter_rows()]
+    assert report == report_lines(batch, limit=0) and report[0].startswith("OK      in/tower")
     # every text stays text: in the workbook as a string cell, in the CSV behind an apostrophe
     reason = sheet[0].index("Reason")
     cell = wb["Workbooks"].cell(4, reason + 1)

@@ -12,6 +12,6 @@ try:
     from importlib.metadata import PackageNotFoundError, version as _version
     __version__ = _version("swaytune")
 except Exception:  # pragma: no cover - running from a source tree without metadata
-    __version__ = "0.2.0"
+    __version__ = "0.3.0"
 
 __all__ = ["__version__"]

@@ -264,7 +264,7 @@ def recalc_many(paths: Iterable[str | os.PathLike], outdir: str | os.PathLike | 
     done = [r if r is not None else RecalcResult(path=items[i][0],
                                                   error="not recalculated (interrupted)")
             for i, r in enumerate(results)]
-    batch = BatchSummary(done, interrupted=interrupted)
+    batch = BatchSummary(done, interrupted=interrupted, seconds=time.perf_counter() - t0)
     batch.summary_xlsx, batch.summary_csv = write_summary(batch, base, force=force)
     batch.seconds = time.perf_counter() - t0
     return batch

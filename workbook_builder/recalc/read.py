@@ -125,6 +125,10 @@ def workbook_format(book: Book) -> int:
                           "number") from None
 
 
+#: Which swaytune wrote the released layout formats before the current one.
+_MADE_BY = {1: "swaytune 0.1", 2: "swaytune 0.1", 3: "swaytune 0.2.0"}
+
+
 def _plan(book: Book) -> Plan:
     number = workbook_format(book)
     if number > PLAN_VERSION:
@@ -134,8 +138,9 @@ def _plan(book: Book) -> Plan:
     text = book.custom_props.get(PLAN_PROPERTY)
     if number < PLAN_VERSION or text is None:
         raise RecalcError(
-            f"workbook of layout format {number} (swaytune 0.1): recalculation reads workbooks "
-            f"of format {PLAN_VERSION} and newer through the names of their plan. Rebuild it "
+            f"workbook of layout format {number} ({_MADE_BY.get(number, 'an earlier swaytune')}"
+            f"): this swaytune reads workbooks of format {PLAN_VERSION} through the names of "
+            "their plan. Rebuild it "
             "from its project file, named on its Record sheet: swaytune build PROJECT.toml -o "
             "NEW.xlsx (inputs edited in the workbook must be carried over to the project "
             "file)")

@@ -4,7 +4,7 @@
 :func:`summary_row` flattens a :class:`workbook_builder.recalc.RecalcResult` (status, reason,
 key inputs and results under readable labels with units, every check verdict, what changed
 since the last engine run, hand edits, other issues); :func:`write_summary` writes the rows as
-``base.csv`` and ``base.xlsx`` (sheets Workbooks, Changes, Issues, Statuses, Cautions; landscape,
+``base.csv`` and ``base.xlsx`` (sheets Report, Workbooks, Changes, Issues, Statuses, Cautions; landscape,
 frozen header, filters; every text written as text, never as a formula); :func:`print_report`
 prints the batch for the command line. Values are shown in the batch's units: US customary
 when every workbook of the batch is, else SI.
@@ -31,8 +31,8 @@ from ..xlsx.files import (FORCE_HINT, OverwriteRefused, atomic_path, guard_overw
                           mark_workbook)
 from .workbook import HAND_EDITS, SHORT_LABELS, STATUSES, RecalcResult
 
-__all__ = ["summary_row", "write_summary", "print_report", "csv_safe", "SUMMARY_STEM",
-           "guard_summary", "summary_paths", "FIXED_COLUMNS"]
+__all__ = ["summary_row", "write_summary", "print_report", "report_lines", "csv_safe",
+           "SUMMARY_STEM", "guard_summary", "summary_paths", "FIXED_COLUMNS"]
 
 #: File stem of the batch summary (``recalc_summary.xlsx`` and ``.csv``); folder scans skip it.
 SUMMARY_STEM = "recalc_summary"
@@ -134,8 +134,13 @@ def guard_summary(base: str | os.PathLike, force: bool = False) -> None:
 
 
 def _sheet(wb: Workbook, title: str, headers: list[str], rows: list[list[Any]],
-           widths: list[float], status_col: int | None = None, first: bool = False):
-    """A sheet of the summary: bold wrapped header, frozen, filtered, landscape, widths."""
+           widths: list[float], status_col: int | None = None, first: bool = False,
+           wide: bool = False):
+    """A sheet of the summary: bold wrapped header, frozen, filtered, landscape, widths.
+
+    A ``wide`` table (one line per workbook, long texts unwrapped) prints on as many pages
+    across as it needs; the others fit the page width.
+    """
     ws = wb.active if first else wb.create_sheet(title)
     ws.title = title
     for j, h in enumerate(headers, start=1):
@@ -147,7 +152,7 @@ def _sheet(wb: Workbook, title: str, headers: list[str], rows: list[list[Any]],
             c = _put(ws, i, j, v)
             if j == status_col and v in _STATUS_FILL:
                 c.fill = PatternFill("solid", fgColor=_STATUS_FILL[v])
-            elif isinstance(v, str) and len(v) > 40:
+            elif isinstance(v, str) and len(v) > 40 and not wide:
                 c.alignment = Alignment(wrap_text=True, vertical="top")
     for j, w in enumerate(widths[:len(headers)], start=1):
         ws.column_dimensions[ws.cell(1, j).column_letter].width = w
@@ -155,9 +160,10 @@ def _sheet(wb: Workbook, title: str, headers: list[str], rows: list[list[Any]],
     if rows:
         ws.auto_filter.ref = ws.dimensions
     ws.page_setup.orientation = "landscape"
-    ws.page_setup.fitToWidth, ws.page_setup.fitToHeight = 1, 0
-    ws.sheet_properties.pageSetUpPr.fitToPage = True
     ws.print_title_rows = "1:1"
+    if not wide:
+        ws.page_setup.fitToWidth, ws.page_setup.fitToHeight = 1, 0
+        ws.sheet_properties.pageSetUpPr.fitToPage = True
     return ws
 
 
@@ -175,7 +181,8 @@ def _put(sheet, r: int, c: int, v: Any):
 def write_summary(batch, base: str | os.PathLike, force: bool = False) -> tuple[Path, Path]:
     """Write the batch summary as ``base.xlsx`` and ``base.csv``; return both paths.
 
-    The workbook has a sheet per view: Workbooks (one row each: status, reason, key inputs and
+    The workbook has a sheet per view: Report (the printed report, every change listed; the
+    page to print), Workbooks (one row each: status, reason, key inputs and
     results, every check verdict, changes, hand edits, notes), Changes (each input and key
     result changed since the last engine run, old and new, in the workbook's units), Issues,
     Statuses (what each status means), Cautions. Every text is written as text, never as a
@@ -202,9 +209,17 @@ def write_summary(batch, base: str | os.PathLike, force: bool = False) -> tuple[
                 w.writerow([csv_safe(row.get(h, "")) for h in headers])
 
     wb = Workbook()
-    widths = [34, 9, 30, 34] + [14] * (len(headers) - 4)
+    rep = wb.active
+    rep.title = "Report"
+    for i, line in enumerate(report_lines(batch, limit=0), start=1):
+        _put(rep, i, 1, line).font = Font(name="DejaVu Sans Mono", size=9,
+                                          bold=line[:1] not in (" ", ""))
+    rep.column_dimensions["A"].width = 130
+    rep.page_setup.fitToWidth, rep.page_setup.fitToHeight = 1, 0
+    rep.sheet_properties.pageSetUpPr.fitToPage = True
+    widths = [34, 9, 30, 34] + [12] * (len(headers) - 4)
     _sheet(wb, "Workbooks", headers, [[row.get(h, "") for h in headers] for row in rows],
-           widths, status_col=2, first=True)
+           widths, status_col=2, wide=True)
     changes = [[str(res.path), c.kind, c.label, _cell(c.old), _cell(c.new), c.unit]
                for res in batch.results for c in res.changes]
     _sheet(wb, "Changes", ["Workbook", "Input or result", "Quantity", "Old value", "New value",
@@ -242,6 +257,37 @@ def _listed(label: str, items: list, limit: int = 6) -> str:
     return "\n".join(lines)
 
 
+def report_lines(batch, limit: int = 6) -> list[str]:
+    """The report, one block per workbook, then a total (see :func:`print_report`).
+
+    ``limit`` changes of each kind are listed per workbook (the rest counted; 0: all).
+    """
+    out: list[str] = []
+    for r in batch.results:
+        if r.failed:
+            out.append(f"{'FAILED':<8}{r.path}: {r.error}")
+            continue
+        line = f"{r.status:<8}{r.path}"
+        if r.output is not None:
+            line += f" -> {r.output}" if r.rewritten or r.output != r.path else " (unchanged)"
+        out.append(line)
+        for label, items in (("inputs changed", r.changed("input")),
+                             ("results changed", r.changed("result")),
+                             ("hand edits", r.hand_edits)):
+            if items:
+                out += _listed(label, items, limit or len(items)).split("\n")
+        bad = [label for label, v in r.checks if v != "OK"]
+        if bad:
+            out.append(f"        NOT OK: {'; '.join(bad)}")
+        out += [f"        {i.kind}: {i}" for i in r.issues if i.kind not in HAND_EDITS]
+        if r.backup is not None:
+            out.append(f"        backup: {r.backup}")
+    counts = {s: sum(r.status == s for r in batch.results) for s in STATUSES}
+    out += ["", f"{len(batch.results)} workbook(s): "
+            + ", ".join(f"{n} {s}" for s, n in counts.items()) + f" ({batch.seconds:.1f} s)"]
+    return out
+
+
 def print_report(batch, stream=None) -> None:
     """Print one block per workbook and a total.
 
@@ -250,30 +296,7 @@ def print_report(batch, stream=None) -> None:
     (formulas that differ from the plan, cells showing an error); the checks NOT OK; notes.
     """
     stream = stream or sys.stdout
-    for r in batch.results:
-        if r.failed:
-            print(f"{'FAILED':<8}{r.path}: {r.error}", file=stream)
-            continue
-        line = f"{r.status:<8}{r.path}"
-        if r.output is not None:
-            line += f" -> {r.output}" if r.rewritten or r.output != r.path else " (unchanged)"
+    for line in report_lines(batch):
         print(line, file=stream)
-        for label, items in (("inputs changed", r.changed("input")),
-                             ("results changed", r.changed("result")),
-                             ("hand edits", r.hand_edits)):
-            if items:
-                print(_listed(label, items), file=stream)
-        bad = [label for label, v in r.checks if v != "OK"]
-        if bad:
-            print(f"        NOT OK: {'; '.join(bad)}", file=stream)
-        for i in r.issues:
-            if i.kind not in HAND_EDITS:
-                print(f"        {i.kind}: {i}", file=stream)
-        if r.backup is not None:
-            print(f"        backup: {r.backup}", file=stream)
-    counts = {s: sum(r.status == s for r in batch.results) for s in STATUSES}
-    print(f"\n{len(batch.results)} workbook(s): "
-          + ", ".join(f"{n} {s}" for s, n in counts.items())
-          + f" ({batch.seconds:.1f} s)", file=stream)
     if batch.summary_xlsx:
         print(f"summary: {batch.summary_xlsx} and {batch.summary_csv}", file=stream)
