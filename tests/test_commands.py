@@ -77,6 +77,8 @@ def test_a_usage_error_is_status_2(tmp_path, capsys):
     assert exit_info.value.code == 2
     assert main(["recalc", str(tmp_path), "--no-progress"]) == 2      # neither -o nor --in-place
     assert "-o OUTDIR or --in-place" in capsys.readouterr().err
+    assert main(["recalc", str(tmp_path), "-o", str(tmp_path), "--no-progress"]) == 2
+    assert "is the folder being recalculated" in capsys.readouterr().err
 
 
 @pytest.mark.parametrize("argv", [["--version"], ["--help"], ["recalc", "--help"]])

@@ -324,12 +324,12 @@ def test_output_folder_that_is_a_file_or_the_input_folder_is_refused(built, tmp_
         recalc_many([folder], outdir=a_file, progress=False)
     with pytest.raises(ValueError, match=r"is the folder being recalculated"):
         recalc_many([folder], outdir=folder, progress=False)
-    # the command: a message, no traceback, exit 1, nothing written
-    assert main_recalc([str(folder), "-o", str(a_file), "--no-progress"]) == 1
+    # the command: a message, no traceback, exit 2 (a usage error), nothing written
+    assert main_recalc([str(folder), "-o", str(a_file), "--no-progress"]) == 2
     err = capsys.readouterr().err
     assert "error: the output folder" in err and "Traceback" not in err
     assert a_file.read_text() == "mine"
-    assert cli.main(["recalc", str(folder), "-o", str(folder), "--no-progress"]) == 1
+    assert cli.main(["recalc", str(folder), "-o", str(folder), "--no-progress"]) == 2
     assert "is the folder being recalculated" in capsys.readouterr().err
     assert sorted(p.name for p in folder.iterdir()) == ["den_hartog.xlsx"]
 

@@ -239,11 +239,15 @@ def cmd_recalc(args) -> int:
         print(f"error: --jobs {args.jobs} must be >= 1", file=sys.stderr)
         return 2
     from .recalc import print_report, recalc_many       # lazy import (start-up time)
-    batch = recalc_many(args.paths, outdir=args.outdir, jobs=args.jobs,
-                        progress=not args.no_progress, in_place=args.in_place,
-                        backup=not args.no_backup, keep_backups=args.keep_backups,
-                        summary=args.summary, force=args.force,
-                        compare_layout=not args.no_layout_check)
+    try:
+        batch = recalc_many(args.paths, outdir=args.outdir, jobs=args.jobs,
+                            progress=not args.no_progress, in_place=args.in_place,
+                            backup=not args.no_backup, keep_backups=args.keep_backups,
+                            summary=args.summary, force=args.force,
+                            compare_layout=not args.no_layout_check)
+    except ValueError as exc:       # contradictory options (the output folder is the input)
+        print(f"error: {exc}", file=sys.stderr)
+        return 2
     print_report(batch)
     if any(not r.failed for r in batch.results):
         print_cautions()            # design results were shown
