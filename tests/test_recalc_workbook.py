@@ -25,6 +25,7 @@ from workbook_builder.build import build_workbook, write_workbook
 from workbook_builder.project import load_project, parse_project
 from workbook_builder.recalc import (RecalcError, parse_overrides, read_inputs, read_workbook,
                                      recalc_many, recalc_workbook, write_results)
+from workbook_builder.recalc import workbook as recalc_module
 from workbook_builder.xlsx import libreoffice, rewrite
 from workbook_builder.xlsx.cached import formula_cells
 
@@ -396,3 +397,21 @@ def test_output_opens_in_libreoffice_without_errors(built, tmp_path):
     assert again.status == "OK", again.error or [str(i) for i in again.issues]
     assert not [i for i in again.issues if i.kind.startswith("formula")]
 
+
+
+def test_the_simulation_is_rerun_only_when_its_inputs_changed(tmp_path, monkeypatch):
+    """The Nonlinear sheet's values were computed for inputs equal to its snapshots: recalc
+    keeps them (the simulation is deterministic, its settings fixed at build) and reruns it
+    once an input it depends on changes (our own rule)."""
+    path = tmp_path / "sim.xlsx"
+    write_workbook(load_project(EXAMPLES / "residential_tower.toml"), path)
+    calls = []
+    real = recalc_module.run_simulation
+    monkeypatch.setattr(recalc_module, "run_simulation",
+                        lambda *a: calls.append(1) or real(*a))
+    same = recalc_workbook(path, outdir=tmp_path / "a")
+    assert same.status == "OK" and calls == []
+    assert assert_numbers_equal(cell_values(same.output), cell_values(path), rel=1e-15,
+                                sheets={"Nonlinear"}) > 5000
+    changed = recalc_workbook(path, outdir=tmp_path / "b", inputs={"frequency": 0.2})
+    assert calls == [1] and changed.results["engine_flag_simulation"] == "current"

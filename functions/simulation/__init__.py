@@ -15,19 +15,13 @@ Every public name of the modules below is re-exported here (``simulation.simulat
 
 The notes on the model, the integration and the loads head the module they describe.
 """
-from functions.simulation.calibration import (
-    PEAK_DURATION,
-    CalibratedLoad,
-    calibrated_load,
-    hanger_damping,
-)
-from functions.simulation.integrators import INTEGRATORS
-from functions.simulation.loads import LOAD_TYPES, HarmonicForce, RandomForce, force_spectrum
-from functions.simulation.results import SUMMARY_FIELDS, Response, SimulationResult
-from functions.simulation.retune import RetuneResult, retune_for_swing
-from functions.simulation.run import MAX_AUTO_WARMUP, MAX_SAMPLES, simulate  # noqa: F401
-from functions.simulation.summary import simulation_summary
-from functions.simulation.theory import RandomTheory, random_response_theory
+import importlib
+from typing import Any
+
+#: The modules whose names the package re-exports, imported on first use (PEP 562): the
+#: Nonlinear sheet's layout needs one constant, not scipy's integration modules.
+MODULES = ("calibration", "integrators", "loads", "results", "retune", "run", "summary",
+           "theory")
 
 __all__ = [
     "HarmonicForce",
@@ -50,3 +44,18 @@ __all__ = [
     "calibrated_load",
     "hanger_damping",
 ]
+
+
+def __getattr__(name: str) -> Any:
+    if name in MODULES:
+        return importlib.import_module(f"{__name__}.{name}")
+    if name in __all__ or name in ("MAX_AUTO_WARMUP", "MAX_SAMPLES"):
+        for module in MODULES:
+            found = importlib.import_module(f"{__name__}.{module}")
+            if hasattr(found, name):
+                return getattr(found, name)
+    raise AttributeError(f"module {__name__!r} has no attribute {name!r}")
+
+
+def __dir__() -> list[str]:
+    return sorted({*globals(), *MODULES, *__all__})

@@ -18,7 +18,7 @@ from .sheet import Looks, SheetLayout, ref
 
 __all__ = ["calculation_sheet", "engine_flag", "engine_flags", "snapshot_name",
            "UNIT_FORMATS", "unit_format", "value_format", "Columns", "calculation_columns",
-           "FLAG_LABEL", "result_comment"]
+           "FLAG_LABEL", "result_comment", "SIMULATION_FLAG"]
 
 #: Display format of a value by unit where no quantity declares one (US columns, checks).
 UNIT_FORMATS = {
@@ -83,6 +83,10 @@ def calculation_columns(options: PlanOptions) -> Columns:
     return Columns(options.us)
 
 
+#: The flag of the Nonlinear sheet's engine values (its snapshots are named after it).
+SIMULATION_FLAG = "engine_flag_simulation"
+
+
 def snapshot_name(flag: str, dependency: str) -> str:
     """Defined name of the snapshot of ``dependency`` beside an engine-value flag."""
     return f"{flag}_{dependency}"
@@ -96,7 +100,7 @@ def engine_flags(options: PlanOptions) -> list[tuple[str, str]]:
     if options.tuning_method in ("h2", "hinf"):
         flags.append(("engine_flag_tuning", "tuning optimum"))
     if options.simulation is not None:
-        flags.append(("engine_flag_simulation", "nonlinear simulation"))
+        flags.append((SIMULATION_FLAG, "nonlinear simulation"))
     return flags
 
 

@@ -14,7 +14,7 @@ from functools import partial
 
 
 from ..project.units import us_display
-from .calculation import engine_flag, unit_format
+from .calculation import SIMULATION_FLAG, engine_flag, unit_format
 from .charts import CHART_ROWS, BLUE, GREY, ORANGE, TIME_SPEC, WINDOW_SPEC, TableSpec, \
     write_table
 from .checks import NOT_DEFINED, SCIENTIFIC
@@ -187,7 +187,7 @@ def nonlinear_sheet(options: PlanOptions) -> SheetLayout:
                ("sim", "substeps_note"), fmt="0.0000")
     row = put(sh, row, "Estimated relative integration error", ("sim", "integration_error"),
                "-", "step doubling (Richardson), relative to the peaks", fmt=SCIENTIFIC)
-    row = engine_flag(sh, row, "engine_flag_simulation", simulation_dependencies(options),
+    row = engine_flag(sh, row, SIMULATION_FLAG, simulation_dependencies(options),
                       "simulation", label_col=1, value_col=2, note_col=6 if us else 4,
                       note_to=None if us else 6)
     row += 1

@@ -17,10 +17,22 @@ from ..xlsx.formulas import FormulaError, parse
 from ..xlsx.package import Book, Cell, split_coord
 from .read import Issue
 
-__all__ = ["formula_issues", "CANON_CACHE", "moved_sheets"]
+__all__ = ["formula_issues", "CANON_CACHE", "POSITIONS_CACHE", "moved_sheets"]
+
+_EMPTY = Cell(0, 0, None, "n")
 
 #: Syntax trees of formulas, canonical (names upper case, sheets explicit), per (text, sheet).
 CANON_CACHE: dict[tuple[str, str], Any] = {}
+#: Per plan (by its options, which decide it): every planned cell with its row and column.
+POSITIONS_CACHE: dict[Any, list[tuple[str, tuple[int, int], Any]]] = {}
+
+
+def _positions(plan: Plan) -> list[tuple[str, tuple[int, int], Any]]:
+    found = POSITIONS_CACHE.get(plan.options)
+    if found is None:
+        found = POSITIONS_CACHE[plan.options] = [(s, split_coord(c.ref), c)
+                                                 for s, c in plan.cells()]
+    return found
 
 
 def canon(formula: str, sheet: str) -> Any:
@@ -73,11 +85,10 @@ def formula_issues(book: Book, plan: Plan, typed_cells: set[tuple[str, str]]) ->
         issues.append(Issue("layout", ", ".join(moved), "rows or columns were inserted or "
                             "deleted by hand (named cells moved): only the named formulas of "
                             "these sheets were compared with the plan"))
-    for sheet, c in plan.cells():
+    for sheet, pos, c in _positions(plan):
         ws = book.sheets.get(sheet)
         if ws is None:
             continue
-        where = f"{sheet}!{c.ref}"
         if sheet in moved:
             if not c.name:
                 continue
@@ -87,10 +98,13 @@ def formula_issues(book: Book, plan: Plan, typed_cells: set[tuple[str, str]]) ->
             cell = book[loc[0]].get(loc[1])
             where = f"{loc[0]}!{loc[1]}"            # where the cell is now
         else:
-            cell = ws.cells.get(split_coord(c.ref)) or Cell(0, 0, None, "n")
+            cell = ws.cells.get(pos) or _EMPTY
+            where = f"{sheet}!{c.ref}"
         expected = c.content if c.kind in ("formula", "check") else None
         if expected is not None and cell.data_type == "f" and cell.value == expected:
             continue                                  # the same text: the common case
+        if expected is None and cell.data_type != "f":
+            continue                                  # a value where a value belongs
         if expected is None:
             if cell.data_type == "f" and (sheet, c.ref) not in typed_cells and \
                     c.kind != "input":

@@ -33,11 +33,12 @@ from functions.quantities import by_name, design_inputs
 from functions.worksheet import TWIN_TOLERANCE
 
 from ..compute import run_design, run_simulation
-from ..plan.calculation import engine_flags
+from ..plan.calculation import SIMULATION_FLAG, engine_flags, snapshot_name
 from ..plan.charts import chart_tables
 from ..plan import make_plan
 from ..plan.checks import check_name, cross_checked
 from ..plan.model import Plan
+from ..plan.nonlinear import simulation_dependencies
 from ..plan.reference import recorded_results
 from ..plan.summary import VERDICT_LABELS
 from ..plan.values import Sources, source_value
@@ -47,7 +48,7 @@ from ..xlsx.files import OverwriteRefused, atomic_path, guard_hand_edits, guard_
 from ..xlsx.formulas import Evaluator, FormulaError, is_error
 from ..xlsx.package import Book, Cell, PackageError, split_coord
 from ..xlsx.rewrite import write_package
-from .edits import CANON_CACHE, formula_issues
+from .edits import CANON_CACHE, POSITIONS_CACHE, formula_issues
 from .inputs import parse_overrides
 from .read import PART_CACHE, Issue, NamedCells, RecalcError, WorkbookData, read_workbook
 
@@ -151,6 +152,8 @@ def clear_caches() -> None:
     PARSE_CACHE.clear()
     PART_CACHE.clear()
     CANON_CACHE.clear()
+    POSITIONS_CACHE.clear()
+    LOCATIONS_CACHE.clear()
     make_plan.cache_clear()
 
 
@@ -166,29 +169,49 @@ def _plain(v: Any) -> Any:
     return str(v) if is_error(v) else v
 
 
-class _Locator:
-    """Where planned cells are in the workbook: through their names, or their named ranges."""
+#: Per plan (by its options): each refreshed cell with its defined name, or its named range
+#: and its index in it (row by row), and the range's size.
+LOCATIONS_CACHE: dict[Any, list[tuple[str, Any, str, int, int]]] = {}
 
-    def __init__(self, book: Book, plan: Plan):
-        self.names = NamedCells(book)
-        self.ranges = []
-        for rname, (rsheet, rng) in plan.range_names().items():
-            first, _, last = rng.partition(":")
-            self.ranges.append((rname, rsheet, split_coord(first), split_coord(last)))
 
-    def __call__(self, sheet: str, ref: str, name: str) -> tuple[str, str]:
-        if name:
-            return self.names.loc(name)
-        r, c = split_coord(ref)
-        for rname, rsheet, (r1, c1), (r2, c2) in self.ranges:
-            if rsheet == sheet and r1 <= r <= r2 and c1 <= c <= c2:
+def _locations(plan: Plan) -> list[tuple[str, Any, str, int, int]]:
+    """``(sheet, cell, name or range name, index in the range, range size)`` of every engine
+    value recalculation refreshes; a named cell has index -1."""
+    found = LOCATIONS_CACHE.get(plan.options)
+    if found is not None:
+        return found
+    ranges = []
+    for rname, (rsheet, rng) in plan.range_names().items():
+        first, _, last = rng.partition(":")
+        ranges.append((rname, rsheet, split_coord(first), split_coord(last)))
+    found = []
+    for sheet, c in plan.refreshed_cells():
+        if c.name:
+            found.append((sheet, c, c.name, -1, 0))
+            continue
+        r, col = split_coord(c.ref)
+        for rname, rsheet, (r1, c1), (r2, c2) in ranges:
+            if rsheet == sheet and r1 <= r <= r2 and c1 <= col <= c2:
                 width = c2 - c1 + 1
-                wsheet, cells = self.names.range_cells(rname)
-                if len(cells) != (r2 - r1 + 1) * width:
-                    raise RecalcError(f"{rname} holds {len(cells)} cells, the plan "
-                                      f"{(r2 - r1 + 1) * width}: the layout is damaged")
-                return wsheet, cells[(r - r1) * width + (c - c1)].coordinate
-        raise RecalcError(f"{sheet}!{ref}: an engine value without a name (a bug of the plan)")
+                found.append((sheet, c, rname, (r - r1) * width + (col - c1),
+                              (r2 - r1 + 1) * width))
+                break
+        else:
+            raise RecalcError(f"{sheet}!{c.ref}: an engine value without a name (a bug of "
+                              "the plan)")
+    LOCATIONS_CACHE[plan.options] = found
+    return found
+
+
+def _locate(names: NamedCells, name: str, index: int, size: int) -> tuple[str, str]:
+    """Where a refreshed cell is in the workbook: through its name, or its named range."""
+    if index < 0:
+        return names.loc(name)
+    wsheet, cells = names.range_cells(name)
+    if len(cells) != size:
+        raise RecalcError(f"{name} holds {len(cells)} cells, the plan {size}: the layout is "
+                          "damaged")
+    return wsheet, cells[index].coordinate
 
 
 def _engine_constants(data: WorkbookData, result: Any, simulation: Any = None
@@ -198,9 +221,11 @@ def _engine_constants(data: WorkbookData, result: Any, simulation: Any = None
     sources = Sources(data.project, result, chart_tables(result), simulation)
     out: dict[tuple[str, str], Any] = {}
     issues: list[Issue] = []
-    locate = _Locator(book, plan)
-    for sheet, c in plan.refreshed_cells():
-        wsheet, coord = locate(sheet, c.ref, c.name)
+    names = NamedCells(book)
+    for sheet, c, name, index, size in _locations(plan):
+        if simulation is None and _from_simulation(c):
+            continue                # not rerun: its inputs did not change (or no such sheet)
+        wsheet, coord = _locate(names, name, index, size)
         cell = book[wsheet].get(coord)
         where = f"{wsheet}!{coord}"
         if cell.data_type == "f":
@@ -327,7 +352,7 @@ def _design(data: WorkbookData) -> tuple[Any, Any]:
         raise RecalcError(f"the engine cannot compute the design for these inputs: "
                           f"{str(exc).split(': ', 2)[-1]}") from None
     options = data.plan.options
-    if options.simulation is None:
+    if options.simulation is None or _simulation_current(data, result):
         return result, None
     settings = data.project.simulation
     if settings is None or not settings.enabled:
@@ -345,6 +370,27 @@ def _design(data: WorkbookData) -> tuple[Any, Any]:
                              f"rows instead of {options.simulation[1]} and "
                              f"{options.simulation[2]}")
     return result, run
+
+
+def _simulation_current(data: WorkbookData, result: Any) -> bool:
+    """Whether the Nonlinear sheet's values were computed for these very inputs: every input
+    the simulation depends on equals its snapshot (relative 1e-12, as the sheet's flag), so the
+    simulation (deterministic, its settings fixed at build) need not be rerun."""
+    for dep in simulation_dependencies(data.plan.options):
+        loc = data.book.name_cell(snapshot_name(SIMULATION_FLAG, dep))
+        snap = data.book[loc[0]].get(loc[1]).value if loc is not None else None
+        now = result.cells.get(dep)
+        if not (isinstance(snap, float) and isinstance(now, (int, float))
+                and abs(now - snap) <= 1e-12 * abs(snap)):
+            return False
+    return True
+
+
+def _from_simulation(cell: Any) -> bool:
+    """Whether an engine value comes from the time-domain simulation (or is its snapshot)."""
+    kind = cell.source[0]
+    return kind in ("sim", "sim_response", "sim_table") or (
+        kind == "snapshot" and cell.source[1] == "simulation")
 
 
 def _recalc(res: RecalcResult, path: Path, dest: Path | None, in_place: bool, backup: str,
@@ -375,11 +421,12 @@ def _recalc(res: RecalcResult, path: Path, dest: Path | None, in_place: bool, ba
     engine, issues = _engine_constants(data, result, simulation)
     res.issues.extend(issues)
     constants.update(engine)
-    changed = False
+    new_constants: dict[tuple[str, str], Any] = {}       # those that differ from the file's
     for (sheet, coord), v in constants.items():
         r, c = split_coord(coord)
         old = book[sheet].cells.get((r, c))
-        changed = changed or old is None or not _same_value(old.value, v)
+        if old is None or not _same_value(old.value, v):
+            new_constants[(sheet, coord)] = v
         book[sheet].cells[(r, c)] = Cell(r, c, v, "s" if isinstance(v, str) else "n", v,
                                           old.cached_type if old else "n")
     cached = _evaluate(book, plan, res)
@@ -402,12 +449,16 @@ def _recalc(res: RecalcResult, path: Path, dest: Path | None, in_place: bool, ba
     if "Charts" in book:
         # the book's cells already hold the refreshed constants (written above)
         chart_values = {("Charts", c.coordinate): c.value for c in book["Charts"].cells.values()}
-    if in_place and not (changed or _cached_changed(book, cached)):
-        res.output = dest           # every value already current: the file is left alone
+    # only the values that differ from the file's are rewritten (a value within
+    # SAME_VALUE_RTOL of the stored one is the same value); in place, nothing to rewrite
+    # leaves the file alone
+    new_cached = _changed_cached(book, cached)
+    if in_place and not (new_constants or new_cached):
+        res.output = dest
         return
     _write(res, path, dest, in_place, backup, force, lambda src, out: write_results(
-        src, out, constants=constants, cached=cached, chart_values=chart_values, book=book),
-        data.book)
+        src, out, constants=new_constants, cached=new_cached, chart_values=chart_values,
+        book=book), data.book)
 
 
 def _relayout(res: RecalcResult, data: WorkbookData, path: Path, dest: Path | None,
@@ -459,13 +510,15 @@ def _same_value(old: Any, new: Any) -> bool:
     return type(old) is type(new) and old == new
 
 
-def _cached_changed(book: Book, cached: Mapping[tuple[str, str], Any]) -> bool:
-    """Whether a new cached value differs from the one the file holds (:func:`_same_value`)."""
-    for (sheet, coord), v in cached.items():
-        old = book[sheet].cells.get(split_coord(coord))
+def _changed_cached(book: Book, cached: Mapping[tuple[str, str], Any]
+                    ) -> dict[tuple[str, str], Any]:
+    """The new cached values that differ from the ones the file holds (:func:`_same_value`)."""
+    out = {}
+    for key, v in cached.items():
+        old = book[key[0]].cells.get(split_coord(key[1]))
         if old is None or not _same_value(old.cached, v):
-            return True
-    return False
+            out[key] = v
+    return out
 
 
 def _same_package(path: Path, book: Book) -> bool:
