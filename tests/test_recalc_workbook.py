@@ -411,7 +411,7 @@ def test_the_simulation_is_rerun_only_when_its_inputs_changed(tmp_path, monkeypa
                         lambda *a: calls.append(1) or real(*a))
     same = recalc_workbook(path, outdir=tmp_path / "a")
     assert same.status == "OK" and calls == []
-    assert assert_numbers_equal(cell_values(same.output), cell_values(path), rel=1e-15,
+    assert assert_numbers_equal(cell_values(same.output), cell_values(path), rel=1e-9,
                                 sheets={"Nonlinear"}) > 5000
     changed = recalc_workbook(path, outdir=tmp_path / "b", inputs={"frequency": 0.2})
     assert calls == [1] and changed.results["engine_flag_simulation"] == "current"
