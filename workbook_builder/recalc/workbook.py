@@ -23,7 +23,6 @@ import os
 import shutil
 import threading
 import time
-import zipfile
 from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Any, Mapping
@@ -458,7 +457,7 @@ def _recalc(res: RecalcResult, path: Path, dest: Path | None, in_place: bool, ba
         return
     _write(res, path, dest, in_place, backup, force, lambda src, out: write_results(
         src, out, constants=new_constants, cached=new_cached, chart_values=chart_values,
-        book=book), data.book)
+        book=book))
 
 
 def _relayout(res: RecalcResult, data: WorkbookData, path: Path, dest: Path | None,
@@ -491,7 +490,7 @@ def _relayout(res: RecalcResult, data: WorkbookData, path: Path, dest: Path | No
         except (ValueError, RuntimeError) as exc:       # BuildError, DrawError
             raise RecalcError(f"the new layout cannot be built: {exc}") from None
 
-    _write(res, path, dest, in_place, backup, force, build, data.book)
+    _write(res, path, dest, in_place, backup, force, build)
     fresh = recalc_workbook(res.output, compare_layout=False)
     if fresh.failed:
         raise RecalcError(f"the rebuilt workbook cannot be read back: {fresh.error}")
@@ -521,22 +520,11 @@ def _changed_cached(book: Book, cached: Mapping[tuple[str, str], Any]
     return out
 
 
-def _same_package(path: Path, book: Book) -> bool:
-    """Whether the package at ``path`` holds exactly the members of ``book`` (as read)."""
-    try:
-        with zipfile.ZipFile(path) as z:
-            infos = z.infolist()
-            if [i.filename for i in infos] != [i.filename for i, _ in book.members]:
-                return False
-            return all(z.read(i) == raw for i, (_, raw) in zip(infos, book.members))
-    except (OSError, zipfile.BadZipFile):
-        return False
-
-
 def _write(res: RecalcResult, path: Path, dest: Path, in_place: bool, backup: str,
-           force: bool, write, book: Book) -> None:
+           force: bool, write) -> None:
     """Write the output through ``write(source, out)``: a new file, or the workbook itself
-    (atomically; a backup only when its content changes)."""
+    (atomically, the original kept as a backup unless ``backup`` is "none"; the caller writes
+    in place only when a value changed)."""
     if not in_place:
         guard_overwrite(dest, force=force)
         guard_hand_edits(dest, force=force)
@@ -550,9 +538,6 @@ def _write(res: RecalcResult, path: Path, dest: Path, in_place: bool, backup: st
     scratch = dest.with_name(f".{dest.name}.swaytune-new")
     try:
         write(dest, scratch)
-        if _same_package(scratch, book):
-            res.output = dest           # nothing changed: no backup, the file untouched
-            return
         if backup != "none":
             res.backup = _backup_path(dest, keep=backup == "keep")
             if backup != "keep":
