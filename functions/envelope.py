@@ -15,11 +15,12 @@ Assumptions, used everywhere in this module:
 * the structure's damping ratio zeta_s is the same at every r;
 * the acceleration WITHOUT the damper across the band is ``a(r) = a r^k`` with a the value at
   the nominal frequency and k the ``response_exponent``. The default k = 0 holds it constant.
-  A rule k != 0 is the user's: for example, for a resonant response to a force spectrum that
-  falls as n^(-5/3) (the high-frequency asymptote of the EN 1991-1-4:2005 spectrum, B.1(2))
-  on a structure of fixed mass, sigma_a^2 = pi S_F(n) omega / (2 zeta M*^2) gives
-  k = (1 - 5/3) / 2 = -1/3 (computed; size effects and the wind-tunnel data of the project
-  may say otherwise);
+  A rule k != 0 is the user's: for example, a resonant response on a structure of fixed mass
+  has sigma_a^2 = pi S_F(n) omega / (2 zeta M*^2) (white-noise variance of a single
+  oscillator); a quasi-steady force follows the velocity spectrum, whose high-frequency
+  asymptote falls as n^(-5/3) (EN 1991-1-4:2005, B.1(2)), so k = (1 - 5/3) / 2 = -1/3
+  (computed; aerodynamic admittance, size effects and the project's wind-tunnel data may say
+  otherwise);
 * the acceleration WITH the damper follows the design chain's resonant rule
   (:mod:`functions.chain`): ``a_d(r) = a(r) sqrt(zeta_s / zeta_eff(r))`` with zeta_eff the
   variance-equivalent damping of :func:`functions.damper.effective_damping` evaluated on the
