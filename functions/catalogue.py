@@ -637,6 +637,10 @@ COVERED_ELSEWHERE: dict[str, str] = {
     "functions.simulation.hanger_damping":
         "one product and quotient, zeta_d f_d / f_L, used by the workbook builder to pass the "
         "designed dashpot to simulate",
+    **{f"functions.envelope.{name}": "frequency band (issue 12): its worksheet functions come "
+       "with the band's workbook section" for name in (
+           "detuned_effective_damping", "detuned_acceleration", "band_worst_case",
+           "robust_tuning", "band_mass_ratio", "hanger_adjustment", "as_built_retune")},
 }
 
 #: Messages a worksheet function returns instead of a result: (function, arguments, message,
