@@ -181,19 +181,8 @@ def test_text_choices_are_the_engine_choices():
                 assert a.choices == engine_choices[a.name]
 
 
-def test_summary_fields_are_the_engine_fields():
-    import dataclasses
-
-    from functions import simulation
-    assert catalogue.BY_NAME["SWAY_SIMULATION_SUMMARY"].fields == simulation.SUMMARY_FIELDS
-    names = [f[0] for f in catalogue.BY_NAME["SWAY_RANDOM_RESPONSE_THEORY"].fields]
-    assert names == [f.name for f in dataclasses.fields(simulation.RandomTheory)]
-    from functions import design, quantities
-    names = [f[0] for f in catalogue.BY_NAME["SWAY_DESIGN"].fields]
-    results = quantities.by_name(quantities.DESIGN_RESULTS)
-    assert names == list(results) + [f"{n}_ok" for n in design.CHECK_NAMES] + ["all_ok"]
-    for name, unit, _text in catalogue.BY_NAME["SWAY_DESIGN"].fields:
-        assert unit == (results[name].unit if name in results else "-")
+def test_summary_and_fields_functions_come_in_pairs():
+    # the fields of each summary against its engine: test_catalogue_<module>.py
     for fn in FUNCTIONS:
         if fn.kind in (catalogue.SUMMARY, catalogue.FIELDS):
             assert fn.fields and all(len(f) == 3 for f in fn.fields)

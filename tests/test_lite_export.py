@@ -110,7 +110,8 @@ def test_embedded_sources_are_exact(exported):
         original = path.read_text(encoding="utf-8")
         assert sources[name].replace("swaytune_engine", "functions") == original, name
     assert len(sources) == len(paths)
-    assert namespace["_PACKAGES"] == ("swaytune_engine", "swaytune_engine.simulation")
+    assert namespace["_PACKAGES"] == ("swaytune_engine", "swaytune_engine.catalogue",
+                                      "swaytune_engine.simulation")
 
 
 def test_subpackage_modules_are_named_by_their_place(tmp_path):
