@@ -32,6 +32,7 @@ from functions.catalogue.declaration import (
     ROWS, SUMMARY, TEXT, Argument, SheetFunction, engine_default, python_name,
 )
 from functions.catalogue.design import DESIGN, SIMULATION, design_sheet_functions
+from functions.catalogue.envelope import ENVELOPE
 from functions.catalogue.mechanics import DAMPER, PENDULUM, STRUCTURE
 
 __all__ = [
@@ -45,7 +46,7 @@ __all__ = [
 _REQUIRED = REQUIRED
 
 #: Every worksheet function, in documentation order.
-FUNCTIONS: tuple[SheetFunction, ...] = (PENDULUM + STRUCTURE + DAMPER + SIMULATION
+FUNCTIONS: tuple[SheetFunction, ...] = (PENDULUM + STRUCTURE + DAMPER + ENVELOPE + SIMULATION
                                         + DESIGN)
 
 #: Excel name -> declaration.
@@ -71,10 +72,6 @@ COVERED_ELSEWHERE: dict[str, str] = {
     "functions.simulation.hanger_damping":
         "one product and quotient, zeta_d f_d / f_L, used by the workbook builder to pass the "
         "designed dashpot to simulate",
-    **{f"functions.envelope.{name}": "frequency band (issue 12): its worksheet functions come "
-       "with the band's workbook section" for name in (
-           "detuned_effective_damping", "detuned_acceleration", "band_worst_case",
-           "robust_tuning", "band_mass_ratio", "hanger_adjustment", "as_built_retune")},
 }
 
 #: Messages a worksheet function returns instead of a result: (function, arguments, message,
@@ -107,12 +104,17 @@ MESSAGES: tuple[tuple[str, tuple, str, str], ...] = (
     ("SWAY_DISPLACEMENT_VARIANCE_RATIO", (0.02, 0.985, 0.0, 0.0),
      "SWAY_DISPLACEMENT_VARIANCE_RATIO: no finite result for these inputs",
      "The inputs are valid but the result is infinite (here: nothing is damped)."),
+    ("SWAY_BAND_WORST_ACCELERATION", (1.05, 1.1, 0.2, 0.02, 0.9846, 0.0702, 0.01),
+     "band_lower=1.05 must be in [0.5, 1] [-] (frequency factor f_actual/f_nominal; the band "
+     "must contain the nominal, 1)",
+     "A band of building frequencies that does not contain the nominal frequency."),
 )
 
 TOPICS = {
     "pendulum": "Pendulum",
     "structure": "Structure",
     "damper": "Damper",
+    "envelope": "Frequency band",
     "simulation": "Simulation",
     "design": "Design chain",
 }
