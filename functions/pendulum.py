@@ -15,7 +15,7 @@ from __future__ import annotations
 import math
 
 import numpy as np
-from scipy.special import ellipe, ellipj, ellipkm1
+from scipy.special import ellipj, ellipkm1
 
 from functions._validation import as_array, broadcast, check_range, scalar_or_array
 

@@ -13,7 +13,7 @@ import pytest
 from functions.quantities import DESIGN_INPUTS
 from workbook_builder.plan import PlanOptions, make_plan
 from workbook_builder.plan.model import (CELL_KINDS, REFRESHED_SOURCES, Cell, Plan, SheetPlan,
-                                         refreshed)
+                                         from_simulation, refreshed)
 
 NUMERIC = tuple(q.name for q in DESIGN_INPUTS if q.kind != "choice"
                 and q.name not in ("mass_ratio", "damper_mass"))
@@ -98,3 +98,17 @@ def test_refreshed_cells_of_a_plan_are_every_engine_value():
     for sheet, cell in engine:
         assert refreshed(cell) and cell.source[0] in REFRESHED_SOURCES, (sheet, cell.ref)
         assert cell.name or any(rs == sheet for rs, _ in ranges), (sheet, cell.ref)
+
+
+@pytest.mark.parametrize("cell, expected", [
+    (Cell("A1", "engine", source=("sim", "force")), True),
+    (Cell("A1", "engine", source=("sim_response", "nonlinear", "stroke_peak")), True),
+    (Cell("A1", "engine", source=("sim_table", "time", 0, 1)), True),
+    (Cell("A1", "engine", source=("snapshot", "simulation", "acceleration")), True),
+    (Cell("A1", "engine", source=("snapshot", "design", "mass_ratio")), False),
+    (Cell("A1", "engine", source=("cell", "tuning_ratio")), False),
+    (Cell("A1", "engine"), False),
+])
+def test_from_simulation_means_a_value_of_the_time_domain_check(cell, expected):
+    """What recalc may keep when the simulation's inputs did not change (our own rule)."""
+    assert from_simulation(cell) is expected

@@ -17,8 +17,8 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 from typing import Any, Iterator
 
-__all__ = ["CELL_KINDS", "REFRESHED_SOURCES", "refreshed", "Cell", "Validation", "Series", "Chart",
-           "SheetPlan", "Plan"]
+__all__ = ["CELL_KINDS", "REFRESHED_SOURCES", "SIMULATION_KINDS", "refreshed", "from_simulation",
+           "Cell", "Validation", "Series", "Chart", "SheetPlan", "Plan"]
 
 #: Kinds of planned cells:
 #:
@@ -36,11 +36,22 @@ CELL_KINDS = ("label", "text", "input", "value", "formula", "check", "engine")
 #: snapshots of the inputs they were computed for, chart tables, the inputs as typed at the
 #: last engine run (Record sheet) and the time-domain simulation's values and tables.
 REFRESHED_SOURCES = ("cell", "snapshot", "chart", "typed", "sim", "sim_response", "sim_table")
+#: Sources of the time-domain simulation's values (its snapshots are ``("snapshot",
+#: "simulation", ...)``).
+SIMULATION_KINDS = ("sim", "sim_response", "sim_table")
 
 
 def refreshed(cell: "Cell") -> bool:
     """True for an engine value batch recalculation recomputes (see REFRESHED_SOURCES)."""
     return cell.kind == "engine" and bool(cell.source) and cell.source[0] in REFRESHED_SOURCES
+
+
+def from_simulation(cell: "Cell") -> bool:
+    """True for a value of the time-domain simulation, or a snapshot of the inputs it was
+    computed for."""
+    source = cell.source
+    return bool(source) and (source[0] in SIMULATION_KINDS or source[:2] == ("snapshot",
+                                                                            "simulation"))
 
 
 @dataclass(frozen=True)

@@ -15,8 +15,7 @@ from functools import partial
 
 from ..project.units import us_display
 from .calculation import SIMULATION_FLAG, engine_flag, unit_format
-from .charts import CHART_ROWS, BLUE, GREY, ORANGE, TIME_SPEC, WINDOW_SPEC, TableSpec, \
-    write_table
+from .charts import CHART_ROWS, BLUE, GREY, ORANGE, TIME_SPEC, WINDOW_SPEC, write_table
 from .checks import NOT_DEFINED, SCIENTIFIC
 from .model import Chart, Series
 from .options import PlanOptions

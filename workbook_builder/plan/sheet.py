@@ -11,12 +11,13 @@ from typing import Any
 
 from openpyxl.utils import get_column_letter
 
-from .model import Cell, SheetPlan, Validation
+from .model import SIMULATION_KINDS, Cell, SheetPlan, Validation
 
 __all__ = ["SheetLayout", "ref", "Looks", "SIMULATION_SOURCES"]
 
-#: Sources of the time-domain simulation's single values (named after their source).
-SIMULATION_SOURCES = ("sim", "sim_response")
+#: Sources of the time-domain simulation's single values (named after their source; its tables
+#: are named ranges).
+SIMULATION_SOURCES = tuple(k for k in SIMULATION_KINDS if k != "sim_table")
 
 
 def ref(row: int, col: int) -> str:

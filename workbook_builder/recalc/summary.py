@@ -26,10 +26,9 @@ from functions.quantities import design_inputs, design_results
 
 from .. import __version__
 from ..plan.reference import CAUTIONS
-from ..project.units import us_display
 from ..xlsx.files import (FORCE_HINT, OverwriteRefused, atomic_path, guard_overwrite,
                           mark_workbook)
-from .workbook import HAND_EDITS, SHORT_LABELS, STATUSES, RecalcResult
+from .workbook import HAND_EDITS, SHORT_LABELS, STATUSES, RecalcResult, shown_unit
 
 __all__ = ["summary_row", "write_summary", "print_report", "report_lines", "csv_safe",
            "SUMMARY_STEM", "guard_summary", "summary_paths", "FIXED_COLUMNS"]
@@ -42,22 +41,9 @@ FIXED_COLUMNS = ("Workbook", "Status", "Reason", "Output")
 _STATUS_FILL = {"OK": "D9EAD3", "NOT OK": "F4CCCC", "EDITED": "FCE5CD", "FAILED": "D9D9D9"}
 
 
-def _unit(q, us: bool) -> tuple[str, float]:
-    """Unit and factor from SI a quantity is shown in (the batch's unit system)."""
-    return us_display(q.unit, q.cell_name) if us else (q.unit, 1.0)
-
-
 def _header(q, us: bool) -> str:
-    unit = _unit(q, us)[0]
+    unit = shown_unit(q, us)[0]
     return f"{q.label} [{unit}]" if unit else q.label
-
-
-def _shown(v: Any) -> str:
-    if v is None:
-        return "(none)"
-    if isinstance(v, float):
-        return f"{v:.6g}"
-    return str(v)
 
 
 def _check_columns() -> list[str]:
@@ -77,10 +63,10 @@ def summary_row(r: RecalcResult, us: bool = False) -> dict[str, Any]:
         str(r.path), r.status, r.error or "", "" if r.output is None else str(r.output))))
     for q in design_inputs():              # key inputs, as the engine took them
         if q.summary:
-            row[_header(q, us)] = _in_units(r.inputs.get(q.name), _unit(q, us)[1])
+            row[_header(q, us)] = _in_units(r.inputs.get(q.name), shown_unit(q, us)[1])
     for q in design_results():             # key results, as the workbook computes them
         if q.summary:
-            row[_header(q, us)] = _in_units(r.results.get(q.cell_name), _unit(q, us)[1])
+            row[_header(q, us)] = _in_units(r.results.get(q.cell_name), shown_unit(q, us)[1])
     verdicts = dict(r.checks)
     for label in _check_columns():
         if label == "Engine values current":

@@ -36,7 +36,7 @@ from ..plan.calculation import SIMULATION_FLAG, engine_flags, snapshot_name
 from ..plan.charts import chart_tables
 from ..plan import make_plan
 from ..plan.checks import check_name, cross_checked
-from ..plan.model import Plan
+from ..plan.model import Plan, from_simulation
 from ..plan.nonlinear import simulation_dependencies
 from ..plan.reference import recorded_results
 from ..plan.summary import VERDICT_LABELS
@@ -52,7 +52,8 @@ from .inputs import parse_overrides
 from .read import PART_CACHE, Issue, NamedCells, RecalcError, WorkbookData, read_workbook
 
 __all__ = ["RecalcResult", "Change", "recalc_workbook", "write_results", "PARSE_CACHE",
-           "CHANGE_TOLERANCE", "SHORT_LABELS", "STATUSES", "HAND_EDITS", "clear_caches"]
+           "CHANGE_TOLERANCE", "SHORT_LABELS", "STATUSES", "HAND_EDITS", "clear_caches",
+           "shown_unit"]
 
 #: Relative tolerance below which a value counts as unchanged since the last calculation [-].
 CHANGE_TOLERANCE = 1e-12
@@ -222,7 +223,7 @@ def _engine_constants(data: WorkbookData, result: Any, simulation: Any = None
     issues: list[Issue] = []
     names = NamedCells(book)
     for sheet, c, name, index, size in _locations(plan):
-        if simulation is None and _from_simulation(c):
+        if simulation is None and from_simulation(c):
             continue                # not rerun: its inputs did not change (or no such sheet)
         wsheet, coord = _locate(names, name, index, size)
         cell = book[wsheet].get(coord)
@@ -318,10 +319,10 @@ def _verdicts(data: WorkbookData, result: Any, res: RecalcResult, now) -> None:
         res.checks.append(("Every result formula agrees with the engine", "NOT OK"))
 
 
-def _display(q: Any, options: Any) -> tuple[str, float]:
-    """Unit and factor from SI of a result as the workbook shows it (US values first in a US
-    customary workbook)."""
-    return us_display(q.unit, q.cell_name) if options.us else (q.unit, 1.0)
+def shown_unit(q: Any, us: bool) -> tuple[str, float]:
+    """Unit and factor from SI a quantity is shown in: its SI unit, or in a US customary
+    workbook (or batch) its US unit."""
+    return us_display(q.unit, q.cell_name) if us else (q.unit, 1.0)
 
 
 def _changes(data: WorkbookData, result: Any) -> list[Change]:
@@ -335,7 +336,7 @@ def _changes(data: WorkbookData, result: Any) -> list[Change]:
             out.append(Change("input", name, declared[name].label, old, new, unit))
     for q in recorded_results(data.plan.options):
         old, new = data.last_results.get(q.cell_name), result.cells.get(q.cell_name)
-        unit, factor = _display(q, data.plan.options)
+        unit, factor = shown_unit(q, data.plan.options.us)
         old = old / factor if isinstance(old, (int, float)) else old
         new = float(new) / factor if isinstance(new, (int, float)) else new
         if not _close(old, new):
@@ -383,13 +384,6 @@ def _simulation_current(data: WorkbookData, result: Any) -> bool:
                 and abs(now - snap) <= 1e-12 * abs(snap)):
             return False
     return True
-
-
-def _from_simulation(cell: Any) -> bool:
-    """Whether an engine value comes from the time-domain simulation (or is its snapshot)."""
-    kind = cell.source[0]
-    return kind in ("sim", "sim_response", "sim_table") or (
-        kind == "snapshot" and cell.source[1] == "simulation")
 
 
 def _recalc(res: RecalcResult, path: Path, dest: Path | None, in_place: bool, backup: str,
@@ -504,9 +498,7 @@ SAME_VALUE_RTOL = 1e-15
 
 
 def _same_value(old: Any, new: Any) -> bool:
-    if isinstance(old, float) and isinstance(new, float):
-        return math.isclose(old, new, rel_tol=SAME_VALUE_RTOL, abs_tol=0.0)
-    return type(old) is type(new) and old == new
+    return type(old) is type(new) and _close(old, new, SAME_VALUE_RTOL)
 
 
 def _changed_cached(book: Book, cached: Mapping[tuple[str, str], Any]
