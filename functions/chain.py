@@ -33,14 +33,21 @@ import numpy as np
 
 from functions.damper import (CLOSED_FORMS, OPTIMAL_TUNING_METHODS, optimal_tuning,
                               required_mass_ratio)
+from functions.envelope import band_mass_ratio, band_worst_case, robust_tuning
 from functions.pendulum import pendulum_length, small_angle_error
 from functions.worksheet import form_of, twin
 
 __all__ = ["Step", "Section", "MASS_RATIO_MODES", "mass_ratio_mode", "sections", "steps",
-           "all_variants", "VARIANCE_SOURCE", "SMALL_SWING_ERROR"]
+           "all_variants", "VARIANCE_SOURCE", "SMALL_SWING_ERROR", "PARTS", "parts_of",
+           "engine_flag_names"]
 
 #: How the mass ratio is set: a chosen ratio, a chosen damper mass, or the required ratio.
 MASS_RATIO_MODES = ("chosen_mass_ratio", "chosen_damper_mass", "required")
+
+#: Optional parts of the calculation, each present when its inputs are given: the frequency
+#: band (``band_lower``, ``band_upper``), the as-built retune (``measured_frequency``) and the
+#: measured damping it uses (``measured_damping``).
+PARTS = ("band", "as_built", "measured_damping")
 
 #: Source of the white-noise variance steps.
 VARIANCE_SOURCE = "I4 integral (Newland 1993, App. 1), regrouped: no cancellation"
@@ -61,6 +68,9 @@ class Step:
     expression: str = ""
     source: str = ""
     formula_via_helpers: str = ""
+    #: Defined name of the flag that guards an engine value (its inputs changed since it was
+    #: computed); '' for a worksheet formula.
+    flag: str = ""
 
     @functools.cached_property
     def reads(self) -> tuple[str, ...]:
@@ -106,6 +116,23 @@ def mass_ratio_mode(mass_ratio_given: bool, damper_mass_given: bool) -> str:
     return "required"
 
 
+def parts_of(values: Any) -> tuple[str, ...]:
+    """The optional parts of the calculation (:data:`PARTS`) that the inputs ask for.
+
+    ``values`` maps glossary names of the design inputs to their values (None or absent: not
+    given).
+
+    Examples
+    --------
+    >>> parts_of({"band_lower": 0.9, "band_upper": 1.1, "measured_frequency": None})
+    ('band',)
+    """
+    given = {"band": values.get("band_lower") is not None,
+             "as_built": values.get("measured_frequency") is not None,
+             "measured_damping": values.get("measured_damping") is not None}
+    return tuple(part for part in PARTS if given[part])
+
+
 def _step(name: str, formula: str, compute: Callable[..., Any], expression: str,
           source: str = "") -> Step:
     return Step(name, twin(formula, compute, expression, source), expression, source)
@@ -136,7 +163,8 @@ def _required_mass_ratio_step(method: str) -> Step:
     return Step("mass_ratio",
                 lambda required_damping, structural_damping:
                 required_mass_ratio(required_damping, structural_damping, method),
-                "zeta_eff(mu, f_opt, zeta_opt, zeta_s) = zeta_req", how)
+                "zeta_eff(mu, f_opt, zeta_opt, zeta_s) = zeta_req", how,
+                flag="engine_flag_mass_ratio")
 
 
 def _mass_steps(method: str, mode: str) -> tuple[Step, ...]:
@@ -185,10 +213,10 @@ def _tuning_steps(method: str) -> tuple[Step, ...]:
     return (
         Step("tuning_ratio", lambda mass_ratio, structural_damping:
              _optimum(float(mass_ratio), method, float(structural_damping))[0],
-             "numerical optimum", source),
+             "numerical optimum", source, flag="engine_flag_tuning"),
         Step("damper_damping", lambda mass_ratio, structural_damping:
              _optimum(float(mass_ratio), method, float(structural_damping))[1],
-             "numerical optimum", source),
+             "numerical optimum", source, flag="engine_flag_tuning"),
         Step("warburton_tuning_ratio", wf_tuning, wf_tuning.worksheet.expression,
              "Warburton (1982); not used further"),
         Step("warburton_damper_damping", wf_damping, wf_damping.worksheet.expression,
@@ -196,11 +224,147 @@ def _tuning_steps(method: str) -> tuple[Step, ...]:
     )
 
 
-@functools.lru_cache(maxsize=None)
-def sections(method: str, mode: str) -> tuple[Section, ...]:
-    """The calculation's sections for a tuning ``method`` and mass-ratio ``mode``.
+@functools.lru_cache(maxsize=4096)
+def _worst_case(lo: float, hi: float, a: float, mu: float, f: float, zd: float, zs: float,
+                k: float) -> tuple[float, float, float]:
+    """One worst case over the band, computed once for the three steps that read it."""
+    return tuple(float(x) for x in band_worst_case(lo, hi, a, mu, f, zd, zs, k))
 
-    Built once per method and mode (the steps are immutable), not once per design.
+
+@functools.lru_cache(maxsize=4096)
+def _robust(mu: float, lo: float, hi: float, zs: float) -> tuple[float, float]:
+    return tuple(float(x) for x in robust_tuning(mu, lo, hi, zs))
+
+
+_BAND_READS = "band_lower, band_upper, acceleration, mass_ratio, tuning_ratio, damper_damping, " \
+              "structural_damping, response_exponent"
+_EQ_LENGTH = "Simple pendulum in tune at the design swing, L_0 / (1 + e)^2 (A&S 17.6)"
+
+
+def _band_section(method: str) -> Section:
+    """The damper as designed over the band of building frequencies, the mass ratio and the
+    robust tuning for the band, and the hanger adjustment."""
+    worst = "functions.envelope.band_worst_case: dense grid and golden section over the band"
+
+    def pick(i: int) -> Callable[..., float]:
+        def value(band_lower, band_upper, acceleration, mass_ratio, tuning_ratio,
+                  damper_damping, structural_damping, response_exponent):
+            return _worst_case(float(band_lower), float(band_upper), float(acceleration),
+                               float(mass_ratio), float(tuning_ratio), float(damper_damping),
+                               float(structural_damping), float(response_exponent))[i]
+        return value
+
+    def robust(i: int) -> Callable[..., float]:
+        def value(mass_ratio, band_lower, band_upper, structural_damping):
+            return _robust(float(mass_ratio), float(band_lower), float(band_upper),
+                           float(structural_damping))[i]
+        return value
+
+    def band_mu(acceleration, acceleration_limit, structural_damping, band_lower, band_upper,
+                response_exponent):
+        return band_mass_ratio(acceleration, acceleration_limit, structural_damping,
+                               band_lower, band_upper, method, response_exponent)
+
+    def robust_worst(band_lower, band_upper, acceleration, mass_ratio, robust_tuning_ratio,
+                     robust_damper_damping, structural_damping, response_exponent):
+        return _worst_case(float(band_lower), float(band_upper), float(acceleration),
+                           float(mass_ratio), float(robust_tuning_ratio),
+                           float(robust_damper_damping), float(structural_damping),
+                           float(response_exponent))[0]
+
+    length = "gravity/(2*PI()*damper_frequency*{r})^2/(1+small_angle_error)^2"
+    return Section("7  Frequency band: the building's frequency uncertain", (
+        Step("band_worst_acceleration", pick(0), "max over r of a r^k sqrt(zeta_s / "
+             "zeta_eff(mu, f/r, zeta_d, zeta_s))", worst, flag="engine_flag_band"),
+        Step("band_worst_factor", pick(1), "r where a_d(r) is largest", worst,
+             flag="engine_flag_band"),
+        Step("band_worst_damping", pick(2), "zeta_eff(mu, f/r_w, zeta_d, zeta_s)", worst,
+             flag="engine_flag_band"),
+        Step("band_mass_ratio", band_mu, f"least mu with a_w(mu) <= a_lim ({method} tuning)",
+             f"functions.envelope.band_mass_ratio(method='{method}') (brentq)",
+             flag="engine_flag_band_mass"),
+        _step("band_damper_mass", "=band_mass_ratio*modal_mass",
+              lambda band_mass_ratio, modal_mass: band_mass_ratio * modal_mass,
+              "mu_band M*"),
+        Step("robust_tuning_ratio", robust(0), "max over f, zeta_d of min over r of zeta_eff",
+             "functions.envelope.robust_tuning (batched Newton)", flag="engine_flag_robust"),
+        Step("robust_damper_damping", robust(1), "max over f, zeta_d of min over r of "
+             "zeta_eff", "functions.envelope.robust_tuning (batched Newton)",
+             flag="engine_flag_robust"),
+        Step("robust_worst_acceleration", robust_worst, "a_w for f_rob, zeta_rob", worst,
+             flag="engine_flag_robust_worst"),
+        _step("hanger_length_lower", "=" + length.format(r="band_lower"),
+              lambda gravity, damper_frequency, band_lower, small_angle_error:
+              gravity / (_TWO_PI * damper_frequency * band_lower) ** 2
+              / (1.0 + small_angle_error) ** 2,
+              "g / (2 pi f_d r_lo)^2 / (1 + e)^2", _EQ_LENGTH),
+        _step("hanger_length_upper", "=" + length.format(r="band_upper"),
+              lambda gravity, damper_frequency, band_upper, small_angle_error:
+              gravity / (_TWO_PI * damper_frequency * band_upper) ** 2
+              / (1.0 + small_angle_error) ** 2,
+              "g / (2 pi f_d r_hi)^2 / (1 + e)^2", _EQ_LENGTH),
+        _step("hanger_adjustment_range", "=hanger_length_lower-hanger_length_upper",
+              lambda hanger_length_lower, hanger_length_upper:
+              hanger_length_lower - hanger_length_upper, "L_lo - L_hi"),
+    ), "The damper as designed (tuned at the nominal f_s) on a building at r f_s, "
+       "r_lo <= r <= r_hi: mass, damper and structural damping as designed (the frequency "
+       "error is a stiffness error). The acceleration without the damper is held constant "
+       "across the band unless k gives the rule a r^k. The hanger lengths keep the tuning "
+       "ratio f to the actual building.")
+
+
+def _as_built_section(method: str, measured_damping: bool) -> Section:
+    """The damper retuned to the measured frequency (and damping) of the finished building."""
+    zeta = "measured_damping" if measured_damping else "structural_damping"
+    flag = "engine_flag_as_built"
+    if method in CLOSED_FORMS:
+        tuning, damping = CLOSED_FORMS[method]
+        optimum = (Step("retune_tuning_ratio", tuning, tuning.worksheet.expression,
+                        tuning.worksheet.source),
+                   Step("retune_damper_damping", damping, damping.worksheet.expression,
+                        damping.worksheet.source))
+    else:
+        source = (f"functions.damper.optimal_tuning(method='{method}') for mu and "
+                  f"{'the measured' if measured_damping else 'the design'} zeta_s")
+        if measured_damping:
+            def pick(i):
+                return lambda mass_ratio, measured_damping: _optimum(
+                    float(mass_ratio), method, float(measured_damping))[i]
+        else:
+            def pick(i):
+                return lambda mass_ratio, structural_damping: _optimum(
+                    float(mass_ratio), method, float(structural_damping))[i]
+        optimum = (Step("retune_tuning_ratio", pick(0), "numerical optimum", source,
+                        flag=flag),
+                   Step("retune_damper_damping", pick(1), "numerical optimum", source,
+                        flag=flag))
+    return Section("8  As built: the damper retuned to the measured building", optimum + (
+        _step("retune_damper_frequency", "=retune_tuning_ratio*measured_frequency",
+              lambda retune_tuning_ratio, measured_frequency:
+              retune_tuning_ratio * measured_frequency, "f_ab f_meas"),
+        _step("retune_pendulum_length",
+              "=gravity/(2*PI()*retune_damper_frequency)^2/(1+small_angle_error)^2",
+              lambda gravity, retune_damper_frequency, small_angle_error:
+              gravity / (_TWO_PI * retune_damper_frequency) ** 2
+              / (1.0 + small_angle_error) ** 2, "g / (2 pi f_d,ab)^2 / (1 + e)^2",
+              _EQ_LENGTH),
+        _step("retune_dashpot", "=2*damper_mass*2*PI()*retune_damper_frequency"
+                                "*retune_damper_damping",
+              lambda damper_mass, retune_damper_frequency, retune_damper_damping:
+              2.0 * damper_mass * _TWO_PI * retune_damper_frequency * retune_damper_damping,
+              "2 m_d (2 pi f_d,ab) zeta_ab"),
+    ), f"Mass ratio as built, tuned by the design's method ({method}) to the measured "
+       f"frequency{' and damping' if measured_damping else ' (design damping zeta_s)'}; "
+       "hanger length in tune at the design swing. A frequency measured with the damper "
+       "locked must first be multiplied by sqrt(1 + mu).")
+
+
+@functools.lru_cache(maxsize=None)
+def sections(method: str, mode: str, parts: tuple[str, ...] = ()) -> tuple[Section, ...]:
+    """The calculation's sections for a tuning ``method``, mass-ratio ``mode`` and optional
+    ``parts``.
+
+    Built once per method, mode and parts (the steps are immutable), not once per design.
 
     Parameters
     ----------
@@ -208,6 +372,8 @@ def sections(method: str, mode: str) -> tuple[Section, ...]:
         Tuning method, one of ``functions.damper.OPTIMAL_TUNING_METHODS`` [-].
     mode : str
         One of :data:`MASS_RATIO_MODES` [-].
+    parts : tuple of str, optional
+        Optional parts, from :data:`PARTS` (:func:`parts_of` gives them for the inputs) [-].
 
     Returns
     -------
@@ -221,6 +387,17 @@ def sections(method: str, mode: str) -> tuple[Section, ...]:
     """
     if method not in OPTIMAL_TUNING_METHODS:
         raise ValueError(f"method={method!r} must be one of {', '.join(OPTIMAL_TUNING_METHODS)}")
+    unknown = [p for p in parts if p not in PARTS]
+    if unknown or ("measured_damping" in parts and "as_built" not in parts):
+        raise ValueError(f"parts={parts!r} must be taken from {', '.join(PARTS)} "
+                         "(measured_damping only with as_built)")
+    extra = ((_band_section(method),) if "band" in parts else ()) + \
+        ((_as_built_section(method, "measured_damping" in parts),) if "as_built" in parts
+         else ())
+    return _core_sections(method, mode) + extra
+
+
+def _core_sections(method: str, mode: str) -> tuple[Section, ...]:
     v = VARIANCE_SOURCE
     return (
         Section("1  Damping required", (
@@ -322,12 +499,24 @@ def sections(method: str, mode: str) -> tuple[Section, ...]:
     )
 
 
-def steps(method: str, mode: str) -> list[Step]:
+def steps(method: str, mode: str, parts: tuple[str, ...] = ()) -> list[Step]:
     """Every step of :func:`sections`, in order."""
-    return [step for section in sections(method, mode) for step in section.steps]
+    return [step for section in sections(method, mode, parts) for step in section.steps]
 
 
-def all_variants() -> list[tuple[str, str, list[Step]]]:
-    """``(method, mode, steps)`` for every tuning method and mass-ratio mode."""
-    return [(method, mode, steps(method, mode)) for method in OPTIMAL_TUNING_METHODS
-            for mode in MASS_RATIO_MODES]
+def engine_flag_names(method: str, mode: str, parts: tuple[str, ...] = ()) -> list[str]:
+    """Defined names of the flags that guard the calculation's engine values, in order."""
+    return list(dict.fromkeys(s.flag for s in steps(method, mode, parts) if s.flag))
+
+
+#: Every combination of optional parts a calculation can hold.
+PART_SETS = ((), ("band",), ("as_built",), ("as_built", "measured_damping"),
+             ("band", "as_built"), ("band", "as_built", "measured_damping"))
+
+
+def all_variants(parts: bool = False) -> list[tuple[str, str, list[Step]]]:
+    """``(method, mode, steps)`` for every tuning method and mass-ratio mode (and, with
+    ``parts``, every set of optional parts: then the whole step list of each)."""
+    sets = PART_SETS if parts else ((),)
+    return [(method, mode, steps(method, mode, p)) for method in OPTIMAL_TUNING_METHODS
+            for mode in MASS_RATIO_MODES for p in sets]

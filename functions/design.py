@@ -19,14 +19,15 @@ from typing import Any, Callable, Mapping
 import numpy as np
 
 from functions._validation import broadcast, check_range, scalar_or_array
-from functions.chain import mass_ratio_mode, steps
+from functions.chain import mass_ratio_mode, parts_of, steps
 from functions.damper import CLOSED_FORM_METHODS, optimal_tuning
 from functions.quantities import (design_inputs, design_results, design_signature,
                                   input_relation_errors)
 from functions.worksheet import twin
 
 __all__ = [
-    "CAUTION", "ACCELERATION_RTOL", "CheckRule", "CHECK_RULES", "CHECK_NAMES", "DesignInputs",
+    "CAUTION", "ACCELERATION_RTOL", "CheckRule", "CHECK_RULES", "CHECK_NAMES", "ALL_CHECK_NAMES",
+    "PART_CHECK_RULES", "check_rules", "DesignInputs",
     "Check", "DesignResult", "design_damper", "design_tuning",
 ]
 
@@ -215,8 +216,73 @@ CHECK_RULES: tuple[CheckRule, ...] = (
               lower="mass_ratio_min"),
 )
 
-#: Names of the design checks, in order.
+#: Names of the design checks every design has, in order.
 CHECK_NAMES = tuple(rule.name for rule in CHECK_RULES)
+
+#: Checks of the optional parts (:data:`functions.chain.PARTS`): ``(parts needed, rule)``.
+PART_CHECK_RULES: tuple[tuple[tuple[str, ...], CheckRule], ...] = (
+    (("band",), CheckRule(
+        "band_acceleration", "Frequency band: worst acceleration with damper within the "
+        "limit",
+        twin("=band_worst_acceleration", lambda band_worst_acceleration:
+             band_worst_acceleration), "acceleration_limit", "a_w <= a_lim (1 + 1e-9)",
+        lambda v, lim, lo, ok: f"worst acceleration over the band {_fmt(v)} m/s^2 {_rel(ok)} "
+                               f"limit {_fmt(lim)} m/s^2",
+        rtol=ACCELERATION_RTOL, unit="m/s^2")),
+    (("band", "as_built"), CheckRule(
+        "as_built_length", "As built: hanger length within the adjustment range",
+        twin("=retune_pendulum_length", lambda retune_pendulum_length:
+             retune_pendulum_length), "hanger_length_lower", "L_hi <= L_ab <= L_lo",
+        lambda v, lim, lo, ok: f"as-built hanger length {_fmt(v)} m "
+                               f"{'within' if ok else 'outside'} {_fmt(lo)} to {_fmt(lim)} m",
+        lower="hanger_length_upper", unit="m")),
+)
+
+
+def check_rules(parts: tuple[str, ...] = ()) -> tuple[CheckRule, ...]:
+    """The design checks of a calculation with optional parts.
+
+    .. math::
+
+        R = R_{core} \\cup \\{r_P : P \\subseteq \\mathrm{parts}\\}
+
+    Parameters
+    ----------
+    parts : tuple of str, optional
+        Optional parts of the calculation, from ``functions.chain.PARTS`` [-].
+
+    Returns
+    -------
+    rules : tuple of CheckRule
+        In the order of the workbook's Checks sheet: :data:`CHECK_RULES`, then those of the
+        parts (:data:`PART_CHECK_RULES`) [-].
+
+    Raises
+    ------
+    ValueError
+        Never: unknown parts simply add no check.
+
+    Notes
+    -----
+    A part's check needs every part it reads: the as-built hanger length is checked against
+    the adjustment range of the band only when both are given.
+
+    Examples
+    --------
+    >>> [rule.name for rule in check_rules(("band",))][-2:]
+    ['mass_ratio', 'band_acceleration']
+
+    References
+    ----------
+    1. EN 1991-1-4:2005, Eurocode 1: Actions on structures - Wind actions, Annex B, B.2(6)
+       (the resonant rule behind the acceleration checks).
+    """
+    return CHECK_RULES + tuple(rule for needs, rule in PART_CHECK_RULES
+                               if all(part in parts for part in needs))
+
+
+#: Names of every check a design can have (those of the parts included), in order.
+ALL_CHECK_NAMES = CHECK_NAMES + tuple(rule.name for _, rule in PART_CHECK_RULES)
 
 
 # --------------------------------------------------------------------------------------------
@@ -255,6 +321,11 @@ class DesignResult:
                 if q.name == name:
                     return cells[q.cell_name]
         raise AttributeError(f"DesignResult has no result {name!r}")
+
+    @property
+    def parts(self) -> tuple[str, ...]:
+        """The optional parts that ran, from ``functions.chain.PARTS`` [-]."""
+        return parts_of(self.inputs.as_dict())
 
     @property
     def ok(self) -> bool:
@@ -340,10 +411,13 @@ def _run_steps(p: DesignInputs) -> dict[str, float]:
     mode = mass_ratio_mode(p.mass_ratio is not None, p.damper_mass is not None)
     cells: dict[str, Any] = {q.cell_name: getattr(p, q.name) for q in design_inputs()
                              if q.kind != "choice" and getattr(p, q.name) is not None}
-    for step in steps(p.tuning_method, mode):
+    for step in steps(p.tuning_method, mode, parts_of(p.as_dict())):
         try:
             cells[step.name] = step.evaluate(cells)
         except ValueError as exc:
+            if step.name == "band_mass_ratio":
+                raise ValueError(f"band_lower={p.band_lower!r} to band_upper={p.band_upper!r} "
+                                 f"[-]: {exc}") from None
             if step.name != "mass_ratio":
                 raise
             raise ValueError(
@@ -436,7 +510,7 @@ def design_damper(inputs: DesignInputs | None = None, **kwargs: Any) -> DesignRe
             f"{p.acceleration_limit!r} [m/s^2]: no damper is required; give damper_mass or "
             f"mass_ratio to size one anyway")
     cells = _run_steps(p)
-    checks = tuple(rule.evaluate(cells) for rule in CHECK_RULES)
+    checks = tuple(rule.evaluate(cells) for rule in check_rules(parts_of(p.as_dict())))
     return DesignResult(p, cells, checks)
 
 

@@ -39,7 +39,7 @@ from functions.pendulum import STANDARD_GRAVITY
 
 __all__ = [
     "Quantity", "REQUIRED", "OPTIONAL", "DESIGN_INPUTS", "DESIGN_RESULTS", "HELPERS",
-    "SIMULATION_SETTINGS", "FLOOR_TABLE", "UNIT_KINDS", "WORKING_VALUES", "quantity", "by_name",
+    "SIMULATION_SETTINGS", "FLOOR_TABLE", "BAND_RESULTS", "OPTIONAL_TABLES", "UNIT_KINDS", "WORKING_VALUES", "quantity", "by_name",
     "design_inputs", "design_results", "input_relation_errors", "design_signature",
 ]
 
@@ -274,6 +274,34 @@ DESIGN_INPUTS: tuple[Quantity, ...] = (
     _q("mass_ratio_max", "mu_max", "Practical mass ratio, upper end", "-", "fraction", 0.0,
        0.2, low_open=True, default=0.05, fmt="0.000000", section="damper",
        description="Largest practical mass ratio, above the lower end", note=_PRACTICE),
+    _q("band_lower", "r_lo", "Building frequency, lower end of the band (factor on f_s)", "-",
+       "fraction", 0.5, 1.0, default=OPTIONAL, fmt="0.000", section="band", key="lower",
+       description="Lowest frequency factor r = f_actual/f_s the building may turn out at",
+       note="Model against measurement: +-10 to 20 % is a usual planning range (common "
+            "practice, no source). Give lower and upper together."),
+    _q("band_upper", "r_hi", "Building frequency, upper end of the band (factor on f_s)", "-",
+       "fraction", 1.0, 2.0, default=OPTIONAL, fmt="0.000", section="band", key="upper",
+       description="Highest frequency factor r = f_actual/f_s the building may turn out at",
+       note="Model against measurement: +-10 to 20 % is a usual planning range (common "
+            "practice, no source). Give lower and upper together."),
+    _q("response_exponent", "k", "Rule for the response without damper across the band, "
+       "a r^k", "-", "fraction", -3.0, 3.0, default=0.0, fmt="0.000", section="band",
+       description="Exponent k of a(r) = a r^k for the acceleration without the damper "
+                   "across the band (0: held constant)",
+       note="0 holds the acceleration without the damper constant across the band (the "
+            "default assumption); another value is the engineer's rule (e.g. from the "
+            "wind-tunnel data)."),
+    _q("measured_frequency", "f_meas", "Measured frequency of the finished building", "Hz",
+       "frequency", 0.01, 20.0, default=OPTIONAL, fmt="0.00000", section="as_built",
+       key="frequency", description="Frequency of the mode measured on the finished building",
+       note="Ambient-vibration test of the finished structure without the damper's mass (a "
+            "test with the mass locked gives f sqrt(1 + mu) less: correct it first)."),
+    _q("measured_damping", "zeta_meas", "Measured damping of the finished building", "-",
+       "fraction", 0.0, 0.2, low_open=True, default=OPTIONAL, fmt="0.000000",
+       section="as_built", key="damping",
+       description="Damping ratio of the mode measured on the finished building",
+       note="From the same test; left out, the design value is used. Give it only with the "
+            "measured frequency."),
     _q("g", "g", "Acceleration of gravity", "m/s^2", "acceleration", 9.7, 9.9,
        default=STANDARD_GRAVITY, fmt="0.00000", defined_name="gravity", section="site",
        key="gravity", description="Acceleration of gravity at the site",
@@ -364,6 +392,60 @@ HELPERS: tuple[Quantity, ...] = (
        description="Warburton's white-noise-force optimum, shown beside a numerical one"),
 )
 
+_BAND = ("Damper as designed (tuned at the nominal frequency) on a building whose frequency "
+         "is r f_s")
+#: Results of the frequency band and the as-built retune (``[band]``, ``[as_built]``): cells
+#: of the calculation only when those inputs are given.
+BAND_RESULTS: tuple[Quantity, ...] = (
+    _q("band_worst_acceleration", "a_w", "Worst peak acceleration with the damper over the "
+       "band", "m/s^2", "acceleration", fmt="0.00000",
+       summary=True, description="Largest peak acceleration with the damper for any building frequency in "
+                   "the band (damper as designed)"),
+    _q("band_worst_factor", "r_w", "Frequency factor of the worst case", "-", "fraction",
+       fmt="0.0000", description="Frequency factor r = f_actual/f_s where the worst case "
+                                 "lies"),
+    _q("band_worst_damping", "zeta_w", "Effective damping at the worst case", "-", "fraction",
+       fmt="0.000000", description=_BAND + ": effective damping at the worst case"),
+    _q("band_mass_ratio", "mu_band", "Mass ratio that meets the limit over the whole band",
+       "-", "fraction", fmt="0.000000",
+       summary=True, description="Least mass ratio whose damper, tuned at the nominal frequency by the "
+                   "design's method, meets the limit anywhere in the band"),
+    _q("band_damper_mass", "m_band", "Damper mass that meets the limit over the whole band",
+       "kg", "mass", fmt="#,##0", description="mu_band M*"),
+    _q("robust_tuning_ratio", "f_rob", "Robust tuning ratio for the band", "-", "fraction",
+       fmt="0.0000", description="Tuning that maximises the least effective damping over the "
+                                 "band (for the design's mass ratio)"),
+    _q("robust_damper_damping", "zeta_rob", "Robust damper damping for the band", "-",
+       "fraction", fmt="0.000000",
+       description="Damper damping of the robust tuning, on the damper's own frequency"),
+    _q("robust_worst_acceleration", "a_w,rob", "Worst peak acceleration over the band, robust "
+       "tuning", "m/s^2", "acceleration", fmt="0.00000",
+       description="Largest peak acceleration with the damper over the band when it is tuned "
+                   "robustly instead"),
+    _q("hanger_length_lower", "L_lo", "Hanger length in tune at the band's lower end", "m",
+       "length", fmt=_LENGTH_FMT,
+       summary=True, description="Hanger length in tune at the design swing if the building is at r_lo f_s "
+                   "(the longest setting)"),
+    _q("hanger_length_upper", "L_hi", "Hanger length in tune at the band's upper end", "m",
+       "length", fmt=_LENGTH_FMT,
+       summary=True, description="Hanger length in tune at the design swing if the building is at r_hi f_s "
+                   "(the shortest setting)"),
+    _q("hanger_adjustment_range", "dL", "Hanger adjustment range needed", "m", "length",
+       fmt=_LENGTH_FMT, description="Travel of the hanger adjustment, L_lo - L_hi"),
+    _q("retune_tuning_ratio", "f_ab", "As-built tuning ratio", "-", "fraction", fmt="0.0000",
+       description="Optimal tuning ratio for the measured building (design's method)"),
+    _q("retune_damper_damping", "zeta_ab", "As-built damper damping", "-", "fraction",
+       fmt="0.000000", description="Optimal damper damping for the measured building, on the "
+                                   "damper's own frequency"),
+    _q("retune_damper_frequency", "f_d,ab", "As-built damper frequency", "Hz", "frequency",
+       fmt="0.00000", description="Damper frequency for the measured building"),
+    _q("retune_pendulum_length", "L_ab", "As-built hanger length", "m", "length",
+       fmt=_LENGTH_FMT, summary=True, description="Hanger length in tune with the measured building at the "
+                                    "design swing"),
+    _q("retune_dashpot", "c_ab", "As-built dashpot constant", "N s/m", "dashpot", fmt="#,##0",
+       summary=True, description="Dashpot constant for the measured building, 2 m_d (2 pi f_d,ab) zeta_ab"),
+)
+
 #: Defined names of the helpers that are working values only (the white-noise variance's
 #: terms): a workbook groups them on a page of their own.
 WORKING_VALUES: tuple[str, ...] = tuple(q.cell_name for q in HELPERS
@@ -404,6 +486,13 @@ FLOOR_TABLE: tuple[Quantity, ...] = (
                                           "the bottom (default: the top floor)"),
 )
 
+#: Project-file tables that are optional as a whole, with the inputs a given table must hold:
+#: an input of such a table that has a default takes it only when the table is given (else
+#: the workbook has no row for it).
+OPTIONAL_TABLES: dict[str, tuple[str, ...]] = {
+    "band": ("band_lower", "band_upper"), "as_built": ("measured_frequency",)}
+
+
 def by_name(group: Iterable[Quantity]) -> dict[str, Quantity]:
     """Glossary name -> declaration, for one group."""
     return {q.name: q for q in group}
@@ -426,7 +515,7 @@ def quantity(name: str) -> Quantity:
     >>> quantity("structure_frequency").name, quantity("frequency").cell_name
     ('frequency', 'structure_frequency')
     """
-    for q in design_inputs() + design_results() + HELPERS:
+    for q in design_inputs() + design_results() + HELPERS + BAND_RESULTS:
         if q.cell_name == name:
             return q
     for q in design_inputs():
@@ -460,6 +549,20 @@ def input_relation_errors(values: Mapping[str, Any]) -> list[tuple[str, str]]:
     if values.get("damper_mass") is not None and values.get("mass_ratio") is not None:
         errors.append(("damper_mass", f"damper_mass={values['damper_mass']!r} and mass_ratio="
                                       f"{values['mass_ratio']!r}: give at most one of them"))
+    band = values.get("band_lower"), values.get("band_upper")
+    if (band[0] is None) != (band[1] is None):
+        given, missing = ("band_lower", "band_upper") if band[1] is None else \
+            ("band_upper", "band_lower")
+        errors.append((missing, f"{given}={values[given]!r} needs {missing} too: give both "
+                                "ends of the frequency band"))
+    elif band[0] is not None and not band[1] > band[0]:
+        errors.append(("band_upper", f"band_upper={band[1]!r} must be above band_lower="
+                                     f"{band[0]!r} [-] (the band must contain the nominal "
+                                     "frequency, factor 1)"))
+    if values.get("measured_damping") is not None and values.get("measured_frequency") is None:
+        errors.append(("measured_damping", f"measured_damping={values['measured_damping']!r} "
+                                           "needs measured_frequency: give the measured "
+                                           "frequency too"))
     lo, hi = values.get("mass_ratio_min"), values.get("mass_ratio_max")
     if lo is not None and hi is not None and not hi > lo:
         errors.append(("mass_ratio_max", f"mass_ratio_max={hi!r} must be above mass_ratio_min="

@@ -56,8 +56,8 @@ def declared(monkeypatch):
                         quantities.DESIGN_RESULTS + (WITH_MARGIN,))
     original = chain.sections
 
-    def sections(method, mode):
-        return original(method, mode) + (Section("7  Margin", (STEP,)),)
+    def sections(method, mode, parts=()):
+        return original(method, mode, parts) + (Section("9  Margin", (STEP,)),)
 
     monkeypatch.setattr(chain, "sections", sections)
     make_plan.cache_clear()

@@ -18,7 +18,7 @@ import pytest
 from openpyxl.utils import get_column_letter
 
 from functions.chain import steps as all_steps
-from functions.quantities import DESIGN_INPUTS, DESIGN_RESULTS
+from functions.quantities import BAND_RESULTS, DESIGN_INPUTS, DESIGN_RESULTS
 from functions.worksheet import TWIN_TOLERANCE as CROSS_CHECK_TOLERANCE
 from workbook_builder import cli
 from workbook_builder.build import build_workbook, write_workbook
@@ -33,8 +33,9 @@ from workbook_builder.xlsx.formulas import (ALLOWED_FUNCTIONS, Evaluator, check_
 from workbook_cases import HARMONIC, MINIMAL
 
 EXAMPLES = Path(__file__).resolve().parent.parent / "example_workbooks"
-EXAMPLE_NAMES = ["residential_tower", "observation_mast", "office_tower_us"]
+EXAMPLE_NAMES = ["residential_tower", "observation_mast", "office_tower_us", "slender_tower_us"]
 RESULTS = [q.name for q in DESIGN_RESULTS]
+BAND_NAMES = {q.cell_name for q in BAND_RESULTS}
 
 
 # ----------------------------------------------------------------------------- formulas
@@ -118,7 +119,11 @@ def test_every_formula_cell_has_a_cached_value_and_is_allowed(built, name):
 def test_checks_sheet_verdicts(built, name):
     b, _ = built[name]
     assert all(rel <= CROSS_CHECK_TOLERANCE for *_, rel in b.cross_checks)
-    assert {n for n, *_ in b.cross_checks} == set(RESULTS)
+    # every result, and every formula result of the optional parts (frequency band, retune)
+    parts = {s.name for s in all_steps(b.result.method, b.result.mode, b.result.parts)
+             if s.name in BAND_NAMES and not s.is_engine_value}
+    assert {n for n, *_ in b.cross_checks} == set(RESULTS) | parts
+    assert bool(parts) == bool(b.result.parts)
     assert b.value("all_cross_checks") == "OK"
     assert b.value("fixed_point_converged") == "OK"
     # the workbook's verdicts agree with the engine's checks, in the same order

@@ -22,9 +22,9 @@ import math
 
 import pytest
 
-from functions.design import CHECK_RULES
+from functions.design import CHECK_RULES, check_rules
 from functions.damper import OPTIMAL_TUNING_METHODS
-from functions.quantities import DESIGN_RESULTS
+from functions.quantities import BAND_RESULTS, DESIGN_RESULTS
 from workbook_builder.build import write_workbook
 from workbook_builder.plan.checks import check_name
 from workbook_builder.project import load_project, parse_project
@@ -66,7 +66,15 @@ GENERATED = (
        ("not_ok", _variant("G-13", tuning_method="h2", clearance=0.05, max_swing=1.0)),
        # a US workbook with a Nonlinear sheet (its US rows are formulas of the SI values)
        ("us_simulation", {**_variant("G-14", "US", tuning_method="h2"),
-                          "simulation": {"load": "harmonic", "duration": 120}})]
+                          "simulation": {"load": "harmonic", "duration": 120}}),
+       # the frequency band and the as-built retune (numerical and closed-form tunings)
+       ("band_as_built", {**_variant("G-15", tuning_method="h2"),
+                          "band": {"lower": 0.88, "upper": 1.12, "response_exponent": -0.3},
+                          "as_built": {"frequency": 0.19, "damping": 0.012}}),
+       ("us_band_closed_form", {**_variant("G-16", "US", tuning_method="den_hartog",
+                                           mass_ratio=0.03),
+                                "band": {"lower": 0.9, "upper": 1.15},
+                                "as_built": {"frequency": 0.21}})]
 )
 
 
@@ -126,11 +134,14 @@ def test_every_formula_cell_equals_the_cached_value(recalculated, name):
 def test_results_and_verdicts_equal_the_engine(recalculated, name):
     built, _, out = recalculated[name]
     values = libreoffice.read_values(out)
-    for q in DESIGN_RESULTS:
+    for q in DESIGN_RESULTS + BAND_RESULTS:
+        if q.cell_name not in built.result.cells:      # an optional part not given
+            continue
         got = values[built.names[q.cell_name]]
         assert math.isclose(got, built.result.cells[q.cell_name], rel_tol=1e-9,
                             abs_tol=1e-12), q.name
-    verdicts = [values[built.names[check_name(rule.name)]] for rule in CHECK_RULES]
+    rules = check_rules(built.plan.options.parts)
+    verdicts = [values[built.names[check_name(rule.name)]] for rule in rules]
     assert verdicts == ["OK" if c.ok else "NOT OK" for c in built.result.checks]
 
 
@@ -140,3 +151,5 @@ def test_the_generated_set_covers_failing_checks_and_every_method(recalculated):
     methods = {recalculated[n][0].plan.options.tuning_method for n in ALL}
     assert methods == set(OPTIMAL_TUNING_METHODS)
     assert {recalculated[n][0].plan.options.units for n in ALL} == {"SI", "US"}
+    parts = {recalculated[n][0].plan.options.parts for n in ALL}
+    assert ("band", "as_built", "measured_damping") in parts and ("band", "as_built") in parts

@@ -21,8 +21,8 @@ import pytest
 
 from workbook_builder.xlsx import libreoffice
 from workbook_builder.build import write_workbook
-from functions.design import CHECK_RULES
-from functions.quantities import DESIGN_RESULTS
+from functions.design import check_rules
+from functions.quantities import BAND_RESULTS, DESIGN_RESULTS
 from functions.worksheet import TWIN_TOLERANCE as CROSS_CHECK_TOLERANCE
 from workbook_builder.plan.checks import check_name
 from workbook_builder.project import load_project
@@ -31,7 +31,7 @@ pytestmark = pytest.mark.skipif(libreoffice.find_soffice() is None,
                                 reason="LibreOffice (soffice) is not installed")
 
 EXAMPLES = Path(__file__).resolve().parent.parent / "example_workbooks"
-NAMES = ["residential_tower", "observation_mast", "office_tower_us"]
+NAMES = ["residential_tower", "observation_mast", "office_tower_us", "slender_tower_us"]
 RESULTS = [q.name for q in DESIGN_RESULTS]
 
 
@@ -73,6 +73,17 @@ def test_results_equal_the_engine(recalculated, name):
         want = getattr(built.result, field)
         assert isinstance(got, (int, float)), field
         assert got == pytest.approx(want, rel=CROSS_CHECK_TOLERANCE, abs=1e-15), field
+    # the optional parts' results (frequency band, as-built retune), where the project has them
+    for q in BAND_RESULTS:
+        if q.cell_name in built.result.cells:
+            got = values[built.names[q.cell_name]]
+            assert got == pytest.approx(built.result.cells[q.cell_name],
+                                        rel=CROSS_CHECK_TOLERANCE, abs=1e-15), q.name
+
+
+def test_an_example_has_every_optional_part_of_the_calculation(recalculated):
+    built, _, _ = recalculated["slender_tower_us"]
+    assert built.plan.options.parts == ("band", "as_built", "measured_damping")
 
 
 @pytest.mark.parametrize("name", NAMES)
@@ -84,7 +95,7 @@ def test_verdicts_after_recalculation(recalculated, name):
         return values[built.names[n]]
     assert named("all_cross_checks") == "OK"
     assert named("fixed_point_converged") == "OK"
-    verdicts = [named(check_name(rule.name)) for rule in CHECK_RULES]
+    verdicts = [named(check_name(rule.name)) for rule in check_rules(built.plan.options.parts)]
     assert [v == "OK" for v in verdicts] == [c.ok for c in built.result.checks]
 
 
@@ -94,7 +105,9 @@ def test_engine_flags_and_nonlinear_verdict_after_recalculation(recalculated, na
     recalculation, and the Nonlinear sheet's verdict is the engine's."""
     built, _, lo = recalculated[name]
     values = libreoffice.read_values(lo)
-    flags = [n for n in ("engine_flag_mass_ratio", "engine_flag_tuning",
+    flags = [n for n in ("engine_flag_mass_ratio", "engine_flag_tuning", "engine_flag_band",
+                         "engine_flag_band_mass", "engine_flag_robust",
+                         "engine_flag_robust_worst", "engine_flag_as_built",
                          "engine_flag_simulation") if n in built.names]
     assert flags and all(values[built.names[n]] == "current" for n in flags)
     assert all(values[built.names[f"{n}_ok"]] == "OK" for n in flags)

@@ -22,7 +22,8 @@ def standin(mu=0.02, zs=0.01, method="h2", swing=9.0, required=0.035):
                                    mass_ratio_min=0.005, mass_ratio_max=0.05, max_swing_deg=15.0)
     return types.SimpleNamespace(inputs=inputs, mass_ratio=mu, tuning_ratio=f, damper_damping=zd,
                                  swing_angle_deg=swing, required_damping=required,
-                                 effective_damping=damper.effective_damping(mu, f, zd, zs))
+                                 effective_damping=damper.effective_damping(mu, f, zd, zs),
+                                 parts=())
 
 
 def _design_result(method="h2"):
@@ -131,6 +132,7 @@ def test_table_sizes_are_fixed():
     for swing in (1.0, 30.0, 80.0):
         t = charts.chart_tables(standin(swing=swing))
         assert [len(t[k].rows) for k in t] == [t[k].spec.rows for k in t] == [31, 3, 81, 19, 3]
+        assert "band" not in t                  # only with a frequency band
 
 
 @pytest.mark.parametrize("method", ["h2", "hinf", "den_hartog", "white_noise_force"])
@@ -195,3 +197,38 @@ def test_swing_window_table_is_centred_on_the_peak_swing(simulated):
                                                                  simulated.time.size)
     with pytest.raises(ValueError, match=r"rows=1 must be >= 2"):
         charts.swing_window_table(simulated, rows=1)
+
+
+# ----------------------------------------------------------------------------- frequency band
+def test_band_table_against_an_independent_variance():
+    """The band chart's accelerations against the white-noise displacement variances of the
+    detuned 2-DOF system from the state equations (scipy Lyapunov solver; Soong & Grigoriu,
+    Random Vibration of Mechanical and Structural Systems, 1993): a_d(r) = a sqrt(sigma^2 with
+    the damper / sigma^2 without) at the actual frequency r f_s, the design chain's resonant
+    rule (EN 1991-1-4:2005, B.2(6)); the damper keeps its own frequency f f_s, so the tuning
+    ratio to the actual building is f / r."""
+    from functions.design import design_damper
+    from damper_references import lyapunov_variances
+
+    # invented demo case: 0.15 Hz mode, 1.5 % damping, 0.25 -> 0.15 m/s^2, +-12 % band
+    r = design_damper(frequency=0.15, modal_mass=2.0e7, structural_damping=0.015,
+                      acceleration=0.25, acceleration_limit=0.15, clearance=1.2,
+                      band_lower=0.88, band_upper=1.12)
+    t = charts.chart_tables(r)
+    rows = t["band"].rows
+    assert len(rows) == t["band"].spec.rows == charts.BAND_POINTS
+    assert rows[0][0] == pytest.approx(0.88) and rows[-1][0] == pytest.approx(1.12)
+    zs = 0.015
+    for factor, nominal, robust, limit in rows[::8]:
+        assert limit == 0.15
+        for (f, zd), value in (((r.tuning_ratio, r.damper_damping), nominal),
+                               ((r.cells["robust_tuning_ratio"],
+                                 r.cells["robust_damper_damping"]), robust)):
+            with_damper, _ = lyapunov_variances(r.mass_ratio, f / factor, zd, zs)
+            bare = np.pi / (2.0 * zs)             # single oscillator, omega_s = 1, s0 = 1
+            assert value == pytest.approx(0.25 * math.sqrt(with_damper / bare), rel=1e-9)
+    # the worst case of the table is that of the calculation, which is the larger end here
+    worst = max(row[1] for row in rows)
+    assert worst == pytest.approx(r.cells["band_worst_acceleration"], rel=1e-9)
+    # the robust tuning lowers the worst case over the band
+    assert max(row[2] for row in rows) < worst

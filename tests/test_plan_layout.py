@@ -24,30 +24,43 @@ from workbook_builder.xlsx.formulas import check_formula
 NUMERIC = tuple(q.name for q in DESIGN_INPUTS if q.kind != "choice")
 
 
-def _inputs(mode: str, floors: int) -> tuple[str, ...]:
+#: The inputs of each optional part of the calculation.
+PART_INPUTS = {"band": {"band_lower", "band_upper", "response_exponent"},
+               "as_built": {"measured_frequency"}, "measured_damping": {"measured_damping"}}
+ALL_PARTS = ("band", "as_built", "measured_damping")
+
+
+def _inputs(mode: str, floors: int, parts: tuple[str, ...] = ()) -> tuple[str, ...]:
     drop = {"chosen_mass_ratio": {"damper_mass"}, "chosen_damper_mass": {"mass_ratio"},
             "required": {"mass_ratio", "damper_mass"}}[mode]
     if floors:
         drop = drop | {"modal_mass"}
+    for part, names in PART_INPUTS.items():
+        if part not in parts:
+            drop = drop | names
     return tuple(n for n in NUMERIC if n not in drop)
 
 
 OPTIONS = [PlanOptions(units=units, tuning_method=method, mass_ratio_mode=mode,
-                       inputs=_inputs(mode, floors), floors=floors, template=template,
-                       simulation=sim)
-           for method, mode, units, floors, template, sim in itertools.product(
+                       inputs=_inputs(mode, floors, parts), floors=floors, template=template,
+                       simulation=sim, parts=parts)
+           for method, mode, units, floors, template, sim, parts in itertools.product(
                OPTIMAL_TUNING_METHODS, MASS_RATIO_MODES, ("SI", "US"), (0, 4), (False, True),
-               (None, ("random", 50, 20), ("harmonic", 30, 10)))
-           if not (template and sim) and (method in ("h2", "den_hartog") or units == "SI")]
+               (None, ("random", 50, 20), ("harmonic", 30, 10)),
+               ((), ("band",), ("as_built",), ALL_PARTS))
+           if not (template and sim) and (method in ("h2", "den_hartog") or units == "SI")
+           and (not parts or (floors == 0 and not template and sim != ("harmonic", 30, 10)))]
 
 
 @pytest.mark.parametrize("options", OPTIONS, ids=lambda o: f"{o.tuning_method}-{o.mass_ratio_mode}"
-                         f"-{o.units}-{o.floors}-{int(o.template)}-{(o.simulation or ['-'])[0]}")
+                         f"-{o.units}-{o.floors}-{int(o.template)}-{(o.simulation or ['-'])[0]}"
+                         f"-{'+'.join(o.parts) or 'core'}")
 def test_plan_is_consistent(options):
     plan = make_plan(options)
     names = set(plan.names()) | set(plan.range_names())
-    assert [s.title for s in plan.sheets] == [t for t in SHEETS
-                                              if t != "Nonlinear" or options.simulation]
+    assert [s.title for s in plan.sheets] == [
+        t for t in SHEETS if (t != "Nonlinear" or options.simulation)
+        and (t != "Band" or "band" in options.parts)]
     for sheet, cell in plan.cells():
         if cell.kind in ("formula", "check"):
             check_formula(cell.content)
@@ -64,6 +77,25 @@ def test_plan_is_consistent(options):
     for sheet in plan.sheets:
         for v in sheet.validations:
             check_formula(v.formula)
+
+
+def test_every_engine_value_of_the_optional_parts_is_flagged():
+    plan = make_plan(PlanOptions(tuning_method="h2", mass_ratio_mode="required",
+                                 inputs=_inputs("required", 0, ALL_PARTS), parts=ALL_PARTS))
+    names = plan.names()
+    flagged = {"engine_flag_band": ("band_lower", "response_exponent", "tuning_ratio"),
+               "engine_flag_band_mass": ("acceleration_limit", "band_upper"),
+               "engine_flag_robust": ("mass_ratio", "band_lower"),
+               "engine_flag_robust_worst": ("robust_tuning_ratio",),
+               "engine_flag_as_built": ("mass_ratio", "measured_damping")}
+    for flag, deps in flagged.items():
+        assert flag in names and f"{flag}_ok" in names
+        for dep in deps:
+            assert f"{flag}_{dep}" in names
+    for name in ("band_worst_acceleration", "band_mass_ratio", "robust_tuning_ratio",
+                 "retune_tuning_ratio", "hanger_length_lower", "retune_dashpot",
+                 "check_band_acceleration", "check_as_built_length", "chart_band"):
+        assert name in names or name in plan.range_names(), name
 
 
 def test_every_engine_value_of_the_chain_is_flagged():
@@ -88,7 +120,7 @@ def test_every_sheet_with_a_header_row_freezes_it(options):
             assert sheet.pages == 1
             continue
         if not heads:
-            assert sheet.title in ("Charts", "Cautions", "Record"), sheet.title
+            assert sheet.title in ("Charts", "Band", "Cautions", "Record"), sheet.title
         if not sheet.title_rows:
             # Inputs with a floor table: its header is not repeated, the panes still freeze
             assert not heads or (sheet.title == "Inputs" and options.floors), sheet.title

@@ -49,6 +49,10 @@ def _case(q, v) -> dict:
         values["mass_ratio_max"] = 0.2           # keep the pair ordered, test one end only
     if q.name == "mass_ratio_max":
         values["mass_ratio_min"] = 0.0
+    # the companions a table needs, at values that keep the pair valid (the band contains 1)
+    values.update({"band_lower": {"band_upper": 1.5}, "band_upper": {"band_lower": 0.5},
+                   "response_exponent": {"band_lower": 0.9, "band_upper": 1.1},
+                   "measured_damping": {"measured_frequency": 0.2}}.get(q.name, {}))
     values[q.name] = v
     return values
 
@@ -71,8 +75,10 @@ def test_project_file_and_engine_accept_exactly_the_same_values(q, tmp_path):
             file_ok = True
         except ProjectError as exc:
             file_ok = False
-            line = next(i for i, t in enumerate(text.splitlines(), 1)
-                        if t.startswith(f"{q.key or q.name} ="))
+            lines = text.splitlines()
+            table = lines.index(f"[{q.section}]")     # the key's line in its own table
+            line = next(i for i, t in enumerate(lines, 1)
+                        if i > table and t.startswith(f"{q.key or q.name} ="))
             keys = {q.file_key, "damper.mass_ratio_max"} if q.name == "mass_ratio_min" \
                 else {q.file_key}        # the order of the practical range names the upper end
             m = re.match(r"p\.toml:(\d+): ([\w.]+): ", str(exc))

@@ -12,7 +12,7 @@ from pathlib import Path
 from workbook_builder.project import load_project
 
 EXAMPLES = Path(__file__).resolve().parent.parent / "example_workbooks"
-NAMES = ["residential_tower", "observation_mast", "office_tower_us"]
+NAMES = ["residential_tower", "observation_mast", "office_tower_us", "slender_tower_us"]
 
 #: A small project (invented); its title and notes look like formulas and must stay text.
 MINIMAL = """\

@@ -35,7 +35,7 @@ from .xlsx.files import (guard_hand_edits, guard_overwrite, mark_workbook, set_d
 from .xlsx.formulas import Evaluator, is_error
 from .xlsx.template import open_template
 
-from functions.design import CHECK_RULES
+from functions.design import check_rules
 
 __all__ = ["BuildError", "BuiltWorkbook", "build_workbook", "write_workbook",
            "SIMULATION_PROPERTY", "title_fields", "page_header"]
@@ -168,7 +168,7 @@ def build_workbook(project: Project, *, template: str | Path | None = None,
         v, e = built.value(name), float(built.value(engine_name(name)))
         built.cross_checks.append((name, v, e, abs(v) if e == 0 else abs(v / e - 1)))
     built.design_verdicts = [(rule.label, built.value(check_name(rule.name)))
-                             for rule in CHECK_RULES]
+                             for rule in check_rules(plan.options.parts)]
     if simulation is not None:
         built.nonlinear_verdicts = [(label, built.value(name))
                                     for name, label, *_ in NONLINEAR_CHECKS]

@@ -57,6 +57,9 @@ COVERED_ELSEWHERE: dict[str, str] = {
     "functions.study.design_table":
         "a table of whole designs over input arrays, for scripts; in a sheet, SWAY_DESIGN "
         "copied down rows of inputs gives one design per row",
+    "functions.design.check_rules":
+        "the list of design checks a calculation with optional parts holds, not a number; "
+        "SWAY_DESIGN returns the verdicts",
     "functions.design.design_tuning":
         "the optimum as the design chain applies it; SWAY_OPTIMAL_TUNING_RATIO and "
         "SWAY_OPTIMAL_DAMPER_DAMPING give it (structural_damping 0 for a closed form)",

@@ -18,7 +18,7 @@ from .sheet import Looks, SheetLayout, ref
 
 __all__ = ["calculation_sheet", "engine_flag", "engine_flags", "snapshot_name",
            "UNIT_FORMATS", "unit_format", "value_format", "Columns", "calculation_columns",
-           "FLAG_LABEL", "result_comment", "SIMULATION_FLAG"]
+           "FLAG_LABEL", "FLAG_GUARDS", "result_comment", "SIMULATION_FLAG"]
 
 #: Display format of a value by unit where no quantity declares one (US columns, checks).
 UNIT_FORMATS = {
@@ -92,13 +92,20 @@ def snapshot_name(flag: str, dependency: str) -> str:
     return f"{flag}_{dependency}"
 
 
+#: What each flag of the calculation's engine values guards (``functions.chain.Step.flag``).
+FLAG_GUARDS = {
+    "engine_flag_mass_ratio": "mass ratio", "engine_flag_tuning": "tuning optimum",
+    "engine_flag_band": "worst case over the band",
+    "engine_flag_band_mass": "mass ratio for the band",
+    "engine_flag_robust": "robust tuning", "engine_flag_robust_worst":
+        "worst case of the robust tuning", "engine_flag_as_built": "as-built tuning optimum",
+}
+
+
 def engine_flags(options: PlanOptions) -> list[tuple[str, str]]:
     """``(flag name, what it guards)`` of every engine-value flag of a workbook, in order."""
-    flags = []
-    if options.mass_ratio_mode == "required":
-        flags.append(("engine_flag_mass_ratio", "mass ratio"))
-    if options.tuning_method in ("h2", "hinf"):
-        flags.append(("engine_flag_tuning", "tuning optimum"))
+    flags = [(name, FLAG_GUARDS[name]) for name in chain.engine_flag_names(
+        options.tuning_method, options.mass_ratio_mode, options.parts)]
     if options.simulation is not None:
         flags.append((SIMULATION_FLAG, "nonlinear simulation"))
     return flags
@@ -186,7 +193,7 @@ def calculation_sheet(options: PlanOptions) -> SheetLayout:
     flags = dict(engine_flags(options))
     row = 5
     working: list[tuple[str, chain.Step]] = []
-    for sec in chain.sections(options.tuning_method, options.mass_ratio_mode):
+    for sec in chain.sections(options.tuning_method, options.mass_ratio_mode, options.parts):
         sh.section(row, sec.title, cols.last)
         row += 1
         if sec.note:
@@ -214,10 +221,8 @@ def calculation_sheet(options: PlanOptions) -> SheetLayout:
             nxt = steps[number] if number < len(steps) else None
             if step.is_engine_value and not (nxt is not None and nxt.is_engine_value
                                              and nxt.reads == step.reads):
-                flag = "engine_flag_mass_ratio" if step.name == "mass_ratio" else \
-                    "engine_flag_tuning"
-                assert flag in flags, flag
-                row = engine_flag(sh, row, flag, step.reads, "design",
+                assert step.flag in flags, step.flag
+                row = engine_flag(sh, row, step.flag, step.reads, "design",
                                   value_col=cols.value, note_col=cols.equation)
         row += 1
     if working:

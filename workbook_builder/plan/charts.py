@@ -12,7 +12,10 @@ computed when the workbook is built or recalculated (:func:`chart_tables`):
 3. effective damping against mass ratio, each mass ratio with the damper the design's tuning
    method gives it (:func:`functions.design.design_tuning`,
    :func:`functions.damper.effective_damping`), with the required damping and the design
-   point marked.
+   point marked;
+4. with a frequency band, the acceleration with the damper against the building's frequency
+   factor over the band, for the damper as designed and for the robust tuning, with the limit
+   (:func:`functions.envelope.detuned_acceleration`).
 
 Table sizes are fixed (the layout never depends on the numbers); each table's numbers are a
 named range (``chart_<table>``) that batch recalculation refills. :func:`time_history_table`
@@ -27,6 +30,7 @@ from typing import Any
 import numpy as np
 
 from functions.damper import effective_damping, frequency_response
+from functions.envelope import detuned_acceleration
 from functions.design import CAUTION, design_tuning
 from functions.pendulum import small_angle_error
 
@@ -34,7 +38,7 @@ from .model import Chart, Series
 from .options import PlanOptions
 from .sheet import Looks, SheetLayout, ref
 
-__all__ = ["ChartTable", "TableSpec", "chart_tables", "charts_sheet",
+__all__ = ["ChartTable", "TableSpec", "chart_tables", "charts_sheet", "band_sheet",
            "RULE_OF_THUMB_DEG", "MAX_TIME_POINTS", "WINDOW_ROWS", "time_history_table", "swing_window_table",
            "write_table", "range_name", "CHART_ROWS", "BLUE", "ORANGE", "GREY", "RED", "GREEN"]
 
@@ -52,7 +56,7 @@ CHART_ROWS = 19
 
 BLUE, ORANGE, GREY, RED, GREEN = "1F4E79", "C55A11", "7F7F7F", "C00000", "548235"
 
-AMPLITUDE_POINTS, FREQUENCY_POINTS, MASS_RATIO_POINTS = 31, 81, 19
+AMPLITUDE_POINTS, FREQUENCY_POINTS, MASS_RATIO_POINTS, BAND_POINTS = 31, 81, 19, 41
 FREQUENCY_RATIO_RANGE = (0.6, 1.4)
 
 
@@ -81,9 +85,13 @@ def _marks(key: str, x: str, y: str) -> TableSpec:
                                                     key == "period_marks" else "0.0000"), 3)
 
 
-def table_specs(method: str) -> dict[str, TableSpec]:
-    """The Charts sheet's tables for a tuning method."""
-    return {t.key: t for t in (
+def table_specs(method: str, parts: tuple[str, ...] = ()) -> dict[str, TableSpec]:
+    """The Charts sheet's tables for a tuning method and the calculation's optional parts."""
+    band = (TableSpec("band", "Acceleration with damper over the frequency band",
+                      ("Frequency factor r [-]", "As designed [m/s^2]", "Robust tuning [m/s^2]",
+                       "Limit [m/s^2]"), ("0.000", "0.00000", "0.00000", "0.00000"),
+                      BAND_POINTS),) if "band" in parts else ()
+    return {t.key: t for t in band + (
         TableSpec("period", "Period ratio against swing amplitude",
                   ("Swing amplitude θ0 [deg]", "Exact T/T0 [-]", "Small-angle T/T0 [-]"),
                   ("0.0", "0.00000", "0.00000"), AMPLITUDE_POINTS),
@@ -126,7 +134,7 @@ def chart_tables(result: Any) -> dict[str, ChartTable]:
         For non-finite engine values (e.g. an undamped structure at resonance).
     """
     p = result.inputs
-    specs = table_specs(p.tuning_method)
+    specs = table_specs(p.tuning_method, result.parts)
     swing, zs = float(result.swing_angle_deg), float(p.structural_damping)
     mu, f_d, z_d = float(result.mass_ratio), float(result.tuning_ratio), \
         float(result.damper_damping)
@@ -154,6 +162,16 @@ def chart_tables(result: Any) -> dict[str, ChartTable]:
                      (marks[2], mu, float(result.effective_damping)))
     rows = {"period": period, "period_marks": period_marks, "response": response,
             "damping": damping, "damping_marks": damping_marks}
+    if "band" in specs:
+        c = result.cells
+        rs = np.linspace(p.band_lower, p.band_upper, BAND_POINTS)
+        args = (p.acceleration, mu)
+        tail = (zs, p.response_exponent)
+        nominal = detuned_acceleration(rs, *args, f_d, z_d, *tail)
+        robust = detuned_acceleration(rs, *args, c["robust_tuning_ratio"],
+                                      c["robust_damper_damping"], *tail)
+        rows["band"] = tuple(zip(_floats(rs), _floats(nominal), _floats(robust),
+                                 _floats(np.full(BAND_POINTS, p.acceleration_limit))))
     return {k: ChartTable(specs[k], rows[k]) for k in specs}
 
 
@@ -191,7 +209,7 @@ def _rng(col: int, first: int, last: int) -> str:
 
 def charts_sheet(options: PlanOptions) -> SheetLayout:
     """The Charts sheet for ``options``."""
-    specs = table_specs(options.tuning_method)
+    specs = table_specs(options.tuning_method, options.parts)
     sh = SheetLayout("Charts")
     sh.label(1, 1, "Charts: engine values computed when the workbook was built or "
                    "last recalculated by swaytune", Looks.HEADING)
@@ -241,6 +259,41 @@ def charts_sheet(options: PlanOptions) -> SheetLayout:
     last_row = max(p2, r2, d2, dm2, pm2 + 1)
     # two pages: the charts, then their tables (scaled so the longest table fits)
     sh.page(title_rows="1:2", print_area=f"A1:L{last_row}", freeze="A3", pages=2)
+    return sh
+
+
+def band_sheet(options: PlanOptions) -> SheetLayout:
+    """The Band sheet (with a frequency band): the acceleration with the damper over the band,
+    as designed and tuned robustly, against the limit; the chart above its table, one page."""
+    spec = table_specs(options.tuning_method, options.parts)["band"]
+    sh = SheetLayout("Band")
+    sh.label(1, 1, "Frequency band: engine values, computed when the workbook was built or "
+                   "last recalculated", Looks.HEADING)
+    sh.label(2, 1, CAUTION, Looks.WARNING)
+    sh.widths([16, 16, 16, 16, 16, 16])
+    top = 4 + CHART_ROWS
+    b1, b2 = write_table(sh, spec, top, 1, "chart")
+    sh.height(top + 1, 45)
+    notes = ("The damper as designed is tuned at the nominal frequency f_s; the robust tuning "
+             "maximises the least effective damping over the band for the same mass ratio "
+             "(Calculation sheet, section 7).",
+             "Mass, damper and structural damping as designed: the frequency error is a "
+             "stiffness error. The acceleration without the damper is held constant across "
+             "the band unless the rule a r^k is given (Inputs sheet).",
+             "Worst case and its check: Calculation sheet 7.1 and the Checks sheet.")
+    for i, text in enumerate(notes):
+        sh.label(b2 + 2 + i, 1, text, Looks.WRAP)
+        sh.merge(b2 + 2 + i, 1, b2 + 2 + i, 6)
+        sh.height(b2 + 2 + i, 30)
+    sh.plan.charts.append(Chart(
+        "A4", spec.title, "Frequency factor r = f_actual / f_s [-]",
+        "Peak acceleration [m/s^2]", (
+            Series(_rng(1, b1, b2), _rng(2, b1, b2), "Damper as designed", BLUE),
+            Series(_rng(1, b1, b2), _rng(3, b1, b2), "Robust tuning for the band", GREEN,
+                   dash="dash"),
+            Series(_rng(1, b1, b2), _rng(4, b1, b2), "Limit", RED, dash="sysDot")),
+        x_format="0.00", y_format="0.000", fit_x=True, x_round=0.05))
+    sh.page(title_rows="1:2", print_area=f"A1:F{b2 + 1 + len(notes)}", freeze="A3", pages=1)
     return sh
 
 

@@ -10,8 +10,8 @@ convergence, the engine-value flags and, with a Nonlinear sheet, the time-domain
 from __future__ import annotations
 
 from functions.chain import steps
-from functions.design import CHECK_RULES
-from functions.quantities import design_results, quantity
+from functions.design import check_rules
+from functions.quantities import BAND_RESULTS, design_results, quantity
 from functions.worksheet import TWIN_TOLERANCE
 
 from ..project.units import us_display
@@ -44,6 +44,10 @@ NONLINEAR_CHECKS = (
 )
 
 
+#: Results of the optional parts of the calculation (their formulas are cross-checked too).
+_PART_RESULTS = frozenset(q.cell_name for q in BAND_RESULTS)
+
+
 def check_name(rule_name: str) -> str:
     """Defined name of a design check's verdict cell."""
     return f"check_{rule_name}"
@@ -57,8 +61,8 @@ def engine_name(result: str) -> str:
 def cross_checked(options: PlanOptions) -> list[str]:
     """The results whose formula is cross-checked against the engine, in sheet order."""
     results = {q.cell_name for q in design_results()}
-    return [s.name for s in steps(options.tuning_method, options.mass_ratio_mode)
-            if s.name in results]
+    return [s.name for s in steps(options.tuning_method, options.mass_ratio_mode, options.parts)
+            if s.name in results or (s.name in _PART_RESULTS and not s.is_engine_value)]
 
 
 def _nonlinear(sh: SheetLayout, row: int) -> int:
@@ -119,11 +123,12 @@ def checks_sheet(options: PlanOptions) -> SheetLayout:
     sh.header(3, ["Design check", "Rule", "Value", "Limit", "Lower limit", "Unit", "Verdict"]
               + (["Value (SI)", "Limit (SI)", "SI unit"] if options.us else []))
     row = 4
-    for rule in CHECK_RULES:
+    rules = check_rules(options.parts)
+    for rule in rules:
         _design_check(sh, row, rule, options.us)
         row += 1
     sh.verdicts(f"G4:G{row - 1}")
-    cells = ",".join(f'{check_name(r.name)}="OK"' for r in CHECK_RULES)
+    cells = ",".join(f'{check_name(r.name)}="OK"' for r in rules)
     sh.label(row, 1, "All design checks", "bold box")
     sh.check(row, 7, f'=IF(AND({cells}),"OK","NOT OK")', name="all_design_checks",
              label="Verdict of all design checks")

@@ -14,7 +14,7 @@ import json
 from dataclasses import asdict, dataclass, fields
 from typing import Any
 
-from functions.chain import MASS_RATIO_MODES, mass_ratio_mode
+from functions.chain import MASS_RATIO_MODES, PART_SETS, mass_ratio_mode, parts_of
 from functions.damper import OPTIMAL_TUNING_METHODS
 from functions.quantities import design_inputs
 
@@ -47,7 +47,8 @@ class PlanOptions:
     ``inputs`` lists the design inputs with a row on the Inputs sheet (glossary names, in
     declaration order: an optional input not given has none, nor the modal mass when
     ``floors`` > 0 floors give it). ``simulation`` is None without a Nonlinear sheet, else
-    ``(load, time rows, window rows)`` of its tables.
+    ``(load, time rows, window rows)`` of its tables. ``parts`` lists the optional parts of
+    the calculation (``functions.chain.PARTS``: frequency band, as-built retune).
     """
 
     units: str = "SI"
@@ -58,6 +59,7 @@ class PlanOptions:
     floors: int = 0
     template: bool = False
     simulation: tuple[str, int, int] | None = None
+    parts: tuple[str, ...] = ()
     version: int = PLAN_VERSION
 
     def __post_init__(self) -> None:
@@ -67,6 +69,8 @@ class PlanOptions:
         if self.mass_ratio_mode not in MASS_RATIO_MODES:
             raise ValueError(f"mass_ratio_mode={self.mass_ratio_mode!r} must be one of "
                              f"{', '.join(MASS_RATIO_MODES)}")
+        if self.parts not in PART_SETS:
+            raise ValueError(f"parts={self.parts!r} must be one of {PART_SETS}")
         if self.units not in OPTION_KEYS["units"] or self.paper not in OPTION_KEYS["paper"]:
             raise ValueError(f"units={self.units!r} and paper={self.paper!r} must be SI or US "
                              "and A4 or Letter")
@@ -98,6 +102,7 @@ class PlanOptions:
                              f"plan (keys {sorted(names)})")
         kwargs: dict[str, Any] = dict(raw)
         kwargs["inputs"] = tuple(raw.get("inputs", ()))
+        kwargs["parts"] = tuple(raw.get("parts", ()))
         if raw.get("simulation") is not None:
             kwargs["simulation"] = tuple(raw["simulation"])
         try:
@@ -119,4 +124,4 @@ def options_for(project: Any, simulation: Any = None, template: bool = False) ->
         mass_ratio_mode=mass_ratio_mode("mass_ratio" in project.inputs,
                                         "damper_mass" in project.inputs),
         inputs=inputs, floors=0 if project.floors is None else len(project.floors.heights),
-        template=template, simulation=sim)
+        template=template, simulation=sim, parts=parts_of(project.design_kwargs()))

@@ -12,8 +12,9 @@ sheet starts with its heading.
 """
 from __future__ import annotations
 
-from functions.design import CHECK_RULES, CheckRule
-from functions.quantities import Quantity, design_inputs, design_results
+from functions.chain import steps
+from functions.design import CheckRule, check_rules
+from functions.quantities import BAND_RESULTS, Quantity, design_inputs, design_results, quantity
 from functions.worksheet import formula_names
 
 from ..project.units import us_display
@@ -72,14 +73,24 @@ class SummaryColumns:
         return [36, 9, 12, 11, 11, 9, 28]
 
 
-def key_results() -> list[str]:
-    """Defined names of the key results shown on the Summary sheet, in checking order."""
-    return [q.cell_name for q in design_results() if q.summary]
+def key_results(options: PlanOptions | None = None) -> list[str]:
+    """Defined names of the key results shown on the Summary sheet, in checking order (with
+    ``options``, those of its optional parts too)."""
+    names = [q.cell_name for q in design_results() if q.summary]
+    if options is not None and options.parts:
+        names += [s.name for s in steps(options.tuning_method, options.mass_ratio_mode,
+                                         options.parts)
+                  if s.name not in names and s.name in _PART_KEY_RESULTS]
+    return names
 
 
-def _rule_of(name: str) -> CheckRule | None:
+#: Key results of the optional parts of the calculation.
+_PART_KEY_RESULTS = frozenset(q.cell_name for q in BAND_RESULTS if q.summary)
+
+
+def _rule_of(name: str, parts: tuple[str, ...] = ()) -> CheckRule | None:
     """The design check whose value is the result ``name`` (or its absolute value)."""
-    for rule in CHECK_RULES:
+    for rule in check_rules(parts):
         if formula_names(rule.value_formula) == (name,):
             return rule
     return None
@@ -162,17 +173,16 @@ def _inputs(sh: SheetLayout, row: int, options: PlanOptions, cols: SummaryColumn
     return row + 1
 
 
-def _results(sh: SheetLayout, row: int, cols: SummaryColumns) -> int:
+def _results(sh: SheetLayout, row: int, cols: SummaryColumns, options: PlanOptions) -> int:
     sh.section(row, "Results and design checks", cols.last)
     row += 1
     head = ["Result", "Symbol", "Value", "Unit", "Limit", "Verdict"]
     head += ["Value (SI)", "SI unit"] if cols.us else []
     sh.header(row, head + ["Rule"])
     row += 1
-    results = {q.cell_name: q for q in design_results()}
     first = row
-    for name in key_results():
-        q: Quantity = results[name]
+    for name in key_results(options):
+        q: Quantity = quantity(name)
         sh.label(row, cols.label, q.label, "box wrap")
         sh.label(row, cols.symbol, q.symbol, "box")
         unit = _shown(sh, row, cols.value, name, q.unit, q.fmt, cols.us,
@@ -181,7 +191,7 @@ def _results(sh: SheetLayout, row: int, cols: SummaryColumns) -> int:
         if cols.us:
             sh.formula(row, cols.result_si, f"={name}", fmt=q.fmt, style="box secondary")
             sh.label(row, cols.result_si_unit, q.unit, "box secondary")
-        rule = _rule_of(name)
+        rule = _rule_of(name, options.parts)
         if rule is None:
             for c in (cols.limit, cols.verdict, cols.rule):
                 sh.blank(row, c, "box")
@@ -219,7 +229,7 @@ def summary_sheet(options: PlanOptions) -> SheetLayout:
         sh.merge(row, 2, row, cols.last)
         row += 1
     row = _inputs(sh, row + 1, options, cols)
-    row = _results(sh, row, cols)
+    row = _results(sh, row, cols, options)
     sh.section(row, "Verdicts", cols.last)
     row += 1
     start = row

@@ -28,6 +28,13 @@ declarations)::
     clearance = 1.5                # available peak stroke, one side
     max_swing = 15                 # [deg]
 
+    [band]                         # optional: the building frequency only known within a band
+    lower = 0.9                    # frequency factors f_actual / f_s around the nominal 1
+    upper = 1.1
+
+    [as_built]                     # optional: measured on the finished building (retune)
+    frequency = 0.19               # [Hz]
+
     [simulation]                   # optional: the Nonlinear sheet (time-domain check)
     load = "random"                # "random" (wind-like) or "harmonic"
     duration = 600                 # record length [s]
@@ -54,7 +61,7 @@ if sys.version_info >= (3, 11):
 else:  # pragma: no cover
     import tomli as tomllib
 
-from functions.quantities import Quantity, input_relation_errors, quantity
+from functions.quantities import OPTIONAL_TABLES, Quantity, input_relation_errors, quantity
 from functions.structure import MODE_SHAPE_EXPONENTS
 
 from .model import Floors, InputValue, Project, ProjectError, SimulationSettings
@@ -369,6 +376,13 @@ def parse_project(data: dict, *, source: str = "<project>", text: str = "",
         if key in flat:
             inputs[q.name] = (_read_choice(ctx, q, key, flat[key]) if q.kind == "choice"
                               else read_number(ctx, q, key, flat[key], system))
+        elif q.section in OPTIONAL_TABLES and not any(k.startswith(q.section + ".")
+                                                      for k in flat):
+            continue                       # an optional table not given: no row, no default
+        elif q.name in OPTIONAL_TABLES.get(q.section, ()):
+            raise ctx.error(key, f"is missing: a [{q.section}] table needs "
+                                 + " and ".join(input_quantity_key(n).split(".", 1)[1]
+                                                for n in OPTIONAL_TABLES[q.section]))
         elif q.has_default:
             inputs[q.name] = _default(q, system)
         elif q.required:

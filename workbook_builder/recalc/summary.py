@@ -21,7 +21,7 @@ from typing import Any
 from openpyxl import Workbook
 from openpyxl.styles import Alignment, Font, PatternFill
 
-from functions.design import CHECK_RULES
+from functions.design import PART_CHECK_RULES, CHECK_RULES
 from functions.quantities import design_inputs, design_results
 
 from .. import __version__
@@ -47,7 +47,8 @@ def _header(q, us: bool) -> str:
 
 
 def _check_columns() -> list[str]:
-    return [rule.label for rule in CHECK_RULES] + list(SHORT_LABELS.values()) + [
+    return [rule.label for rule in CHECK_RULES + tuple(r for _, r in PART_CHECK_RULES)] + \
+        list(SHORT_LABELS.values()) + [
         "Engine values current"]
 
 

@@ -27,7 +27,7 @@ from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Any, Mapping
 
-from functions.design import CHECK_RULES
+from functions.design import check_rules
 from functions.quantities import by_name, design_inputs
 from functions.worksheet import TWIN_TOLERANCE
 
@@ -286,7 +286,7 @@ def _evaluate(book: Book, plan: Plan, res: RecalcResult) -> dict[tuple[str, str]
 def _verdicts(data: WorkbookData, result: Any, res: RecalcResult, now) -> None:
     plan = data.plan
     engine_ok = {c.name: c.ok for c in result.checks}
-    for rule in CHECK_RULES:
+    for rule in check_rules(plan.options.parts):
         verdict = now(check_name(rule.name))
         verdict = verdict if verdict in ("OK", "NOT OK") else "NOT OK"
         res.checks.append((rule.label, verdict))
