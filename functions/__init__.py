@@ -11,6 +11,8 @@ name of the topic modules is re-exported here, imported on first use::
     damper        optimal tuning, effective damping, stroke, required damping and mass ratio
     envelope      the damper over a band of building frequencies: detuned response, worst
                   case, robust tuning, mass ratio for the band, hanger range, as-built retune
+    levels        the extreme wind level and the occupied floor: response, swing, buffers,
+                  damper force, Melbourne & Palmer comfort criterion, floor ordinate
     optima        numerical optima (h2, hinf) on a damped structure, reached through
                   damper.optimal_tuning (no public names of its own)
     quantities    every quantity of the design declared once (name, symbol, unit, range, ...)
@@ -28,7 +30,7 @@ __version__ = "0.3.0"
 #: The topic modules, in the order their names are searched. They are imported on first use
 #: (PEP 562), so ``import functions.quantities`` or the ``swaytune --version`` command does not
 #: pay for scipy's start-up.
-TOPICS = ("pendulum", "structure", "closed_forms", "damper", "optima", "envelope",
+TOPICS = ("pendulum", "structure", "closed_forms", "damper", "optima", "envelope", "levels",
           "quantities", "worksheet", "chain", "design", "study", "simulation")
 
 

@@ -11,6 +11,7 @@ engine. Adding a spreadsheet function is one entry in the module of its topic:
                  conventions are described there)
     mechanics    one pendulum, one structural mode, one damper: closed forms and optima
     envelope     the damper over a band of building frequencies
+    levels       the extreme wind level, the buffers and the occupied floor's comfort
     design       the time-domain check and the whole design chain (SWAY_DESIGN)
 
 This module assembles them (:data:`FUNCTIONS`, :data:`BY_NAME`), says which public engine
@@ -33,6 +34,7 @@ from functions.catalogue.declaration import (
 )
 from functions.catalogue.design import DESIGN, SIMULATION, design_sheet_functions
 from functions.catalogue.envelope import ENVELOPE
+from functions.catalogue.levels import LEVELS
 from functions.catalogue.mechanics import DAMPER, PENDULUM, STRUCTURE
 
 __all__ = [
@@ -46,8 +48,8 @@ __all__ = [
 _REQUIRED = REQUIRED
 
 #: Every worksheet function, in documentation order.
-FUNCTIONS: tuple[SheetFunction, ...] = (PENDULUM + STRUCTURE + DAMPER + ENVELOPE + SIMULATION
-                                        + DESIGN)
+FUNCTIONS: tuple[SheetFunction, ...] = (PENDULUM + STRUCTURE + DAMPER + ENVELOPE + LEVELS
+                                        + SIMULATION + DESIGN)
 
 #: Excel name -> declaration.
 BY_NAME: dict[str, SheetFunction] = {f.name: f for f in FUNCTIONS}
@@ -118,6 +120,7 @@ TOPICS = {
     "structure": "Structure",
     "damper": "Damper",
     "envelope": "Frequency band",
+    "levels": "Extreme level and comfort",
     "simulation": "Simulation",
     "design": "Design chain",
 }
