@@ -11,6 +11,8 @@ name of the topic modules is re-exported here, imported on first use::
     damper        optimal tuning, effective damping, stroke, required damping and mass ratio
     envelope      the damper over a band of building frequencies: detuned response, worst
                   case, robust tuning, mass ratio for the band, hanger range, as-built retune
+    directions    one pendulum mass for two sway directions: springs, dashpots, combined
+                  stroke and swing
     optima        numerical optima (h2, hinf) on a damped structure, reached through
                   damper.optimal_tuning (no public names of its own)
     quantities    every quantity of the design declared once (name, symbol, unit, range, ...)
@@ -29,7 +31,7 @@ __version__ = "0.3.0"
 #: (PEP 562), so ``import functions.quantities`` or the ``swaytune --version`` command does not
 #: pay for scipy's start-up.
 TOPICS = ("pendulum", "structure", "closed_forms", "damper", "optima", "envelope",
-          "quantities", "worksheet", "chain", "design", "study", "simulation")
+          "quantities", "worksheet", "chain", "design", "study", "simulation", "directions")
 
 
 def _topic(name: str) -> Any:
