@@ -50,7 +50,8 @@ from typing import Any, Callable, Mapping
 import numpy as np
 
 from functions._validation import broadcast, check_range, scalar_or_array
-from functions.damper import effective_damping, required_mass_ratio, stroke_ratio
+from functions.damper import (MIN_NUMERICAL_MASS_RATIO, effective_damping, required_mass_ratio,
+                              stroke_ratio)
 from functions.design import (ACCELERATION_RTOL, Check, CheckRule, DesignResult,
                               design_tuning)
 from functions.pendulum import STANDARD_GRAVITY, exact_period
@@ -459,6 +460,14 @@ def _inputs(values: dict[str, Any]) -> dict[str, float]:
     return out
 
 
+def _negligible(need: float, zs: float, method: str) -> bool:
+    """True when the smallest damper the optima cover already gives the damping needed."""
+    if need <= zs:
+        return True
+    f, zd = design_tuning(MIN_NUMERICAL_MASS_RATIO, method, zs)
+    return float(effective_damping(MIN_NUMERICAL_MASS_RATIO, f, zd, zs)) >= need
+
+
 def _evaluate(name: str, cells: dict[str, float]) -> float:
     form = DIRECTION_FORMS[name]
     return float(form(**{n: cells[n] for n in form.worksheet.names}))
@@ -516,7 +525,8 @@ def design_second_direction(result, frequency, modal_mass, structural_damping, a
     exact: :func:`spring_pendulum_frequency`) against the accepted detuning. Direction 1's own
     checks stay in ``result.checks``; with two directions the combined stroke and swing are the
     ones that govern the clearance. ``required_damper_mass_2`` is the mass direction 2 alone
-    would need to meet its limit (0 when it already does): raise the damper mass to it when
+    would need to meet its limit (0 when the structure alone meets it, or a damper of mass
+    ratio 1e-4, the smallest the optima cover, would): raise the damper mass to it when
     direction 2 fails.
 
     Preliminary design aid: results must be checked by a licensed engineer against local
@@ -584,9 +594,9 @@ def design_second_direction(result, frequency, modal_mass, structural_damping, a
         length, cells["spring_stiffness_2"], cells["damper_mass"], cells["swing_angle_deg_2"],
         cells["gravity"]))
     cells["detuning_2"] = _evaluate("detuning_2", cells)
+    need = cells["required_damping_2"]
     try:
-        need = cells["required_damping_2"]
-        cells["required_mass_ratio_2"] = 0.0 if need <= zs2 else float(
+        cells["required_mass_ratio_2"] = 0.0 if _negligible(need, zs2, method) else float(
             required_mass_ratio(need, zs2, method))
     except ValueError as exc:
         raise ValueError(f"acceleration_2={cells['acceleration_2']!r} against "
