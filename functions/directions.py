@@ -52,7 +52,7 @@ import numpy as np
 from functions._validation import broadcast, check_range, scalar_or_array
 from functions.damper import (MIN_NUMERICAL_MASS_RATIO, effective_damping, required_mass_ratio,
                               stroke_ratio)
-from functions.design import (ACCELERATION_RTOL, Check, CheckRule, DesignResult,
+from functions.design import (ACCELERATION_RTOL, Check, CheckRule, DesignResult, _fmt, _rel,
                               design_tuning)
 from functions.pendulum import STANDARD_GRAVITY, exact_period
 from functions.quantities import DESIGN_INPUTS, by_name
@@ -348,6 +348,11 @@ DIRECTION_FORMS: dict[str, Callable[..., Any]] = {
         lambda frequency_at_swing_2, small_swing_frequency_2:
         frequency_at_swing_2 / small_swing_frequency_2 - 1.0, "f_2(theta_2) / f_2(0) - 1",
         "functions.directions.spring_pendulum_frequency (exact)"),
+    "frequency_error_2": _form(
+        "=frequency_at_swing_2/damper_frequency_2-1",
+        lambda frequency_at_swing_2, damper_frequency_2:
+        frequency_at_swing_2 / damper_frequency_2 - 1.0, "f_2(theta_2) / f_d2 - 1",
+        "Off the target at direction 2's own swing (springs sized at direction 1's)"),
     "required_damper_mass_2": _form(
         "=required_mass_ratio_2*modal_mass_2", lambda required_mass_ratio_2, modal_mass_2:
         required_mass_ratio_2 * modal_mass_2, "mu_req2 M*_2"),
@@ -365,29 +370,25 @@ DIRECTION_FORMS: dict[str, Callable[..., Any]] = {
 }
 
 
-def _rel(ok: bool) -> str:
-    return "<=" if ok else ">"
-
-
 #: The checks of the two-direction damper (the style of :data:`functions.design.CHECK_RULES`).
 DIRECTION_CHECK_RULES: tuple[CheckRule, ...] = (
     CheckRule("acceleration_2", "Direction 2: acceleration with damper within its limit",
               twin("=acceleration_with_damper_2", lambda acceleration_with_damper_2:
                    acceleration_with_damper_2),
               "acceleration_limit_2", "a_d2 <= a_lim2 (1 + 1e-9)",
-              lambda v, lim, lo, ok: f"direction 2: acceleration with damper {v:.4g} m/s^2 "
-                                     f"{_rel(ok)} limit {lim:.4g} m/s^2",
+              lambda v, lim, lo, ok: f"direction 2: acceleration with damper {_fmt(v)} m/s^2 "
+                                     f"{_rel(ok)} limit {_fmt(lim)} m/s^2",
               rtol=ACCELERATION_RTOL, unit="m/s^2"),
     CheckRule("combined_stroke", "Combined (SRSS) stroke within the clearance",
               twin("=combined_stroke", lambda combined_stroke: combined_stroke), "clearance",
               "sqrt(x_d1^2 + x_d2^2) <= x_max",
-              lambda v, lim, lo, ok: f"combined stroke {v:.4g} m {_rel(ok)} clearance "
-                                     f"{lim:.4g} m (SRSS, common practice, no source)",
+              lambda v, lim, lo, ok: f"combined stroke {_fmt(v)} m {_rel(ok)} clearance "
+                                     f"{_fmt(lim)} m (SRSS, common practice, no source)",
               unit="m"),
     CheckRule("combined_swing", "Combined swing within the accepted angle",
               twin("=combined_swing_deg", lambda combined_swing_deg: combined_swing_deg),
               "max_swing_deg", "asin(x_r / L) <= theta_max",
-              lambda v, lim, lo, ok: f"combined swing {v:.4g} deg {_rel(ok)} {lim:.4g} deg",
+              lambda v, lim, lo, ok: f"combined swing {_fmt(v)} deg {_rel(ok)} {_fmt(lim)} deg",
               unit="deg"),
     CheckRule("detuning_2", "Direction 2: detuning within the accepted value",
               twin("=ABS(detuning_2)", lambda detuning_2: np.abs(detuning_2)), "max_detuning",
@@ -424,6 +425,7 @@ class SecondDirection:
     small_swing_frequency_2: float
     frequency_at_swing_2: float
     detuning_2: float
+    frequency_error_2: float
     required_mass_ratio_2: float
     required_damper_mass_2: float
     combined_stroke: float
@@ -522,7 +524,9 @@ def design_second_direction(result, frequency, modal_mass, structural_damping, a
     (common practice, no source). The checks: direction 2's acceleration against its limit,
     the combined stroke against the design's clearance, the combined swing against its accepted
     swing and direction 2's detuning (frequency at its design swing against small swings,
-    exact: :func:`spring_pendulum_frequency`) against the accepted detuning. Direction 1's own
+    exact: :func:`spring_pendulum_frequency`) against the accepted detuning;
+    ``frequency_error_2`` says how far that frequency lies from the target f_d2 (the springs
+    are sized at direction 1's design swing with the gravity part only). Direction 1's own
     checks stay in ``result.checks``; with two directions the combined stroke and swing are the
     ones that govern the clearance. ``required_damper_mass_2`` is the mass direction 2 alone
     would need to meet its limit (0 when the structure alone meets it, or a damper of mass
@@ -593,7 +597,8 @@ def design_second_direction(result, frequency, modal_mass, structural_damping, a
     cells["frequency_at_swing_2"] = float(spring_pendulum_frequency(
         length, cells["spring_stiffness_2"], cells["damper_mass"], cells["swing_angle_deg_2"],
         cells["gravity"]))
-    cells["detuning_2"] = _evaluate("detuning_2", cells)
+    for name in ("detuning_2", "frequency_error_2"):
+        cells[name] = _evaluate(name, cells)
     need = cells["required_damping_2"]
     try:
         cells["required_mass_ratio_2"] = 0.0 if _negligible(need, zs2, method) else float(

@@ -328,6 +328,8 @@ def test_detuning_of_direction_two_is_the_spring_pendulum_at_its_swing():
     at_swing = 1.0 / _integrated_period(a, b, d.swing_angle_deg_2)
     small = np.sqrt(a + b) / (2 * np.pi)
     assert d.detuning_2 == pytest.approx(at_swing / small - 1.0, rel=1e-6)
+    assert d.frequency_error_2 == pytest.approx(at_swing / d.damper_frequency_2 - 1.0,
+                                                rel=1e-5)
     assert d.small_swing_frequency_2 == pytest.approx(small, rel=1e-14)
 
 
@@ -466,19 +468,18 @@ def _workbook_of_formulas(path):
     return cells, where
 
 
-@pytest.mark.skipif(libreoffice.find_soffice() is None, reason="LibreOffice is not installed")
-def test_libreoffice_recalculates_the_formulas_to_the_engine(tmp_path):
-    cells, where = _workbook_of_formulas(tmp_path / "directions.xlsx")
-    out = libreoffice.recalculate(tmp_path / "directions.xlsx", tmp_path / "lo")
-    values = libreoffice.read_values(out)
-    for name, cell in where.items():
-        assert values[("V", cell)] == pytest.approx(cells[name], rel=TWIN_TOLERANCE), name
+_APPLICATIONS = [
+    pytest.param(libreoffice.recalculate, marks=pytest.mark.skipif(
+        libreoffice.find_soffice() is None, reason="LibreOffice is not installed"),
+        id="libreoffice"),
+    pytest.param(gnumeric.recalculate, marks=pytest.mark.skipif(
+        gnumeric.find_ssconvert() is None, reason="Gnumeric is not installed"), id="gnumeric"),
+]
 
 
-@pytest.mark.skipif(gnumeric.find_ssconvert() is None, reason="Gnumeric is not installed")
-def test_gnumeric_recalculates_the_formulas_to_the_engine(tmp_path):
+@pytest.mark.parametrize("recalculate", _APPLICATIONS)
+def test_spreadsheet_applications_recalculate_the_formulas_to_the_engine(recalculate, tmp_path):
     cells, where = _workbook_of_formulas(tmp_path / "directions.xlsx")
-    out = gnumeric.recalculate(tmp_path / "directions.xlsx", tmp_path / "gn")
-    values = libreoffice.read_values(out)
+    values = libreoffice.read_values(recalculate(tmp_path / "directions.xlsx", tmp_path / "out"))
     for name, cell in where.items():
         assert values[("V", cell)] == pytest.approx(cells[name], rel=TWIN_TOLERANCE), name
