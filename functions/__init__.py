@@ -13,6 +13,8 @@ name of the topic modules is re-exported here, imported on first use::
                   case, robust tuning, mass ratio for the band, hanger range, as-built retune
     levels        the extreme wind level and the occupied floor: response, swing, buffers,
                   damper force, Melbourne & Palmer comfort criterion, floor ordinate
+    directions    one pendulum mass for two sway directions: springs, dashpots, combined
+                  stroke and swing
     optima        numerical optima (h2, hinf) on a damped structure, reached through
                   damper.optimal_tuning (no public names of its own)
     quantities    every quantity of the design declared once (name, symbol, unit, range, ...)
@@ -31,7 +33,7 @@ __version__ = "0.3.0"
 #: (PEP 562), so ``import functions.quantities`` or the ``swaytune --version`` command does not
 #: pay for scipy's start-up.
 TOPICS = ("pendulum", "structure", "closed_forms", "damper", "optima", "envelope", "levels",
-          "quantities", "worksheet", "chain", "design", "study", "simulation")
+          "quantities", "worksheet", "chain", "design", "study", "simulation", "directions")
 
 
 def _topic(name: str) -> Any:

@@ -12,6 +12,7 @@ engine. Adding a spreadsheet function is one entry in the module of its topic:
     mechanics    one pendulum, one structural mode, one damper: closed forms and optima
     envelope     the damper over a band of building frequencies
     levels       the extreme wind level, the buffers and the occupied floor's comfort
+    directions   one pendulum mass for two sway directions: springs, combined stroke
     design       the time-domain check and the whole design chain (SWAY_DESIGN)
 
 This module assembles them (:data:`FUNCTIONS`, :data:`BY_NAME`), says which public engine
@@ -33,6 +34,7 @@ from functions.catalogue.declaration import (
     ROWS, SUMMARY, TEXT, Argument, SheetFunction, engine_default, python_name,
 )
 from functions.catalogue.design import DESIGN, SIMULATION, design_sheet_functions
+from functions.catalogue.directions import DIRECTIONS
 from functions.catalogue.envelope import ENVELOPE
 from functions.catalogue.levels import LEVELS
 from functions.catalogue.mechanics import DAMPER, PENDULUM, STRUCTURE
@@ -49,6 +51,7 @@ _REQUIRED = REQUIRED
 
 #: Every worksheet function, in documentation order.
 FUNCTIONS: tuple[SheetFunction, ...] = (PENDULUM + STRUCTURE + DAMPER + ENVELOPE + LEVELS
+                                        + DIRECTIONS
                                         + SIMULATION + DESIGN)
 
 #: Excel name -> declaration.
@@ -74,6 +77,10 @@ COVERED_ELSEWHERE: dict[str, str] = {
     "functions.simulation.calibrated_load":
         "returns a load object for simulate (the workbook builder's Nonlinear sheet); "
         "SWAY_RANDOM_RESPONSE_THEORY and SWAY_PEAK_FACTOR give its numbers in cells",
+    "functions.directions.design_second_direction":
+        "takes direction 1's DesignResult and returns an object; in a sheet, SWAY_DESIGN gives "
+        "direction 1 and SWAY_SPRING_STIFFNESS, SWAY_COMBINED_STROKE with the one-direction "
+        "functions (SWAY_OPTIMAL_TUNING_RATIO, SWAY_EFFECTIVE_DAMPING, ...) give direction 2",
     "functions.simulation.hanger_damping":
         "one product and quotient, zeta_d f_d / f_L, used by the workbook builder to pass the "
         "designed dashpot to simulate",
@@ -121,6 +128,7 @@ TOPICS = {
     "damper": "Damper",
     "envelope": "Frequency band",
     "levels": "Extreme level and comfort",
+    "directions": "Two sway directions",
     "simulation": "Simulation",
     "design": "Design chain",
 }
