@@ -31,15 +31,18 @@ from typing import Any, Callable
 
 import numpy as np
 
-from functions.damper import (CLOSED_FORMS, OPTIMAL_TUNING_METHODS, optimal_tuning,
+from functions.damper import (CLOSED_FORMS, MIN_NUMERICAL_MASS_RATIO, OPTIMAL_TUNING_METHODS,
+                              effective_damping, optimal_tuning,
                               required_mass_ratio)
+from functions.directions import DIRECTION_FORMS, spring_pendulum_frequency
 from functions.envelope import band_mass_ratio, band_worst_case, robust_tuning
+from functions.levels import LEVEL_FORMS
 from functions.pendulum import pendulum_length, small_angle_error
-from functions.worksheet import form_of, twin
+from functions.worksheet import form_of, renamed, twin
 
 __all__ = ["Step", "Section", "MASS_RATIO_MODES", "mass_ratio_mode", "sections", "steps",
            "all_variants", "VARIANCE_SOURCE", "SMALL_SWING_ERROR", "PARTS", "parts_of",
-           "engine_flag_names"]
+           "engine_flag_names", "valid_parts", "PART_SETS"]
 
 #: How the mass ratio is set: a chosen ratio, a chosen damper mass, or the required ratio.
 MASS_RATIO_MODES = ("chosen_mass_ratio", "chosen_damper_mass", "required")
@@ -47,7 +50,7 @@ MASS_RATIO_MODES = ("chosen_mass_ratio", "chosen_damper_mass", "required")
 #: Optional parts of the calculation, each present when its inputs are given: the frequency
 #: band (``band_lower``, ``band_upper``), the as-built retune (``measured_frequency``) and the
 #: measured damping it uses (``measured_damping``).
-PARTS = ("band", "as_built", "measured_damping")
+PARTS = ("band", "as_built", "measured_damping", "extreme", "comfort", "direction_2")
 
 #: Source of the white-noise variance steps.
 VARIANCE_SOURCE = "I4 integral (Newland 1993, App. 1), regrouped: no cancellation"
@@ -129,7 +132,10 @@ def parts_of(values: Any) -> tuple[str, ...]:
     """
     given = {"band": values.get("band_lower") is not None,
              "as_built": values.get("measured_frequency") is not None,
-             "measured_damping": values.get("measured_damping") is not None}
+             "measured_damping": values.get("measured_damping") is not None,
+             "extreme": values.get("extreme_acceleration") is not None,
+             "comfort": values.get("return_period") is not None,
+             "direction_2": values.get("frequency_2") is not None}
     return tuple(part for part in PARTS if given[part])
 
 
@@ -273,7 +279,7 @@ def _band_section(method: str) -> Section:
                            float(response_exponent))[0]
 
     length = "gravity/(2*PI()*damper_frequency*{r})^2/(1+small_angle_error)^2"
-    return Section("7  Frequency band: the building's frequency uncertain", (
+    return Section("Frequency band: the building's frequency uncertain", (
         Step("band_worst_acceleration", pick(0), "max over r of a r^k sqrt(zeta_s / "
              "zeta_eff(mu, f/r, zeta_d, zeta_s))", worst, flag="engine_flag_band"),
         Step("band_worst_factor", pick(1), "r where a_d(r) is largest", worst,
@@ -315,7 +321,6 @@ def _band_section(method: str) -> Section:
 
 def _as_built_section(method: str, measured_damping: bool) -> Section:
     """The damper retuned to the measured frequency (and damping) of the finished building."""
-    zeta = "measured_damping" if measured_damping else "structural_damping"
     flag = "engine_flag_as_built"
     if method in CLOSED_FORMS:
         tuning, damping = CLOSED_FORMS[method]
@@ -338,7 +343,7 @@ def _as_built_section(method: str, measured_damping: bool) -> Section:
                         flag=flag),
                    Step("retune_damper_damping", pick(1), "numerical optimum", source,
                         flag=flag))
-    return Section("8  As built: the damper retuned to the measured building", optimum + (
+    return Section("As built: the damper retuned to the measured building", optimum + (
         _step("retune_damper_frequency", "=retune_tuning_ratio*measured_frequency",
               lambda retune_tuning_ratio, measured_frequency:
               retune_tuning_ratio * measured_frequency, "f_ab f_meas"),
@@ -357,6 +362,197 @@ def _as_built_section(method: str, measured_damping: bool) -> Section:
        f"frequency{' and damping' if measured_damping else ' (design damping zeta_s)'}; "
        "hanger length in tune at the design swing. A frequency measured with the damper "
        "locked must first be multiplied by sqrt(1 + mu).")
+
+
+def _engine(name: str, compute: Callable[..., Any], expression: str, source: str,
+            flag: str) -> Step:
+    return Step(name, compute, expression, source, flag=flag)
+
+
+def _extreme_section() -> Section:
+    """The damper at the extreme wind: stroke, swing and detuning, buffers, force."""
+    f = LEVEL_FORMS
+
+    def swing(extreme_stroke, pendulum_length):
+        if not extreme_stroke < pendulum_length:
+            raise ValueError(f"extreme_stroke={extreme_stroke:.6g} m must be below "
+                             f"pendulum_length={pendulum_length:.6g} m: the linear response "
+                             "at the extreme level swings past the hanger; raise the damper "
+                             "mass or lower extreme_acceleration")
+        return f["extreme_swing_deg"](extreme_stroke, pendulum_length)
+    error = SMALL_SWING_ERROR.replace("swing_angle_deg", "extreme_swing_deg").replace(
+        "agm_at_swing", "agm_at_extreme_swing")
+    return Section("Extreme level: stroke, swing, buffers and force", (
+        *(_as_step(name, f[name]) for name in ("extreme_acceleration_with_damper",
+                                               "extreme_displacement", "extreme_stroke")),
+        Step("extreme_swing_deg", twin(f["extreme_swing_deg"].worksheet.formula, swing,
+                                       "asin(x_d,x / L)", "Plane trigonometry")),
+        Step("extreme_small_angle_error", lambda extreme_swing_deg:
+             small_angle_error(extreme_swing_deg), "T / T_0 - 1 at theta_x (as step 5.4)",
+             "A&S 17.6 (AGM at the extreme swing, Pendulum sheet); series below 0.1 rad",
+             error),
+        _step("extreme_detuning", "=(1+small_angle_error)/(1+extreme_small_angle_error)-1",
+              lambda small_angle_error, extreme_small_angle_error:
+              (1.0 + small_angle_error) / (1.0 + extreme_small_angle_error) - 1.0,
+              "(1 + e) / (1 + e_x) - 1", "Frequency ratio = period ratio^-1; in tune at the "
+                                          "design swing"),
+        *(_as_step(name, f[name]) for name in ("buffer_excess", "contact_velocity",
+                                               "buffer_energy", "extreme_damper_force")),
+    ), "The wind of the strength check (extreme_acceleration) on the same linear system: every "
+       "response scales with the input. The stroke beyond the clearance is taken by the "
+       "buffers: contact velocity and energy from harmonic motion at f_s (kinematics; a random "
+       "response needs its own statement). Force: spring and dashpot, harmonic at f_s.")
+
+
+def _comfort_section() -> Section:
+    form = LEVEL_FORMS["comfort_limit_mp"]
+    return Section("Comfort criterion of Melbourne & Palmer (1992)", (
+        _as_step("comfort_limit_mp", form),
+    ), "Peak acceleration criterion at the mode's frequency for the return period R, "
+       "T = 600 s (J. Wind Eng. Ind. Aerodyn. 41-44 (1992) 105-116), beside the project's own "
+       "limit, which stays the design limit; valid for 0.06 to 1 Hz.")
+
+
+#: Direction-1 names and their direction-2 cells (the renamed closed forms read them).
+_SECOND = {"tuning_ratio": "tuning_ratio_2", "damper_damping": "damper_damping_2",
+           "structural_damping": "structural_damping_2", "mass_ratio": "mass_ratio_2",
+           "acceleration": "acceleration_2", "structure_frequency": "frequency_2",
+           "damper_frequency": "damper_frequency_2", "stroke": "stroke_2",
+           "effective_damping": "effective_damping_2", "stroke_ratio": "stroke_ratio_2",
+           "acceleration_with_damper": "acceleration_with_damper_2",
+           "structure_displacement": "structure_displacement_2",
+           "extreme_acceleration": "extreme_acceleration_2",
+           "extreme_acceleration_with_damper": "extreme_acceleration_with_damper_2",
+           "extreme_displacement": "extreme_displacement_2", "stiffness": "stiffness_2",
+           "dashpot": "dashpot_2", "extreme_stroke": "extreme_stroke_2",
+           "extreme_damper_force": "extreme_damper_force_2",
+           **{f"var_{v}": f"var_{v}_2" for v in "wgxytnd"}}
+
+
+def _second_of(step: Step) -> Step:
+    """Direction 2's copy of a direction-1 closed form (its names renamed)."""
+    return Step(_SECOND[step.name], renamed(step.compute, _SECOND), step.expression + " (dir. 2)",
+                step.source)
+
+
+def _second_direction_section(method: str, core: tuple[Section, ...]) -> Section:
+    """The same pendulum mass in the second sway direction: tuning, springs, response."""
+    d = DIRECTION_FORMS
+    by_name = {s.name: s for sec in core for s in sec.steps}
+    if method in CLOSED_FORMS:
+        tuning = tuple(_second_of(by_name[n]) for n in ("tuning_ratio", "damper_damping"))
+    else:
+        source = (f"functions.damper.optimal_tuning(method='{method}') for mu_2 and zeta_s2; "
+                  "numerical, no closed form")
+        tuning = tuple(_engine(name, (lambda i: lambda mass_ratio_2, structural_damping_2:
+                                      _optimum(float(mass_ratio_2), method,
+                                               float(structural_damping_2))[i])(i),
+                               "numerical optimum", source, "engine_flag_tuning_2")
+                       for i, name in enumerate(("tuning_ratio_2", "damper_damping_2")))
+    spring = d["spring_stiffness_2"]
+
+    def springs(damper_mass, damper_frequency_2, damper_frequency):
+        if damper_frequency_2 < damper_frequency * (1.0 - 1e-12):
+            raise ValueError(
+                f"needs a damper frequency of {damper_frequency_2:.6g} Hz, below the main "
+                f"direction's {damper_frequency:.6g} Hz to which the hangers are cut: "
+                "spring_stiffness_2 would be negative. Give the lower-frequency direction as "
+                "the main mode ([mode]) and the other as [direction_2]")
+        return spring(damper_mass, damper_frequency_2, damper_frequency)
+
+    def below_length(name: str, form: Callable[..., Any]) -> Step:
+        stroke = form.worksheet.names[0]
+
+        def swing(**cells):
+            if not cells[stroke] < cells["pendulum_length"]:
+                raise ValueError(f"{stroke}={cells[stroke]!r} m must be below pendulum_length="
+                                 f"{cells['pendulum_length']!r} m: the pendulum cannot reach "
+                                 "it; raise the damper mass or the clearance")
+            return form(**cells)
+        swing.__signature__ = inspect.signature(form)    # type: ignore[attr-defined]
+        return Step(name, twin(form.worksheet.formula, swing, form.worksheet.expression,
+                               form.worksheet.source))
+
+    def at_swing(pendulum_length, spring_stiffness_2, damper_mass, swing_angle_deg_2, gravity):
+        return spring_pendulum_frequency(pendulum_length, spring_stiffness_2, damper_mass,
+                                         swing_angle_deg_2, gravity)
+
+    def required(required_damping_2, structural_damping_2):
+        zs = float(structural_damping_2)
+        need = float(required_damping_2)
+        if need <= zs:
+            return 0.0
+        mu = MIN_NUMERICAL_MASS_RATIO
+        f, zd = optimal_tuning(mu, method, 0.0 if method in CLOSED_FORMS else zs)
+        if float(effective_damping(mu, f, zd, zs)) >= need:
+            return 0.0
+        return required_mass_ratio(need, zs, method)
+
+    variance = [_second_of(by_name[f"var_{v}"]) for v in "wgxytnd"]
+    response = [_second_of(by_name[n]) for n in (
+        "effective_damping", "acceleration_with_damper", "structure_displacement",
+        "stroke_ratio", "stroke")]
+    return Section("Second sway direction: the same pendulum mass, springs added", (
+        _as_step("mass_ratio_2", d["mass_ratio_2"]),
+        _as_step("required_damping_2", d["required_damping_2"]),
+        *tuning,
+        _as_step("damper_frequency_2", d["damper_frequency_2"]),
+        *variance, *response,
+        below_length("swing_angle_deg_2", d["swing_angle_deg_2"]),
+        Step("spring_stiffness_2", twin(spring.worksheet.formula, springs,
+                                        spring.worksheet.expression, spring.worksheet.source)),
+        _second_of(by_name["stiffness"]),
+        _as_step("dashpot_2", d["dashpot_2"]),
+        _as_step("small_swing_frequency_2", d["small_swing_frequency_2"]),
+        _engine("frequency_at_swing_2", at_swing, "exact period of pendulum and springs",
+                "functions.directions.spring_pendulum_frequency (complete elliptic integral)",
+                "engine_flag_spring_2"),
+        _as_step("detuning_2", d["detuning_2"]),
+        _engine("frequency_error_2", lambda frequency_at_swing_2, damper_frequency_2:
+                frequency_at_swing_2 / damper_frequency_2 - 1.0, "f_2(theta_2) / f_d2 - 1",
+                "Off the target at direction 2's own swing (springs sized at direction 1's); "
+                "an engine value: a small difference of an engine value",
+                "engine_flag_frequency_error_2"),
+        _engine("required_mass_ratio_2", required, "zeta_eff(mu, f_opt, zeta_opt, zeta_s2) = "
+                "zeta_req2", f"functions.damper.required_mass_ratio(method='{method}') "
+                "(0 when the structure alone, or a 1e-4 damper, meets it)",
+                "engine_flag_mass_ratio_2"),
+        _as_step("required_damper_mass_2", d["required_damper_mass_2"]),
+        _as_step("combined_stroke", d["combined_stroke"]),
+        _as_step("stroke_sum", d["stroke_sum"]),
+        below_length("combined_swing_deg", d["combined_swing_deg"]),
+    ), "One mass, two mass ratios; the hangers are cut for the main direction (the lower damper "
+       "frequency) and horizontal springs lift the pendulum to f_d2 in direction 2: omega^2 = "
+       "g/L + k/m (textbook, small swing), sized with g/L_0 at the main direction's swing. "
+       "Same tuning method and rules as sections 1-6, and the same floor ordinate phi_occ. "
+       "Peaks of the two directions combine by SRSS (uncorrelated responses: common practice, "
+       "no source).")
+
+
+def _second_extreme_section() -> Section:
+    """The second direction at the extreme wind, and both directions combined."""
+    steps_2 = [Step(_SECOND[n], renamed(LEVEL_FORMS[n], _SECOND), "", "")
+               for n in ("extreme_acceleration_with_damper", "extreme_displacement",
+                         "extreme_stroke", "extreme_damper_force")]
+    return Section("Extreme level, second direction and both combined", (
+        *steps_2[:3],
+        _step("extreme_combined_stroke", "=SQRT(extreme_stroke^2+extreme_stroke_2^2)",
+              lambda extreme_stroke, extreme_stroke_2:
+              np.sqrt(extreme_stroke ** 2 + extreme_stroke_2 ** 2), "sqrt(x_d,x1^2 + x_d,x2^2)",
+              "SRSS of uncorrelated peaks (common practice, no source)"),
+        _step("extreme_combined_swing_deg",
+              "=DEGREES(ASIN(MIN(1,extreme_combined_stroke/pendulum_length)))",
+              lambda extreme_combined_stroke, pendulum_length:
+              np.degrees(np.arcsin(np.minimum(1.0, extreme_combined_stroke / pendulum_length))),
+              "asin(x_r,x / L)", "Plane trigonometry (90 deg: the stroke reaches L)"),
+        steps_2[3],
+    ), "Direction 2's response at the extreme level scales with its own extreme input; the "
+       "radial stroke of both directions (SRSS) governs the clearance.")
+
+
+def _as_step(name: str, form: Callable[..., Any]) -> Step:
+    """A step from a twin declared in an engine module (its expression and source kept)."""
+    return Step(name, form, form.worksheet.expression, form.worksheet.source)
 
 
 @functools.lru_cache(maxsize=None)
@@ -387,14 +583,25 @@ def sections(method: str, mode: str, parts: tuple[str, ...] = ()) -> tuple[Secti
     """
     if method not in OPTIMAL_TUNING_METHODS:
         raise ValueError(f"method={method!r} must be one of {', '.join(OPTIMAL_TUNING_METHODS)}")
-    unknown = [p for p in parts if p not in PARTS]
-    if unknown or ("measured_damping" in parts and "as_built" not in parts):
-        raise ValueError(f"parts={parts!r} must be taken from {', '.join(PARTS)} "
-                         "(measured_damping only with as_built)")
-    extra = ((_band_section(method),) if "band" in parts else ()) + \
-        ((_as_built_section(method, "measured_damping" in parts),) if "as_built" in parts
-         else ())
-    return _core_sections(method, mode) + extra
+    if not valid_parts(parts):
+        raise ValueError(f"parts={parts!r} must be taken from {', '.join(PARTS)}, in that "
+                         "order (measured_damping only with as_built)")
+    core = _core_sections(method, mode)
+    extra = []
+    if "band" in parts:
+        extra.append(_band_section(method))
+    if "as_built" in parts:
+        extra.append(_as_built_section(method, "measured_damping" in parts))
+    if "extreme" in parts:
+        extra.append(_extreme_section())
+    if "comfort" in parts:
+        extra.append(_comfort_section())
+    if "direction_2" in parts:
+        extra.append(_second_direction_section(method, core))
+        if "extreme" in parts:
+            extra.append(_second_extreme_section())
+    return core + tuple(Section(f"{n}  {sec.title}", sec.steps, sec.note)
+                        for n, sec in enumerate(extra, start=len(core) + 1))
 
 
 def _core_sections(method: str, mode: str) -> tuple[Section, ...]:
@@ -450,10 +657,12 @@ def _core_sections(method: str, mode: str) -> tuple[Section, ...]:
                   acceleration * np.sqrt(structural_damping / effective_damping),
                   "a sqrt(zeta_s / zeta_eff)", "Resonant rule, as for zeta_req"),
             _step("structure_displacement",
-                  "=acceleration_with_damper/(2*PI()*structure_frequency)^2",
-                  lambda acceleration_with_damper, structure_frequency:
-                  acceleration_with_damper / (_TWO_PI * structure_frequency) ** 2,
-                  "a_d / (2 pi f_s)^2", "Harmonic at the mode's frequency"),
+                  "=acceleration_with_damper/(floor_ordinate*(2*PI()*structure_frequency)^2)",
+                  lambda acceleration_with_damper, floor_ordinate, structure_frequency:
+                  acceleration_with_damper / (floor_ordinate
+                                              * (_TWO_PI * structure_frequency) ** 2),
+                  "a_d / (phi_occ (2 pi f_s)^2)", "Harmonic at the mode's frequency; "
+                  "accelerations at the top occupied floor, displacement at the damper"),
             _step("stroke_ratio", "=SQRT(var_x/var_n)", lambda var_x, var_n:
                   np.sqrt(var_x / var_n), "sqrt(X / N)",
                   "functions.damper.stroke_ratio (same regrouped closed form)"),
@@ -509,9 +718,16 @@ def engine_flag_names(method: str, mode: str, parts: tuple[str, ...] = ()) -> li
     return list(dict.fromkeys(s.flag for s in steps(method, mode, parts) if s.flag))
 
 
-#: Every combination of optional parts a calculation can hold.
-PART_SETS = ((), ("band",), ("as_built",), ("as_built", "measured_damping"),
-             ("band", "as_built"), ("band", "as_built", "measured_damping"))
+def valid_parts(parts: tuple[str, ...]) -> bool:
+    """True for optional parts a calculation can hold: taken from :data:`PARTS`, in its
+    order, ``measured_damping`` only with ``as_built``."""
+    return (tuple(p for p in PARTS if p in parts) == tuple(parts)
+            and ("measured_damping" not in parts or "as_built" in parts))
+
+
+#: Sets of optional parts that, together, hold every section and every combination of two.
+PART_SETS = ((), ("band",), ("as_built", "measured_damping"), ("band", "as_built"),
+             ("extreme",), ("comfort",), ("direction_2",), ("extreme", "direction_2"), PARTS)
 
 
 def all_variants(parts: bool = False) -> list[tuple[str, str, list[Step]]]:

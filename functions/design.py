@@ -27,7 +27,8 @@ from functions.worksheet import twin
 
 __all__ = [
     "CAUTION", "ACCELERATION_RTOL", "CheckRule", "CHECK_RULES", "CHECK_NAMES", "ALL_CHECK_NAMES",
-    "PART_CHECK_RULES", "check_rules", "DesignInputs",
+    "PART_CHECK_RULES", "check_rules", "DesignInputs", "SecondDirection",
+    "SECOND_DIRECTION_INPUTS", "design_second_direction",
     "Check", "DesignResult", "design_damper", "design_tuning",
 ]
 
@@ -236,6 +237,68 @@ PART_CHECK_RULES: tuple[tuple[tuple[str, ...], CheckRule], ...] = (
         lambda v, lim, lo, ok: f"as-built hanger length {_fmt(v)} m "
                                f"{'within' if ok else 'outside'} {_fmt(lo)} to {_fmt(lim)} m",
         lower="hanger_length_upper", unit="m")),
+    (("extreme",), CheckRule(
+        "extreme_stroke", "Extreme level: stroke within the clearance (else the buffers take "
+        "the excess)", twin("=extreme_stroke", lambda extreme_stroke: extreme_stroke),
+        "clearance", "x_d,x <= x_max",
+        lambda v, lim, lo, ok: f"extreme-level stroke {_fmt(v)} m {_rel(ok)} clearance "
+                               f"{_fmt(lim)} m" + ("" if ok else ": buffers engage"), unit="m")),
+    (("extreme",), CheckRule(
+        "extreme_swing", "Extreme level: swing within the accepted angle",
+        twin("=extreme_swing_deg", lambda extreme_swing_deg: extreme_swing_deg),
+        "max_swing_deg", "theta_x <= theta_max",
+        lambda v, lim, lo, ok: f"extreme-level swing {_fmt(v)} deg {_rel(ok)} {_fmt(lim)} deg",
+        unit="deg")),
+    (("extreme",), CheckRule(
+        "extreme_detuning", "Extreme level: detuning within the accepted value",
+        twin("=ABS(extreme_detuning)", lambda extreme_detuning: np.abs(extreme_detuning)),
+        "max_detuning", "|df_x/f| <= |df/f|_max",
+        lambda v, lim, lo, ok: f"extreme-level |detuning| {v:.3%} {_rel(ok)} {lim:.3%}")),
+    (("comfort",), CheckRule(
+        "comfort_criterion", "Comfort criterion (Melbourne & Palmer): acceleration with damper "
+        "within it",
+        twin("=acceleration_with_damper", lambda acceleration_with_damper:
+             acceleration_with_damper), "comfort_limit_mp", "a_d <= a_MP (1 + 1e-9)",
+        lambda v, lim, lo, ok: f"acceleration with damper {_fmt(v)} m/s^2 {_rel(ok)} "
+                               f"Melbourne & Palmer {_fmt(lim)} m/s^2",
+        rtol=ACCELERATION_RTOL, unit="m/s^2")),
+    (("direction_2",), CheckRule(
+        "acceleration_2", "Direction 2: acceleration with damper within its limit",
+        twin("=acceleration_with_damper_2", lambda acceleration_with_damper_2:
+             acceleration_with_damper_2), "acceleration_limit_2", "a_d2 <= a_lim2 (1 + 1e-9)",
+        lambda v, lim, lo, ok: f"direction 2: acceleration with damper {_fmt(v)} m/s^2 "
+                               f"{_rel(ok)} limit {_fmt(lim)} m/s^2",
+        rtol=ACCELERATION_RTOL, unit="m/s^2")),
+    (("direction_2",), CheckRule(
+        "combined_stroke", "Both directions: combined (SRSS) stroke within the clearance",
+        twin("=combined_stroke", lambda combined_stroke: combined_stroke), "clearance",
+        "sqrt(x_d1^2 + x_d2^2) <= x_max",
+        lambda v, lim, lo, ok: f"combined stroke {_fmt(v)} m {_rel(ok)} clearance "
+                               f"{_fmt(lim)} m (SRSS, common practice, no source)", unit="m")),
+    (("direction_2",), CheckRule(
+        "combined_swing", "Both directions: combined swing within the accepted angle",
+        twin("=combined_swing_deg", lambda combined_swing_deg: combined_swing_deg),
+        "max_swing_deg", "asin(x_r / L) <= theta_max",
+        lambda v, lim, lo, ok: f"combined swing {_fmt(v)} deg {_rel(ok)} {_fmt(lim)} deg",
+        unit="deg")),
+    (("direction_2",), CheckRule(
+        "detuning_2", "Direction 2: detuning within the accepted value",
+        twin("=ABS(detuning_2)", lambda detuning_2: np.abs(detuning_2)), "max_detuning",
+        "|df_2/f_2| <= |df/f|_max",
+        lambda v, lim, lo, ok: f"direction 2: |detuning| {v:.3%} {_rel(ok)} {lim:.3%}")),
+    (("direction_2", "extreme"), CheckRule(
+        "extreme_combined_stroke", "Extreme level, both directions: combined stroke within the "
+        "clearance", twin("=extreme_combined_stroke", lambda extreme_combined_stroke:
+                          extreme_combined_stroke), "clearance", "x_r,x <= x_max",
+        lambda v, lim, lo, ok: f"extreme-level combined stroke {_fmt(v)} m {_rel(ok)} "
+                               f"clearance {_fmt(lim)} m (SRSS)", unit="m")),
+    (("direction_2", "extreme"), CheckRule(
+        "extreme_combined_swing", "Extreme level, both directions: combined swing within the "
+        "accepted angle", twin("=extreme_combined_swing_deg", lambda extreme_combined_swing_deg:
+                               extreme_combined_swing_deg), "max_swing_deg",
+        "theta_r,x <= theta_max",
+        lambda v, lim, lo, ok: f"extreme-level combined swing {_fmt(v)} deg {_rel(ok)} "
+                               f"{_fmt(lim)} deg", unit="deg")),
 )
 
 
@@ -288,8 +351,26 @@ ALL_CHECK_NAMES = CHECK_NAMES + tuple(rule.name for _, rule in PART_CHECK_RULES)
 # --------------------------------------------------------------------------------------------
 # results
 # --------------------------------------------------------------------------------------------
+class _Verdicts:
+    """The verdicts of a result holding ``checks`` (a tuple of :class:`Check`)."""
+
+    checks: tuple[Check, ...]
+
+    @property
+    def ok(self) -> bool:
+        """True when every check passes."""
+        return all(c.ok for c in self.checks)
+
+    def check(self, name: str) -> Check:
+        """The check called ``name``."""
+        for c in self.checks:
+            if c.name == name:
+                return c
+        raise KeyError(name)
+
+
 @dataclass(frozen=True)
-class DesignResult:
+class DesignResult(_Verdicts):
     """Every cell of the design calculation and the checks.
 
     ``cells`` maps each defined name of the calculation (inputs in SI, every step of
@@ -326,18 +407,6 @@ class DesignResult:
     def parts(self) -> tuple[str, ...]:
         """The optional parts that ran, from ``functions.chain.PARTS`` [-]."""
         return parts_of(self.inputs.as_dict())
-
-    @property
-    def ok(self) -> bool:
-        """True when every check passes."""
-        return all(c.ok for c in self.checks)
-
-    def check(self, name: str) -> Check:
-        """The check called ``name`` (one of CHECK_NAMES)."""
-        for c in self.checks:
-            if c.name == name:
-                return c
-        raise KeyError(name)
 
     def to_dict(self) -> dict[str, Any]:
         """Flat dict: inputs, results (checking order), then check verdicts ``<name>_ok``.
@@ -415,6 +484,8 @@ def _run_steps(p: DesignInputs) -> dict[str, float]:
         try:
             cells[step.name] = step.evaluate(cells)
         except ValueError as exc:
+            if step.name == "spring_stiffness_2":
+                raise ValueError(f"frequency_2={p.frequency_2!r} Hz {exc}") from None
             if step.name == "band_mass_ratio":
                 raise ValueError(f"band_lower={p.band_lower!r} to band_upper={p.band_upper!r} "
                                  f"[-]: {exc}") from None
@@ -512,6 +583,139 @@ def design_damper(inputs: DesignInputs | None = None, **kwargs: Any) -> DesignRe
     cells = _run_steps(p)
     checks = tuple(rule.evaluate(cells) for rule in check_rules(parts_of(p.as_dict())))
     return DesignResult(p, cells, checks)
+
+
+# --------------------------------------------------------------------------------------------
+# the second sway direction of a design
+# --------------------------------------------------------------------------------------------
+#: Inputs of the second direction, in the order of :func:`design_second_direction`.
+SECOND_DIRECTION_INPUTS = ("frequency_2", "modal_mass_2", "structural_damping_2",
+                           "acceleration_2", "acceleration_limit_2")
+
+
+@dataclass(frozen=True)
+class SecondDirection(_Verdicts):
+    """The damper of a design in its second sway direction (SI units), and the checks.
+
+    The numbers are the direction-2 cells of the design chain (:mod:`functions.chain`, part
+    ``direction_2``); ``cells`` holds them with the direction-2 inputs; ``checks`` are the
+    checks of that part.
+    """
+
+    mass_ratio_2: float
+    required_damping_2: float
+    tuning_ratio_2: float
+    damper_damping_2: float
+    damper_frequency_2: float
+    spring_stiffness_2: float
+    dashpot_2: float
+    effective_damping_2: float
+    acceleration_with_damper_2: float
+    structure_displacement_2: float
+    stroke_ratio_2: float
+    stroke_2: float
+    swing_angle_deg_2: float
+    small_swing_frequency_2: float
+    frequency_at_swing_2: float
+    detuning_2: float
+    frequency_error_2: float
+    required_mass_ratio_2: float
+    required_damper_mass_2: float
+    combined_stroke: float
+    stroke_sum: float
+    combined_swing_deg: float
+    cells: Mapping[str, float]
+    checks: tuple[Check, ...]
+
+
+def design_second_direction(result, frequency, modal_mass, structural_damping, acceleration,
+                            acceleration_limit, extreme_acceleration=None):
+    """The design's pendulum mass in its second sway direction.
+
+    .. math::
+
+        \\mu_2 = \\frac{m_d}{M^*_2},\\quad k_2 = m_d (2\\pi)^2 (f_{d2}^2 - f_{d1}^2),\\quad
+        c_2 = 2\\zeta_{d2} m_d (2\\pi f_{d2}),\\quad
+        a_{d2} = a_2\\sqrt{\\frac{\\zeta_{s2}}{\\zeta_{eff,2}}},\\quad
+        x_r = \\sqrt{x_{d1}^2 + x_{d2}^2}
+
+    Parameters
+    ----------
+    result : DesignResult
+        Direction 1's design (:func:`design_damper`): the damper's mass, tuning method,
+        pendulum length and limits (clearance, swing, detuning) [-].
+    frequency : float
+        Frequency f_s2 of the second sway mode, in the range of the design's frequency [Hz].
+    modal_mass : float
+        Generalised mass M*_2 of that mode, normalised to 1 at the damper, > 0 [kg].
+    structural_damping : float
+        Damping ratio of that mode without the damper, in the design's range [-].
+    acceleration : float
+        Peak acceleration in direction 2 without the damper (service level), > 0 [m/s^2].
+    acceleration_limit : float
+        Accepted peak acceleration in direction 2, > 0 [m/s^2].
+    extreme_acceleration : float or None, optional
+        Peak acceleration in direction 2 without the damper at the extreme level; needed when
+        the design has an extreme level, else left out [m/s^2].
+
+    Returns
+    -------
+    direction : SecondDirection
+        Every number of direction 2 and the combined stroke and swing (units: Hz, kg, N/m,
+        N s/m, m/s^2, m, deg, ratios) with the checks [-].
+
+    Raises
+    ------
+    ValueError
+        If an input is outside its range (named ``frequency_2``, ...); if direction 2 needs a
+        lower damper frequency than direction 1's pendulum gives (negative spring stiffness:
+        give the lower-frequency direction as the main mode); if direction 2's limit needs a
+        mass ratio out of reach.
+
+    Notes
+    -----
+    The design chain with the second direction's inputs added (the same damper, sections
+    "Second sway direction"): one mass, hangers cut for direction 1, springs in direction 2
+    sized at direction 1's design swing (textbook omega^2 = g/L + k/m), uncorrelated
+    directions combined by SRSS (common practice, no source). Direction 1's own checks stay in
+    ``result.checks``. ``required_damper_mass_2`` is the mass direction 2 alone would need to
+    meet its limit (0 when the structure alone meets it, or a damper of mass ratio 1e-4 would).
+
+    Preliminary design aid: results must be checked by a licensed engineer against local
+    codes, wind-tunnel data and the manufacturer's design.
+
+    Examples
+    --------
+    Invented scenario: the tower of :func:`design_damper`'s example, its second sway mode at
+    0.17 Hz with M*_2 = 18,000 t, 1.5 % damping, 0.2 m/s^2 against 0.15 m/s^2:
+
+    >>> r = design_damper(frequency=0.15, modal_mass=2.0e7, structural_damping=0.015,
+    ...                   acceleration=0.25, acceleration_limit=0.15, clearance=1.2)
+    >>> d = design_second_direction(r, 0.17, 1.8e7, 0.015, 0.2, 0.15)
+    >>> round(d.mass_ratio_2, 5), round(d.damper_frequency_2, 5)
+    (0.01594, 0.16784)
+    >>> round(d.spring_stiffness_2 / 1e3, 1), round(d.acceleration_with_damper_2, 4)
+    (70.1, 0.1177)
+    >>> round(d.stroke_2, 3), round(d.combined_stroke, 3), d.ok
+    (0.552, 1.098, True)
+
+    References
+    ----------
+    1. G. B. Warburton, Earthquake Eng. Struct. Dyn. 10:381-401, 1982.
+    2. EN 1991-1-4:2005, Eurocode 1: Actions on structures - Wind actions, Annex B, B.2(6).
+    3. S. S. Rao, Mechanical Vibrations, 5th ed., Prentice Hall, 2011 (springs in parallel).
+    """
+    if not isinstance(result, DesignResult):
+        raise ValueError(f"result={result!r} must be a DesignResult (functions.design_damper)")
+    given = dict(zip(SECOND_DIRECTION_INPUTS, (frequency, modal_mass, structural_damping,
+                                               acceleration, acceleration_limit)))
+    full = design_damper(result.inputs.replace(**given,
+                                               extreme_acceleration_2=extreme_acceleration))
+    names = [f.name for f in dataclasses.fields(SecondDirection)][:-2]
+    cells = {n: full.cells[n] for n in (*SECOND_DIRECTION_INPUTS, *names)}
+    own = {c.name for c in full.checks} - {c.name for c in result.checks}
+    return SecondDirection(**{n: cells[n] for n in names}, cells=cells,
+                           checks=tuple(c for c in full.checks if c.name in own))
 
 
 

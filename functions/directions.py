@@ -39,29 +39,24 @@ here); the direction-2 detuning at its design swing is reported beside the desig
 
 The closed forms a workbook writes are numpy twins with native worksheet formulas over defined
 names (:data:`DIRECTION_FORMS`); :func:`design_second_direction` evaluates them in order.
-Imports run one way: directions -> design, damper, pendulum.
+The design chain evaluates them (:func:`functions.chain.sections`, part ``direction_2``);
+:func:`functions.design.design_second_direction` gives direction 2 of a design. Imports run
+one way: directions -> pendulum, quantities, worksheet.
 """
 from __future__ import annotations
 
 import math
-from dataclasses import dataclass
-from typing import Any, Callable, Mapping
+from typing import Any, Callable
 
 import numpy as np
 
 from functions._validation import broadcast, check_range, scalar_or_array
-from functions.damper import (MIN_NUMERICAL_MASS_RATIO, effective_damping, required_mass_ratio,
-                              stroke_ratio)
-from functions.design import (ACCELERATION_RTOL, Check, CheckRule, DesignResult, _fmt, _rel,
-                              design_tuning)
 from functions.pendulum import STANDARD_GRAVITY, exact_period
-from functions.quantities import DESIGN_INPUTS, by_name
 from functions.worksheet import twin
 
 __all__ = [
     "spring_stiffness", "spring_pendulum_frequency", "combined_stroke", "DIRECTION_FORMS",
-    "DIRECTION_INPUTS", "DIRECTION_CHECK_RULES", "SecondDirection", "design_second_direction",
-    "MAX_SPRING_SWING_DEG",
+    "DIRECTION_INPUTS", "MAX_SPRING_SWING_DEG",
 ]
 
 #: Largest swing accepted by :func:`spring_pendulum_frequency` [deg]: at 90 deg a horizontal
@@ -322,19 +317,6 @@ DIRECTION_FORMS: dict[str, Callable[..., Any]] = {
         lambda damper_mass, damper_frequency_2, damper_damping_2:
         2.0 * damper_mass * _TWO_PI * damper_frequency_2 * damper_damping_2,
         "2 m_d (2 pi f_d2) zeta_d2"),
-    "acceleration_with_damper_2": _form(
-        "=acceleration_2*SQRT(structural_damping_2/effective_damping_2)",
-        lambda acceleration_2, structural_damping_2, effective_damping_2:
-        acceleration_2 * np.sqrt(structural_damping_2 / effective_damping_2),
-        "a_2 sqrt(zeta_s2 / zeta_eff2)", "Resonant rule, as for zeta_req"),
-    "displacement_2": _form(
-        "=acceleration_with_damper_2/(2*PI()*frequency_2)^2",
-        lambda acceleration_with_damper_2, frequency_2:
-        acceleration_with_damper_2 / (_TWO_PI * frequency_2) ** 2,
-        "a_d2 / (2 pi f_s2)^2", "Harmonic at the mode's frequency"),
-    "stroke_2": _form(
-        "=stroke_ratio_2*displacement_2", lambda stroke_ratio_2, displacement_2:
-        stroke_ratio_2 * displacement_2, "(x_d/x_s)_2 x_s2", "Equal peak factors"),
     "swing_angle_deg_2": _form(
         "=DEGREES(ASIN(stroke_2/pendulum_length))", lambda stroke_2, pendulum_length:
         np.degrees(np.arcsin(stroke_2 / pendulum_length)), "asin(x_d2 / L)"),
@@ -348,11 +330,6 @@ DIRECTION_FORMS: dict[str, Callable[..., Any]] = {
         lambda frequency_at_swing_2, small_swing_frequency_2:
         frequency_at_swing_2 / small_swing_frequency_2 - 1.0, "f_2(theta_2) / f_2(0) - 1",
         "functions.directions.spring_pendulum_frequency (exact)"),
-    "frequency_error_2": _form(
-        "=frequency_at_swing_2/damper_frequency_2-1",
-        lambda frequency_at_swing_2, damper_frequency_2:
-        frequency_at_swing_2 / damper_frequency_2 - 1.0, "f_2(theta_2) / f_d2 - 1",
-        "Off the target at direction 2's own swing (springs sized at direction 1's)"),
     "required_damper_mass_2": _form(
         "=required_mass_ratio_2*modal_mass_2", lambda required_mass_ratio_2, modal_mass_2:
         required_mass_ratio_2 * modal_mass_2, "mu_req2 M*_2"),
@@ -368,248 +345,3 @@ DIRECTION_FORMS: dict[str, Callable[..., Any]] = {
         lambda combined_stroke, pendulum_length:
         np.degrees(np.arcsin(combined_stroke / pendulum_length)), "asin(x_r / L)"),
 }
-
-
-#: The checks of the two-direction damper (the style of :data:`functions.design.CHECK_RULES`).
-DIRECTION_CHECK_RULES: tuple[CheckRule, ...] = (
-    CheckRule("acceleration_2", "Direction 2: acceleration with damper within its limit",
-              twin("=acceleration_with_damper_2", lambda acceleration_with_damper_2:
-                   acceleration_with_damper_2),
-              "acceleration_limit_2", "a_d2 <= a_lim2 (1 + 1e-9)",
-              lambda v, lim, lo, ok: f"direction 2: acceleration with damper {_fmt(v)} m/s^2 "
-                                     f"{_rel(ok)} limit {_fmt(lim)} m/s^2",
-              rtol=ACCELERATION_RTOL, unit="m/s^2"),
-    CheckRule("combined_stroke", "Combined (SRSS) stroke within the clearance",
-              twin("=combined_stroke", lambda combined_stroke: combined_stroke), "clearance",
-              "sqrt(x_d1^2 + x_d2^2) <= x_max",
-              lambda v, lim, lo, ok: f"combined stroke {_fmt(v)} m {_rel(ok)} clearance "
-                                     f"{_fmt(lim)} m (SRSS, common practice, no source)",
-              unit="m"),
-    CheckRule("combined_swing", "Combined swing within the accepted angle",
-              twin("=combined_swing_deg", lambda combined_swing_deg: combined_swing_deg),
-              "max_swing_deg", "asin(x_r / L) <= theta_max",
-              lambda v, lim, lo, ok: f"combined swing {_fmt(v)} deg {_rel(ok)} {_fmt(lim)} deg",
-              unit="deg"),
-    CheckRule("detuning_2", "Direction 2: detuning within the accepted value",
-              twin("=ABS(detuning_2)", lambda detuning_2: np.abs(detuning_2)), "max_detuning",
-              "|df_2/f_2| <= |df/f|_max",
-              lambda v, lim, lo, ok: f"direction 2: |detuning| {v:.3%} {_rel(ok)} {lim:.3%}"),
-)
-
-
-# --------------------------------------------------------------------------------------------
-# the second direction of a design
-# --------------------------------------------------------------------------------------------
-@dataclass(frozen=True)
-class SecondDirection:
-    """The damper of a design in its second sway direction (SI units), and the checks.
-
-    ``cells`` maps every defined name of direction 2 (inputs, :data:`DIRECTION_FORMS`, engine
-    values) to its value; the numbers are also fields. ``checks`` are
-    :data:`DIRECTION_CHECK_RULES` evaluated on the design's and direction 2's cells.
-    """
-
-    mass_ratio_2: float
-    required_damping_2: float
-    tuning_ratio_2: float
-    damper_damping_2: float
-    damper_frequency_2: float
-    spring_stiffness_2: float
-    dashpot_2: float
-    effective_damping_2: float
-    acceleration_with_damper_2: float
-    displacement_2: float
-    stroke_ratio_2: float
-    stroke_2: float
-    swing_angle_deg_2: float
-    small_swing_frequency_2: float
-    frequency_at_swing_2: float
-    detuning_2: float
-    frequency_error_2: float
-    required_mass_ratio_2: float
-    required_damper_mass_2: float
-    combined_stroke: float
-    stroke_sum: float
-    combined_swing_deg: float
-    cells: Mapping[str, float]
-    checks: tuple[Check, ...]
-
-    @property
-    def ok(self) -> bool:
-        """True when every check passes."""
-        return all(c.ok for c in self.checks)
-
-    def check(self, name: str) -> Check:
-        """The check called ``name``."""
-        for c in self.checks:
-            if c.name == name:
-                return c
-        raise KeyError(name)
-
-
-def _inputs(values: dict[str, Any]) -> dict[str, float]:
-    """Direction-2 inputs checked against the ranges of their direction-1 quantities."""
-    declared = by_name(DESIGN_INPUTS)
-    out = {}
-    for name, value in values.items():
-        q = declared[DIRECTION_INPUTS[name]]
-        arr = check_range(name, value, q.low, q.high, low_open=q.low_open,
-                          high_open=q.high_open, unit=q.unit)
-        if arr.ndim:
-            raise ValueError(f"{name}={value!r} must be a single number: "
-                             "design_second_direction sizes one damper")
-        out[name] = float(arr)
-    return out
-
-
-def _negligible(need: float, zs: float, method: str) -> bool:
-    """True when the smallest damper the optima cover already gives the damping needed."""
-    if need <= zs:
-        return True
-    f, zd = design_tuning(MIN_NUMERICAL_MASS_RATIO, method, zs)
-    return float(effective_damping(MIN_NUMERICAL_MASS_RATIO, f, zd, zs)) >= need
-
-
-def _evaluate(name: str, cells: dict[str, float]) -> float:
-    form = DIRECTION_FORMS[name]
-    return float(form(**{n: cells[n] for n in form.worksheet.names}))
-
-
-def design_second_direction(result, frequency, modal_mass, structural_damping, acceleration,
-                            acceleration_limit):
-    """The design's pendulum mass in its second sway direction.
-
-    .. math::
-
-        \\mu_2 = \\frac{m_d}{M^*_2},\\quad k_2 = m_d (2\\pi)^2 (f_{d2}^2 - f_{d1}^2),\\quad
-        c_2 = 2\\zeta_{d2} m_d (2\\pi f_{d2}),\\quad
-        a_{d2} = a_2\\sqrt{\\frac{\\zeta_{s2}}{\\zeta_{eff,2}}},\\quad
-        x_r = \\sqrt{x_{d1}^2 + x_{d2}^2}
-
-    Parameters
-    ----------
-    result : DesignResult
-        Direction 1's design (:func:`functions.design.design_damper`): the damper's mass,
-        tuning method, pendulum length and limits (clearance, swing, detuning) [-].
-    frequency : float
-        Frequency f_s2 of the second sway mode, in the range of the design's frequency [Hz].
-    modal_mass : float
-        Generalised mass M*_2 of that mode, normalised to 1 at the damper, > 0 [kg].
-    structural_damping : float
-        Damping ratio of that mode without the damper, in the design's range [-].
-    acceleration : float
-        Peak acceleration in direction 2 without the damper, > 0 [m/s^2].
-    acceleration_limit : float
-        Accepted peak acceleration in direction 2, > 0 [m/s^2].
-
-    Returns
-    -------
-    direction : SecondDirection
-        Every number of direction 2 and the combined stroke and swing (units in the class's
-        ``cells``: Hz, kg, N/m, N s/m, m/s^2, m, deg, ratios) with the checks [-].
-
-    Raises
-    ------
-    ValueError
-        If an input is outside its range (named with the suffix ``_2``: ``frequency_2``, ...);
-        if direction 2 needs a lower damper frequency than direction 1's pendulum gives
-        (negative spring stiffness: give the lower-frequency direction as the main mode); if a
-        stroke exceeds the pendulum length; if direction 2's limit needs a mass ratio out of
-        reach (:func:`functions.damper.required_mass_ratio`).
-
-    Notes
-    -----
-    Assumptions in the module docstring: one mass, hangers cut for direction 1, springs in
-    direction 2 sized at direction 1's design swing, uncorrelated directions combined by SRSS
-    (common practice, no source). The checks: direction 2's acceleration against its limit,
-    the combined stroke against the design's clearance, the combined swing against its accepted
-    swing and direction 2's detuning (frequency at its design swing against small swings,
-    exact: :func:`spring_pendulum_frequency`) against the accepted detuning;
-    ``frequency_error_2`` says how far that frequency lies from the target f_d2 (the springs
-    are sized at direction 1's design swing with the gravity part only). Direction 1's own
-    checks stay in ``result.checks``; with two directions the combined stroke and swing are the
-    ones that govern the clearance. ``required_damper_mass_2`` is the mass direction 2 alone
-    would need to meet its limit (0 when the structure alone meets it, or a damper of mass
-    ratio 1e-4, the smallest the optima cover, would): raise the damper mass to it when
-    direction 2 fails.
-
-    Preliminary design aid: results must be checked by a licensed engineer against local
-    codes, wind-tunnel data and the manufacturer's design.
-
-    Examples
-    --------
-    Invented scenario: the tower of :func:`functions.design.design_damper`'s example, its second
-    sway mode at 0.17 Hz with M*_2 = 18,000 t, 1.5 % damping, 0.2 m/s^2 against 0.15 m/s^2:
-
-    >>> from functions.design import design_damper
-    >>> r = design_damper(frequency=0.15, modal_mass=2.0e7, structural_damping=0.015,
-    ...                   acceleration=0.25, acceleration_limit=0.15, clearance=1.2)
-    >>> d = design_second_direction(r, 0.17, 1.8e7, 0.015, 0.2, 0.15)
-    >>> round(d.mass_ratio_2, 5), round(d.damper_frequency_2, 5)
-    (0.01594, 0.16784)
-    >>> round(d.spring_stiffness_2 / 1e3, 1), round(d.acceleration_with_damper_2, 4)
-    (70.1, 0.1177)
-    >>> round(d.stroke_2, 3), round(d.combined_stroke, 3), d.ok
-    (0.552, 1.098, True)
-
-    References
-    ----------
-    1. G. B. Warburton, Earthquake Eng. Struct. Dyn. 10:381-401, 1982.
-    2. EN 1991-1-4:2005, Eurocode 1: Actions on structures - Wind actions, Annex B, B.2(6).
-    3. S. S. Rao, Mechanical Vibrations, 5th ed., Prentice Hall, 2011 (springs in parallel).
-    """
-    if not isinstance(result, DesignResult):
-        raise ValueError(f"result={result!r} must be a DesignResult (functions.design_damper)")
-    cells: dict[str, float] = dict(result.cells)
-    cells.update(_inputs({"frequency_2": frequency, "modal_mass_2": modal_mass,
-                          "structural_damping_2": structural_damping,
-                          "acceleration_2": acceleration,
-                          "acceleration_limit_2": acceleration_limit}))
-    method = result.method
-    for name in ("mass_ratio_2", "required_damping_2"):
-        cells[name] = _evaluate(name, cells)
-    f2, zd2 = design_tuning(cells["mass_ratio_2"], method, cells["structural_damping_2"])
-    cells["tuning_ratio_2"], cells["damper_damping_2"] = float(f2), float(zd2)
-    cells["damper_frequency_2"] = _evaluate("damper_frequency_2", cells)
-    fd1, fd2 = cells["damper_frequency"], cells["damper_frequency_2"]
-    if fd2 < fd1 * (1.0 - _SAME_FREQUENCY_RTOL):
-        raise ValueError(
-            f"frequency_2={cells['frequency_2']!r} Hz needs a damper frequency of {fd2:.6g} Hz, "
-            f"below direction 1's {fd1:.6g} Hz to which the hangers are cut: spring_stiffness_2 "
-            "would be negative. Give the lower-frequency direction as the main mode "
-            "(design_damper) and this one as the second direction")
-    for name in ("spring_stiffness_2", "dashpot_2"):
-        cells[name] = _evaluate(name, cells)
-    mu2, zs2 = cells["mass_ratio_2"], cells["structural_damping_2"]
-    cells["effective_damping_2"] = float(effective_damping(mu2, f2, zd2, zs2))
-    cells["stroke_ratio_2"] = float(stroke_ratio(mu2, f2, zd2, zs2))
-    for name in ("acceleration_with_damper_2", "displacement_2", "stroke_2",
-                 "combined_stroke", "stroke_sum"):
-        cells[name] = _evaluate(name, cells)
-    length = cells["pendulum_length"]
-    for name in ("stroke_2", "combined_stroke"):
-        if cells[name] >= length:
-            raise ValueError(f"{name}={cells[name]!r} m must be below pendulum_length={length!r}"
-                             " m: the pendulum cannot reach it; raise the damper mass or the "
-                             "clearance")
-    for name in ("swing_angle_deg_2", "small_swing_frequency_2", "combined_swing_deg"):
-        cells[name] = _evaluate(name, cells)
-    cells["frequency_at_swing_2"] = float(spring_pendulum_frequency(
-        length, cells["spring_stiffness_2"], cells["damper_mass"], cells["swing_angle_deg_2"],
-        cells["gravity"]))
-    for name in ("detuning_2", "frequency_error_2"):
-        cells[name] = _evaluate(name, cells)
-    need = cells["required_damping_2"]
-    try:
-        cells["required_mass_ratio_2"] = 0.0 if _negligible(need, zs2, method) else float(
-            required_mass_ratio(need, zs2, method))
-    except ValueError as exc:
-        raise ValueError(f"acceleration_2={cells['acceleration_2']!r} against "
-                         f"acceleration_limit_2={cells['acceleration_limit_2']!r} [m/s^2] needs "
-                         f"required_damping_2={need:.4g}: {exc}") from None
-    cells["required_damper_mass_2"] = _evaluate("required_damper_mass_2", cells)
-    checks = tuple(rule.evaluate(cells) for rule in DIRECTION_CHECK_RULES)
-    own = {n: cells[n] for n in (*DIRECTION_INPUTS, *SecondDirection.__dataclass_fields__)
-           if n in cells}
-    fields = {n: cells[n] for n in SecondDirection.__dataclass_fields__ if n in cells}
-    return SecondDirection(**fields, cells=own, checks=checks)

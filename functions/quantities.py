@@ -28,6 +28,7 @@ rather than a limit of a method, its note says so.
 """
 from __future__ import annotations
 
+import dataclasses
 import inspect
 import math
 from dataclasses import dataclass
@@ -39,7 +40,8 @@ from functions.pendulum import STANDARD_GRAVITY
 
 __all__ = [
     "Quantity", "REQUIRED", "OPTIONAL", "DESIGN_INPUTS", "DESIGN_RESULTS", "HELPERS",
-    "SIMULATION_SETTINGS", "FLOOR_TABLE", "BAND_RESULTS", "OPTIONAL_TABLES", "UNIT_KINDS", "WORKING_VALUES", "quantity", "by_name",
+    "SIMULATION_SETTINGS", "FLOOR_TABLE", "BAND_RESULTS", "LEVEL_RESULTS",
+    "DIRECTION_RESULTS", "PART_RESULTS", "OPTIONAL_TABLES", "ENVELOPE_INPUTS", "UNIT_KINDS", "WORKING_VALUES", "quantity", "by_name",
     "design_inputs", "design_results", "input_relation_errors", "design_signature",
 ]
 
@@ -64,7 +66,8 @@ OPTIONAL = _Marker("OPTIONAL")
 UNIT_KINDS: dict[str, str] = {
     "frequency": "Hz", "mass": "kg", "fraction": "-", "acceleration": "m/s^2", "length": "m",
     "angle": "deg", "stiffness": "N/m", "dashpot": "N s/m", "time": "s", "force": "N",
-    "count": "-", "choice": "", "flag": "",
+    "count": "-", "choice": "", "flag": "", "return_period": "years", "velocity": "m/s",
+    "energy": "J",
 }
 
 
@@ -231,16 +234,40 @@ DESIGN_INPUTS: tuple[Quantity, ...] = (
        description="Damping ratio of the mode without the damper",
        note="EN 1991-1-4 Table F.2 log decrement / (2 pi); measured values scatter widely, "
             "use a cautious value."),
-    _q("acceleration", "a", "Peak acceleration without damper", "m/s^2", "acceleration",
-       0.0, 10.0, low_open=True, fmt="0.00000", section="wind", summary=True,
-       description="Peak acceleration without the damper",
+    _q("floor_ordinate", "phi_occ", "Mode ordinate at the top occupied floor (damper = 1)", "-",
+       "fraction", 0.0, 2.0, low_open=True, default=1.0, fmt="0.0000", section="mode",
+       description="Mode-shape ordinate at the top occupied floor over that at the damper's "
+                   "level",
+       note="Accelerations and limits are at the top occupied floor, the damper's stroke at "
+            "its own level: phi_occ = phi(z_occupied) / phi(z_damper), e.g. (z_occ/z_d)^k for "
+            "the power-law mode of EN 1991-1-4 Annex F (F.3); 1 when the damper is at that "
+            "floor."),
+    _q("acceleration", "a", "Peak acceleration without damper (service level, top occupied "
+       "floor)", "m/s^2", "acceleration", 0.0, 10.0, low_open=True, fmt="0.00000",
+       section="wind", summary=True,
+       description="Peak acceleration without the damper at the service (comfort) level, top "
+                   "occupied floor",
        note="Wind-tunnel study or code calculation (EN 1991-1-4 Annex B/C) at the comfort "
-            "return period."),
-    _q("acceleration_limit", "a_lim", "Accepted peak acceleration", "m/s^2", "acceleration",
-       0.0, 10.0, low_open=True, fmt="0.00000", section="wind", summary=True,
-       description="Acceptable peak acceleration",
+            "return period, at the top occupied floor."),
+    _q("acceleration_limit", "a_lim", "Accepted peak acceleration (top occupied floor)",
+       "m/s^2", "acceleration", 0.0, 10.0, low_open=True, fmt="0.00000", section="wind",
+       summary=True, description="Acceptable peak acceleration at the top occupied floor",
        note="Comfort criterion agreed for the project (e.g. ISO 10137 Annex D; Melbourne & "
-            "Palmer 1992)."),
+            "Palmer 1992), at the top occupied floor."),
+    _q("extreme_acceleration", "a_x", "Peak acceleration without damper (extreme level, top "
+       "occupied floor)", "m/s^2", "acceleration", 0.0, 50.0, low_open=True,
+       default=OPTIONAL, fmt="0.00000", section="wind",
+       description="Peak acceleration without the damper at the extreme level (stroke, swing, "
+                   "buffers and forces are checked there), top occupied floor",
+       note="Wind-tunnel study or code calculation at the strength return period (e.g. 50 "
+            "years), top occupied floor; not below the service level."),
+    _q("return_period", "R", "Return period of the comfort criterion (Melbourne & Palmer)",
+       "years", "return_period", 0.1, 100.0, default=OPTIONAL, fmt="0.0", section="wind",
+       description="Return period R of the Melbourne & Palmer (1992) peak-acceleration "
+                   "criterion, shown beside the project's own limit",
+       note="Melbourne & Palmer, J. Wind Eng. Ind. Aerodyn. 41-44 (1992) 105-116: the "
+            "criterion at the mode's frequency for this return period; the accepted peak "
+            "acceleration above stays the design limit."),
     _q("damper_mass", "m_d", "Damper mass chosen (optional)", "kg", "mass", 0.0, 1e10,
        low_open=True, default=OPTIONAL, fmt="#,##0", defined_name="chosen_damper_mass",
        section="damper", description="Damper mass if chosen (else from the mass ratio)",
@@ -302,6 +329,41 @@ DESIGN_INPUTS: tuple[Quantity, ...] = (
        description="Damping ratio of the mode measured on the finished building",
        note="From the same test; left out, the design value is used. Give it only with the "
             "measured frequency."),
+    _q("frequency_2", "f_s2", "Direction 2: frequency of the mode", "Hz", "frequency", 0.01,
+       20.0, default=OPTIONAL, fmt="0.00000", section="direction_2", key="frequency",
+       description="Natural frequency of the second sway mode (the other horizontal direction)",
+       note="Modal analysis; the pendulum is cut for the main mode, so give as direction 2 the "
+            "direction whose damper frequency is the higher one (springs add to it)."),
+    _q("modal_mass_2", "M*_2", "Direction 2: generalised mass of the mode (damper = 1)", "kg",
+       "mass", 0.0, 1e11, low_open=True, default=OPTIONAL, fmt="#,##0",
+       section="direction_2", key="modal_mass",
+       description="Generalised mass of the second sway mode, normalised to 1 at the damper",
+       note="Modal analysis: sum of m_i phi_i^2 of the second mode, normalised to 1 at the "
+            "damper level."),
+    _q("structural_damping_2", "zeta_s2", "Direction 2: inherent damping", "-", "fraction",
+       0.0, 0.2, low_open=True, default=OPTIONAL, fmt="0.000000", section="direction_2",
+       key="structural_damping", description="Damping ratio of the second mode without the "
+                                            "damper",
+       note="As for the main mode: a cautious value."),
+    _q("acceleration_2", "a_2", "Direction 2: peak acceleration without damper (service "
+       "level, top occupied floor)", "m/s^2", "acceleration", 0.0, 10.0, low_open=True,
+       default=OPTIONAL, fmt="0.00000", section="direction_2", key="acceleration",
+       description="Peak acceleration without the damper in direction 2, service level, top "
+                   "occupied floor",
+       note="Wind-tunnel study or code calculation for the second direction, comfort return "
+            "period."),
+    _q("acceleration_limit_2", "a_lim2", "Direction 2: accepted peak acceleration (top "
+       "occupied floor)", "m/s^2", "acceleration", 0.0, 10.0, low_open=True,
+       default=OPTIONAL, fmt="0.00000", section="direction_2", key="acceleration_limit",
+       description="Acceptable peak acceleration in direction 2, top occupied floor",
+       note="Usually the main direction's comfort limit."),
+    _q("extreme_acceleration_2", "a_x2", "Direction 2: peak acceleration without damper "
+       "(extreme level, top occupied floor)", "m/s^2", "acceleration", 0.0, 50.0,
+       low_open=True, default=OPTIONAL, fmt="0.00000", section="direction_2",
+       key="extreme_acceleration",
+       description="Peak acceleration without the damper in direction 2 at the extreme level, "
+                   "top occupied floor",
+       note="Give it with the main direction's extreme acceleration."),
     _q("g", "g", "Acceleration of gravity", "m/s^2", "acceleration", 9.7, 9.9,
        default=STANDARD_GRAVITY, fmt="0.00000", defined_name="gravity", section="site",
        key="gravity", description="Acceleration of gravity at the site",
@@ -337,9 +399,10 @@ DESIGN_RESULTS: tuple[Quantity, ...] = (
        "acceleration", fmt="0.00000", summary=True,
        description="Peak acceleration with the damper, a sqrt(zeta_s/zeta_eff) (resonant "
                    "response)"),
-    _q("structure_displacement", "x_s", "Peak displacement of the structure", "m", "length",
-       fmt=_LENGTH_FMT, description="Peak displacement of the structure with the damper, "
-                                 "a_d/(2 pi f_s)^2"),
+    _q("structure_displacement", "x_s", "Peak displacement of the structure (damper level)",
+       "m", "length", fmt=_LENGTH_FMT,
+       description="Peak displacement of the structure with the damper at the damper's "
+                   "level, a_d/(phi_occ (2 pi f_s)^2)"),
     _q("stroke_ratio", "x_d/x_s", "Stroke ratio (RMS relative / RMS structure)", "-",
        "fraction", fmt="0.000",
        description="RMS damper displacement relative to the structure over RMS structure "
@@ -446,10 +509,130 @@ BAND_RESULTS: tuple[Quantity, ...] = (
        summary=True, description="Dashpot constant for the measured building, 2 m_d (2 pi f_d,ab) zeta_ab"),
 )
 
+_X = "Extreme level: "
+#: Results of the extreme level (``extreme_acceleration``) and of the comfort criterion
+#: (``return_period``): cells of the calculation only when those inputs are given.
+LEVEL_RESULTS: tuple[Quantity, ...] = (
+    _q("extreme_acceleration_with_damper", "a_x,d", "Extreme level: peak acceleration with "
+       "the damper (top occupied floor)", "m/s^2", "acceleration", fmt="0.00000",
+       description=_X + "peak acceleration with the damper, a_x sqrt(zeta_s/zeta_eff)"),
+    _q("extreme_displacement", "x_x", "Extreme level: peak displacement of the structure "
+       "(damper level)", "m", "length", fmt=_LENGTH_FMT,
+       description=_X + "peak displacement of the structure with the damper at the damper's "
+                        "level"),
+    _q("extreme_stroke", "x_d,x", "Extreme level: peak stroke of the damper (relative)", "m",
+       "length", fmt=_LENGTH_FMT, summary=True,
+       description=_X + "peak damper displacement relative to the structure"),
+    _q("extreme_swing_deg", "theta_x", "Extreme level: swing angle", "deg", "angle",
+       fmt="0.000", summary=True, description=_X + "swing angle, asin(x_d,x / L)"),
+    _q("extreme_small_angle_error", "e_x", "Extreme level: small-angle period error at that "
+       "swing", "-", "fraction", fmt="0.000000",
+       description=_X + "exact period over small-angle period minus 1 at the swing"),
+    _q("extreme_detuning", "df_x/f", "Extreme level: detuning against the tuned frequency", "-",
+       "fraction", fmt="0.000000", summary=True,
+       description=_X + "frequency at the extreme swing over the frequency at the design "
+                        "swing (in tune), minus 1"),
+    _q("buffer_excess", "dx_b", "Extreme level: stroke beyond the clearance (buffers)", "m",
+       "length", fmt=_LENGTH_FMT, summary=True,
+       description=_X + "stroke beyond the available clearance, taken by the buffers (0: no "
+                        "contact)"),
+    _q("contact_velocity", "v_b", "Extreme level: velocity at buffer contact", "m/s",
+       "velocity", fmt="0.0000",
+       description=_X + "relative velocity of the mass when it reaches the clearance, "
+                        "harmonic motion"),
+    _q("buffer_energy", "E_b", "Extreme level: energy the buffers must absorb", "J", "energy",
+       fmt="#,##0", summary=True, description=_X + "kinetic energy at contact, m_d v_b^2 / 2"),
+    _q("extreme_damper_force", "F_x", "Extreme level: peak force of the damper on the "
+       "structure", "N", "force", fmt="#,##0", summary=True,
+       description=_X + "peak horizontal force of spring and dashpot, harmonic motion"),
+    _q("comfort_limit_mp", "a_MP", "Melbourne & Palmer peak acceleration criterion", "m/s^2",
+       "acceleration", fmt="0.00000", summary=True,
+       description="Peak acceleration criterion of Melbourne & Palmer (1992) at the mode's "
+                   "frequency and the return period R"),
+)
+
+_D2 = "Direction 2: "
+#: Results of the second sway direction (``[direction_2]``): cells of the calculation only
+#: when its inputs are given. Those of the form ``<result>_2`` of a direction-1 result are
+#: declared from it (:func:`_second`).
+def _second(q: Quantity, summary: bool = False) -> Quantity:
+    """The direction-2 declaration of a direction-1 result or helper."""
+    return dataclasses.replace(
+        q, name=q.name + "_2", symbol=q.symbol + ",2", label=_D2 + q.label[0].lower()
+        + q.label[1:], description=_D2 + (q.description or q.label), defined_name="",
+        summary=summary)
+
+
+_RESULT = {q.name: q for q in DESIGN_RESULTS + HELPERS + LEVEL_RESULTS}
+DIRECTION_RESULTS: tuple[Quantity, ...] = (
+    _second(_RESULT["mass_ratio"], summary=True),
+    _second(_RESULT["required_damping"]),
+    _second(_RESULT["tuning_ratio"]),
+    _second(_RESULT["damper_damping"]),
+    _second(_RESULT["damper_frequency"], summary=True),
+    *(_second(_RESULT[n]) for n in ("var_w", "var_g", "var_x", "var_y", "var_t", "var_n",
+                                   "var_d")),
+    _second(_RESULT["effective_damping"]),
+    _second(_RESULT["acceleration_with_damper"], summary=True),
+    _second(_RESULT["structure_displacement"]),
+    _second(_RESULT["stroke_ratio"]),
+    _second(_RESULT["stroke"], summary=True),
+    _second(_RESULT["swing_angle_deg"]),
+    _q("spring_stiffness_2", "k_2", _D2 + "horizontal spring stiffness", "N/m", "stiffness",
+       fmt="#,##0", summary=True,
+       description=_D2 + "springs that lift the pendulum to f_d2, m_d (2 pi)^2 (f_d2^2 - "
+                         "f_d^2)"),
+    _second(_RESULT["stiffness"]),
+    _second(_RESULT["dashpot"], summary=True),
+    _q("small_swing_frequency_2", "f_2(0)", _D2 + "frequency of pendulum and springs, small "
+       "swings", "Hz", "frequency", fmt="0.00000",
+       description=_D2 + "sqrt(g/L + k_2/m_d) / (2 pi)"),
+    _q("frequency_at_swing_2", "f_2(theta)", _D2 + "frequency at its design swing (exact)",
+       "Hz", "frequency", fmt="0.00000",
+       description=_D2 + "exact frequency of the spring-stiffened pendulum at its swing"),
+    _q("detuning_2", "df_2/f_2", _D2 + "detuning at its swing (f(theta)/f(0) - 1)", "-",
+       "fraction", fmt="0.000000", summary=True,
+       description=_D2 + "frequency at its swing over the small-swing frequency, minus 1"),
+    _q("frequency_error_2", "e_f2", _D2 + "frequency at its swing against the target f_d2",
+       "-", "fraction", fmt="0.000000",
+       description=_D2 + "f_2(theta_2) / f_d2 - 1 (springs sized at direction 1's swing)"),
+    _q("required_mass_ratio_2", "mu_req2", _D2 + "mass ratio its limit alone needs", "-",
+       "fraction", fmt="0.000000",
+       description=_D2 + "least mass ratio whose damper meets direction 2's limit"),
+    _q("required_damper_mass_2", "m_req2", _D2 + "damper mass its limit alone needs", "kg",
+       "mass", fmt="#,##0", summary=True,
+       description=_D2 + "mu_req2 M*_2: raise the damper mass to it when direction 2 fails"),
+    _q("combined_stroke", "x_r", "Both directions: combined (SRSS) peak stroke", "m", "length",
+       fmt=_LENGTH_FMT, summary=True,
+       description="sqrt(x_d1^2 + x_d2^2): peaks of uncorrelated directions (common practice, "
+                   "no source)"),
+    _q("stroke_sum", "x_1+x_2", "Both directions: sum of the peak strokes (upper bound)", "m",
+       "length", fmt=_LENGTH_FMT,
+       description="x_d1 + x_d2: fully correlated peaks, an upper bound"),
+    _q("combined_swing_deg", "theta_r", "Both directions: combined swing angle", "deg",
+       "angle", fmt="0.000", summary=True, description="asin(x_r / L)"),
+    _second(_RESULT["extreme_acceleration_with_damper"]),
+    _second(_RESULT["extreme_displacement"]),
+    _second(_RESULT["extreme_stroke"], summary=True),
+    _q("extreme_combined_stroke", "x_r,x", "Extreme level, both directions: combined (SRSS) "
+       "peak stroke", "m", "length", fmt=_LENGTH_FMT, summary=True,
+       description="sqrt(x_d,x1^2 + x_d,x2^2) at the extreme level (common practice, no "
+                   "source)"),
+    _q("extreme_combined_swing_deg", "theta_r,x", "Extreme level, both directions: combined "
+       "swing angle", "deg", "angle", fmt="0.000", summary=True,
+       description="asin(x_r,x / L) at the extreme level"),
+    _second(_RESULT["extreme_damper_force"], summary=True),
+)
+
+#: Every result of the optional parts of the calculation.
+PART_RESULTS: tuple[Quantity, ...] = BAND_RESULTS + LEVEL_RESULTS + DIRECTION_RESULTS
+
 #: Defined names of the helpers that are working values only (the white-noise variance's
 #: terms): a workbook groups them on a page of their own.
 WORKING_VALUES: tuple[str, ...] = tuple(q.cell_name for q in HELPERS
                                         if q.description == _VARIANCE)
+# (and their direction-2 copies)
+WORKING_VALUES += tuple(name + "_2" for name in WORKING_VALUES)
 
 #: Settings of the optional time-domain check (project file table ``[simulation]``).
 SIMULATION_SETTINGS: tuple[Quantity, ...] = (
@@ -470,6 +653,10 @@ SIMULATION_SETTINGS: tuple[Quantity, ...] = (
        default=1.0, fmt="0.00", section="simulation",
        description="Force over the force that reproduces the wind input (2: a storm beyond "
                    "the design wind)"),
+    _q("level", "", "Wind level simulated", "", "choice", default="extreme",
+       choices=("extreme", "service"), section="simulation",
+       description="extreme (the extreme level's acceleration, when given; else the service "
+                   "level) or service"),
 )
 
 #: The modal mass from floor masses and a power-law mode shape (project table
@@ -486,11 +673,22 @@ FLOOR_TABLE: tuple[Quantity, ...] = (
                                           "the bottom (default: the top floor)"),
 )
 
+#: Inputs of the design envelope (occupied floor, extreme level, comfort criterion, frequency
+#: band, as-built values, second direction), added in swaytune 0.4: a spreadsheet function
+#: lists them after the others, so that positional arguments of existing sheets stay valid.
+ENVELOPE_INPUTS: tuple[str, ...] = (
+    "floor_ordinate", "extreme_acceleration", "return_period", "band_lower", "band_upper",
+    "response_exponent", "measured_frequency", "measured_damping", "frequency_2",
+    "modal_mass_2", "structural_damping_2", "acceleration_2", "acceleration_limit_2",
+    "extreme_acceleration_2")
+
 #: Project-file tables that are optional as a whole, with the inputs a given table must hold:
 #: an input of such a table that has a default takes it only when the table is given (else
 #: the workbook has no row for it).
 OPTIONAL_TABLES: dict[str, tuple[str, ...]] = {
-    "band": ("band_lower", "band_upper"), "as_built": ("measured_frequency",)}
+    "band": ("band_lower", "band_upper"), "as_built": ("measured_frequency",),
+    "direction_2": ("frequency_2", "modal_mass_2", "structural_damping_2", "acceleration_2",
+                    "acceleration_limit_2")}
 
 
 def by_name(group: Iterable[Quantity]) -> dict[str, Quantity]:
@@ -515,7 +713,7 @@ def quantity(name: str) -> Quantity:
     >>> quantity("structure_frequency").name, quantity("frequency").cell_name
     ('frequency', 'structure_frequency')
     """
-    for q in design_inputs() + design_results() + HELPERS + BAND_RESULTS:
+    for q in design_inputs() + design_results() + HELPERS + PART_RESULTS:
         if q.cell_name == name:
             return q
     for q in design_inputs():
@@ -563,6 +761,29 @@ def input_relation_errors(values: Mapping[str, Any]) -> list[tuple[str, str]]:
         errors.append(("measured_damping", f"measured_damping={values['measured_damping']!r} "
                                            "needs measured_frequency: give the measured "
                                            "frequency too"))
+    second = OPTIONAL_TABLES["direction_2"]
+    given = [n for n in second if values.get(n) is not None]
+    if given and len(given) < len(second):
+        missing = next(n for n in second if values.get(n) is None)
+        errors.append((missing, f"{missing} is missing: the second direction needs "
+                                f"{', '.join(second)}"))
+    for suffix in ("", "_2"):
+        x, a = values.get("extreme_acceleration" + suffix), values.get("acceleration" + suffix)
+        if x is not None and a is not None and x < a:
+            errors.append(("extreme_acceleration" + suffix,
+                           f"extreme_acceleration{suffix}={x!r} must not be below "
+                           f"acceleration{suffix}={a!r} [m/s^2] (the extreme level is the "
+                           "stronger wind)"))
+    if given and (values.get("extreme_acceleration") is None) != \
+            (values.get("extreme_acceleration_2") is None):
+        name = "extreme_acceleration_2" if values.get("extreme_acceleration") is not None \
+            else "extreme_acceleration"
+        errors.append((name, f"{name} is missing: with two directions give the extreme level "
+                             "in both or in neither"))
+    elif not given and values.get("extreme_acceleration_2") is not None:
+        errors.append(("extreme_acceleration_2", "extreme_acceleration_2="
+                       f"{values['extreme_acceleration_2']!r} needs the second direction "
+                       f"({', '.join(second)})"))
     lo, hi = values.get("mass_ratio_min"), values.get("mass_ratio_max")
     if lo is not None and hi is not None and not hi > lo:
         errors.append(("mass_ratio_max", f"mass_ratio_max={hi!r} must be above mass_ratio_min="

@@ -22,7 +22,7 @@ import re
 from dataclasses import dataclass
 from typing import Any, Callable
 
-__all__ = ["WorksheetForm", "twin", "formula_names", "form_of", "TWIN_TOLERANCE"]
+__all__ = ["WorksheetForm", "twin", "formula_names", "form_of", "renamed", "TWIN_TOLERANCE"]
 
 #: Largest relative difference accepted between a worksheet formula, as any spreadsheet
 #: application evaluates it, and its numpy twin [-]. The twins agree to about 1e-15 (the
@@ -48,6 +48,13 @@ class WorksheetForm:
     source: str = ""
 
 
+def _is_name(token: str) -> bool:
+    """True for a token of :data:`_TOKEN` that is a defined name."""
+    return not (token.startswith(('"', "$", "'")) or token[0].isdigit() or token[0] == "."
+                or token.endswith("!") or token.rstrip().endswith("(")
+                or token.upper() in ("TRUE", "FALSE") or _CELL.match(token))
+
+
 def formula_names(formula: str) -> tuple[str, ...]:
     """Defined names a worksheet formula reads, in order of first use.
 
@@ -60,14 +67,8 @@ def formula_names(formula: str) -> tuple[str, ...]:
     """
     names: list[str] = []
     for token in _TOKEN.findall(formula):
-        if token.startswith(('"', "$", "'")) or token[0].isdigit() or token[0] == "." or \
-                token.endswith("!"):
-            continue                                  # a text, a number, a sheet, a cell
-        if token.rstrip().endswith("("):
-            continue                                  # a worksheet function
-        if token.upper() in ("TRUE", "FALSE") or _CELL.match(token):
-            continue
-        if token not in names:
+        # texts, numbers, sheets, cells, worksheet functions and TRUE/FALSE are not names
+        if _is_name(token) and token not in names:
             names.append(token)
     return tuple(names)
 
@@ -112,6 +113,56 @@ def twin(formula: str, compute: Callable[..., Any], expression: str = "",
                         f"{sorted(params)}")
     compute.worksheet = WorksheetForm(formula, params, expression, source)  # type: ignore
     return compute
+
+
+def renamed(compute: Callable[..., Any], names: dict[str, str], expression: str = "",
+            source: str = "") -> Callable[..., Any]:
+    """The same closed form over other defined names (e.g. a second sway direction's cells).
+
+    Parameters
+    ----------
+    compute : callable
+        A function; a twin (:func:`twin`) keeps its worksheet formula, renamed too [-].
+    names : dict of str to str
+        Old defined name -> new one; names not in it stay [-].
+    expression : str, optional
+        The renamed form as an engineer writes it ('' keeps the twin's) [-].
+    source : str, optional
+        Where it comes from ('' keeps the twin's) [-].
+
+    Returns
+    -------
+    compute : callable
+        A function of the new names calling ``compute``; a twin when ``compute`` is one [-].
+
+    Raises
+    ------
+    TypeError
+        When a new name clashes with a name the formula keeps.
+
+    Examples
+    --------
+    >>> f = twin("=1/(1+mass_ratio)", lambda mass_ratio: 1.0 / (1.0 + mass_ratio))
+    >>> g = renamed(f, {"mass_ratio": "mass_ratio_2"})
+    >>> g.worksheet.formula, g(mass_ratio_2=0.25)
+    ('=1/(1+mass_ratio_2)', 0.8)
+    """
+    old = tuple(inspect.signature(compute).parameters)
+    new = tuple(names.get(p, p) for p in old)
+    if len(set(new)) != len(new):
+        raise TypeError(f"renaming {old} by {names} makes {new}: names clash")
+    back = dict(zip(new, old))
+
+    def call(**kwargs: Any) -> Any:
+        return compute(**{back[k]: v for k, v in kwargs.items()})
+    call.__signature__ = inspect.Signature(  # type: ignore[attr-defined]
+        [inspect.Parameter(p, inspect.Parameter.POSITIONAL_OR_KEYWORD) for p in new])
+    form = form_of(compute)
+    if form is None:
+        return call
+    formula = _TOKEN.sub(lambda m: names.get(m.group(0), m.group(0))
+                         if _is_name(m.group(0)) else m.group(0), form.formula)
+    return twin(formula, call, expression or form.expression, source or form.source)
 
 
 def form_of(compute: Callable[..., Any]) -> WorksheetForm | None:

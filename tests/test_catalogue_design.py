@@ -9,6 +9,7 @@ from __future__ import annotations
 import dataclasses
 
 from functions import catalogue, design, quantities, simulation
+from functions.quantities import ENVELOPE_INPUTS
 from functions.catalogue import design as sheet_design
 
 
@@ -47,3 +48,15 @@ def test_every_entry_is_in_the_catalogue():
     for fn in sheet_design.SIMULATION + sheet_design.DESIGN:
         assert catalogue.BY_NAME[fn.name] is fn
         assert fn.topic in ("simulation", "design")
+
+
+def test_sway_design_keeps_the_positional_arguments_of_earlier_sheets():
+    """The design envelope's inputs come after the arguments of swaytune 0.3, so a sheet that
+    passes them by position still means the same (our own rule)."""
+    from functions.catalogue import BY_NAME
+    names = [a.name for a in BY_NAME["SWAY_DESIGN"].arguments]
+    assert names[:14] == ["frequency", "modal_mass", "structural_damping", "acceleration",
+                          "acceleration_limit", "clearance", "damper_mass", "mass_ratio",
+                          "tuning_method", "max_swing_deg", "max_detuning", "mass_ratio_min",
+                          "mass_ratio_max", "g"]
+    assert names[14:] == list(ENVELOPE_INPUTS)

@@ -42,10 +42,14 @@ from scipy.integrate import solve_ivp
 from scipy.linalg import solve_continuous_lyapunov
 from scipy.special import ellipk
 
-from functions.design import design_damper
-from functions.directions import (DIRECTION_CHECK_RULES, DIRECTION_FORMS, DIRECTION_INPUTS,
-                                  SecondDirection, combined_stroke, design_second_direction,
+from functions.design import (PART_CHECK_RULES, SecondDirection, design_damper,
+                              design_second_direction)
+from functions.directions import (DIRECTION_FORMS, DIRECTION_INPUTS, combined_stroke,
                                   spring_pendulum_frequency, spring_stiffness)
+
+#: The checks of the second direction (service level).
+DIRECTION_CHECK_RULES = tuple(rule for parts, rule in PART_CHECK_RULES
+                              if parts == ("direction_2",))
 from functions.worksheet import TWIN_TOLERANCE, formula_names
 from workbook_builder.xlsx import gnumeric, libreoffice
 from workbook_builder.xlsx.formulas import Evaluator, check_formula
@@ -201,7 +205,7 @@ def test_identical_directions_give_direction_one_and_no_springs(extra):
         assert d.cells[f"{name}_2"] == pytest.approx(r.cells[name], rel=1e-12), name
     assert d.spring_stiffness_2 == 0.0
     assert d.dashpot_2 == pytest.approx(r.cells["dashpot"], rel=1e-12)
-    assert d.displacement_2 == pytest.approx(r.cells["structure_displacement"], rel=1e-12)
+    assert d.structure_displacement_2 == pytest.approx(r.cells["structure_displacement"], rel=1e-12)
     assert d.swing_angle_deg_2 == pytest.approx(r.cells["swing_angle_deg"], rel=1e-12)
     # no springs: the frequency at the design swing is the pendulum's, the detuning direction 1's
     assert d.frequency_at_swing_2 == pytest.approx(r.cells["damper_frequency"], rel=1e-12)
@@ -434,7 +438,8 @@ def test_formulas_read_design_cells_direction_inputs_or_earlier_forms():
     r, d = CASES[0]
     known = set(r.cells) | set(DIRECTION_INPUTS) | {
         "tuning_ratio_2", "damper_damping_2", "effective_damping_2", "stroke_ratio_2",
-        "frequency_at_swing_2", "required_mass_ratio_2"}     # the engine values
+        "frequency_at_swing_2", "required_mass_ratio_2",     # the engine values
+        "stroke_2"}               # the design chain's own stroke form, renamed for direction 2
     for name, form in DIRECTION_FORMS.items():
         assert set(form.worksheet.names) <= known, (name, set(form.worksheet.names) - known)
         known.add(name)

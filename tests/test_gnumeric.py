@@ -24,7 +24,7 @@ import pytest
 
 from functions.design import CHECK_RULES, check_rules
 from functions.damper import OPTIMAL_TUNING_METHODS
-from functions.quantities import BAND_RESULTS, DESIGN_RESULTS
+from functions.quantities import DESIGN_RESULTS, PART_RESULTS
 from workbook_builder.build import write_workbook
 from workbook_builder.plan.checks import check_name
 from workbook_builder.project import load_project, parse_project
@@ -74,7 +74,24 @@ GENERATED = (
        ("us_band_closed_form", {**_variant("G-16", "US", tuning_method="den_hartog",
                                            mass_ratio=0.03),
                                 "band": {"lower": 0.9, "upper": 1.15},
-                                "as_built": {"frequency": 0.21}})]
+                                "as_built": {"frequency": 0.21}}),
+       # every optional part: the extreme level, the comfort criterion, two directions
+       ("every_part", {**_variant("G-17", tuning_method="hinf"),
+                       "mode": {**DEN_HARTOG["mode"], "floor_ordinate": 0.93},
+                       "wind": {**DEN_HARTOG["wind"], "extreme_acceleration": 0.7,
+                                "return_period": 5},
+                       "band": {"lower": 0.9, "upper": 1.1},
+                       "as_built": {"frequency": 0.195},
+                       "direction_2": {"frequency": 0.23, "modal_mass": 8.5e6,
+                                       "structural_damping": 0.012, "acceleration": 0.22,
+                                       "acceleration_limit": 0.15,
+                                       "extreme_acceleration": 0.6}}),
+       ("us_two_directions", {**_variant("G-18", "US", tuning_method="den_hartog"),
+                              "direction_2": {"frequency": 0.21, "modal_mass": 18000,
+                                              "structural_damping": 0.01,
+                                              "acceleration": {"value": 22, "unit": "milli-g"},
+                                              "acceleration_limit": {"value": 15,
+                                                                     "unit": "milli-g"}}})]
 )
 
 
@@ -134,7 +151,7 @@ def test_every_formula_cell_equals_the_cached_value(recalculated, name):
 def test_results_and_verdicts_equal_the_engine(recalculated, name):
     built, _, out = recalculated[name]
     values = libreoffice.read_values(out)
-    for q in DESIGN_RESULTS + BAND_RESULTS:
+    for q in DESIGN_RESULTS + PART_RESULTS:
         if q.cell_name not in built.result.cells:      # an optional part not given
             continue
         got = values[built.names[q.cell_name]]
@@ -153,3 +170,4 @@ def test_the_generated_set_covers_failing_checks_and_every_method(recalculated):
     assert {recalculated[n][0].plan.options.units for n in ALL} == {"SI", "US"}
     parts = {recalculated[n][0].plan.options.parts for n in ALL}
     assert ("band", "as_built", "measured_damping") in parts and ("band", "as_built") in parts
+    assert ("band", "as_built", "extreme", "comfort", "direction_2") in parts

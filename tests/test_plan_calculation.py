@@ -61,7 +61,8 @@ def test_one_row_per_step_with_its_formula_or_engine_value(method, mode):
     working = [_row(c.ref) for s, c in pairs if s.name in WORKING_VALUES]
     assert main == sorted(set(main)), "one row per step, in the chain's order"
     # the working values (variance terms), in chain order, on a page of their own at the end
-    assert working == sorted(set(working)) and len(working) == len(WORKING_VALUES)
+    assert working == sorted(set(working)) and \
+        len(working) == len([n for n in WORKING_VALUES if not n.endswith("_2")])
     assert min(working) > max(main) and sheet.row_breaks == [min(working) - 2]
     for step, cell in pairs:
         q = quantity(step.name)

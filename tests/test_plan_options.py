@@ -87,8 +87,9 @@ def test_json_keeps_lists_as_tuples_and_the_simulation_sizes():
 
 def test_options_for_a_project_with_a_chosen_mass_ratio():
     o = options_for(_project())
-    assert o.inputs == ("frequency", "modal_mass", "structural_damping", "acceleration",
-                        "acceleration_limit", "mass_ratio", "clearance") + DEFAULTED
+    assert o.inputs == ("frequency", "modal_mass", "structural_damping", "floor_ordinate",
+                        "acceleration", "acceleration_limit", "mass_ratio", "clearance") + \
+        DEFAULTED
     assert (o.units, o.paper, o.tuning_method, o.mass_ratio_mode) == (
         "SI", "A4", "h2", "chosen_mass_ratio")
     assert (o.floors, o.template, o.simulation, o.version) == (0, False, None, PLAN_VERSION)

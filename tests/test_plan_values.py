@@ -127,7 +127,7 @@ def test_inputs_are_shown_as_entered_with_unit_factor_and_range(si):
                      "acceleration": "(0, 1019.72]"}
     notes = [v for (sheet, ref), v in values.items() if sheet == "Inputs" and ref[0] == "I"
              and isinstance(v, str) and v.endswith("(default)")]
-    assert len(notes) == 5            # max swing, max detuning, practical mass ratios, g
+    assert len(notes) == 6    # floor ordinate, max swing, max detuning, practical mass ratios, g
 
 
 def test_texts_and_record_come_from_the_project(si, us_floors):

@@ -125,7 +125,7 @@ def test_simulation_settings_defaults_are_the_declarations():
     declared = {q.name: q.default for q in SIMULATION_SETTINGS}
     assert dataclasses.asdict(SimulationSettings()) == declared
     assert declared == {"enabled": True, "load": "random", "duration": 600.0, "seed": 1,
-                        "tolerance": 0.05, "load_factor": 1.0}
+                        "tolerance": 0.05, "load_factor": 1.0, "level": "extreme"}
 
 
 @pytest.mark.parametrize("settings", [

@@ -53,6 +53,10 @@ def _case(q, v) -> dict:
     values.update({"band_lower": {"band_upper": 1.5}, "band_upper": {"band_lower": 0.5},
                    "response_exponent": {"band_lower": 0.9, "band_upper": 1.1},
                    "measured_damping": {"measured_frequency": 0.2}}.get(q.name, {}))
+    second = {"frequency_2": 0.25, "modal_mass_2": 9e6, "structural_damping_2": 0.01,
+              "acceleration_2": 0.2, "acceleration_limit_2": 0.15}
+    if q.name in second or q.name == "extreme_acceleration_2":
+        values.update(second, extreme_acceleration=10.0, extreme_acceleration_2=10.0)
     values[q.name] = v
     return values
 

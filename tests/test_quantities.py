@@ -55,9 +55,9 @@ def test_every_quantity_is_fully_declared(q):
 def test_inputs_are_placed_in_the_project_file():
     keys = [q.file_key for q in DESIGN_INPUTS]
     assert len(keys) == len(set(keys))
-    assert all(q.section in ("mode", "wind", "damper", "band", "as_built", "site")
-               for q in DESIGN_INPUTS)
-    assert set(qs.OPTIONAL_TABLES) == {"band", "as_built"}
+    assert all(q.section in ("mode", "wind", "damper", "band", "as_built", "direction_2",
+                             "site") for q in DESIGN_INPUTS)
+    assert set(qs.OPTIONAL_TABLES) == {"band", "as_built", "direction_2"}
     assert qs.by_name(DESIGN_INPUTS)["tuning_method"].choices == OPTIMAL_TUNING_METHODS
 
 

@@ -17,7 +17,8 @@ from functions.design import DesignInputs, DesignResult, design_damper
 from .plan.charts import ChartTable, swing_window_table, time_history_table
 from .project import Project
 
-__all__ = ["run_design", "run_simulation", "SimulationRun"]
+__all__ = ["run_design", "run_simulation", "SimulationRun", "simulated_level",
+           "simulated_acceleration"]
 
 
 def _prefix(project: Project) -> str:
@@ -63,6 +64,24 @@ class SimulationRun:
     result: Any
     time_table: ChartTable
     window_table: ChartTable
+    #: The wind level simulated (``extreme`` or ``service``) and the peak acceleration without
+    #: the damper at the damper's level the load reproduces (before the load factor) [m/s^2].
+    level: str = "service"
+    level_acceleration: float = 0.0
+
+
+def simulated_level(settings: Any, inputs: Any) -> str:
+    """The wind level the time-domain check runs at: ``extreme`` when asked for (the default)
+    and the project gives the extreme level, else ``service``."""
+    extreme = getattr(settings, "level", "extreme") == "extreme"
+    return "extreme" if extreme and inputs.extreme_acceleration is not None else "service"
+
+
+def simulated_acceleration(settings: Any, inputs: Any) -> float:
+    """Peak acceleration without the damper (top occupied floor) of the simulated level
+    [m/s^2]."""
+    return float(inputs.extreme_acceleration if simulated_level(settings, inputs) == "extreme"
+                 else inputs.acceleration)
 
 
 def run_simulation(project: Project, result: DesignResult) -> SimulationRun:
@@ -73,6 +92,9 @@ def run_simulation(project: Project, result: DesignResult) -> SimulationRun:
     load that gives the building WITHOUT the damper the input peak acceleration times the load
     factor (``functions.simulation.calibrated_load``: a random force, expected peak over
     :data:`functions.simulation.PEAK_DURATION`, or a harmonic force at the mode's frequency).
+    The input is that of the wind level ``[simulation] level`` (:func:`simulated_level`: the
+    extreme level by default, when the project gives it), converted from the top occupied floor
+    to the damper's level (divided by ``floor_ordinate``: the modal model is normalised there).
 
     Raises
     ------
@@ -89,10 +111,12 @@ def run_simulation(project: Project, result: DesignResult) -> SimulationRun:
         raise ValueError(f"{project.source_name}: the project does not ask for a simulation")
     i = result.inputs
     M, fs, zs, g = i.modal_mass, i.frequency, i.structural_damping, i.g
+    # the modal model is normalised at the damper: its acceleration there is a / phi_occ
+    level = simulated_acceleration(settings, i) / i.floor_ordinate
     md, L = float(result.damper_mass), float(result.pendulum_length)
     try:
         zd = hanger_damping(float(result.damper_damping), float(result.damper_frequency), L, g)
-        load, force, gp = calibrated_load(i.acceleration * settings.load_factor, M, fs, zs,
+        load, force, gp = calibrated_load(level * settings.load_factor, M, fs, zs,
                                           settings.load, PEAK_DURATION, settings.seed)
         sim = simulate(M, fs, zs, md, L, zd, load, settings.duration,
                        tolerance=settings.tolerance, g=g)
@@ -100,4 +124,4 @@ def run_simulation(project: Project, result: DesignResult) -> SimulationRun:
     except ValueError as exc:
         raise ValueError(f"{_prefix(project)}the simulation cannot be run: {exc}") from exc
     return SimulationRun(settings, load, float(force), fs, gp, L, md, sim.damper_frequency, zd,
-                         sim, *tables)
+                         sim, *tables, simulated_level(settings, i), level)

@@ -77,7 +77,7 @@ COVERED_ELSEWHERE: dict[str, str] = {
     "functions.simulation.calibrated_load":
         "returns a load object for simulate (the workbook builder's Nonlinear sheet); "
         "SWAY_RANDOM_RESPONSE_THEORY and SWAY_PEAK_FACTOR give its numbers in cells",
-    "functions.directions.design_second_direction":
+    "functions.design.design_second_direction":
         "takes direction 1's DesignResult and returns an object; in a sheet, SWAY_DESIGN gives "
         "direction 1 and SWAY_SPRING_STIFFNESS, SWAY_COMBINED_STROKE with the one-direction "
         "functions (SWAY_OPTIMAL_TUNING_RATIO, SWAY_EFFECTIVE_DAMPING, ...) give direction 2",

@@ -127,8 +127,10 @@ def _design_arguments() -> tuple[Argument, ...]:
         args.append(Argument(q.name, q.help_text(), q.unit or "-", default=default,
                              kind=TEXT if q.kind == "choice" else NUMBER, choices=q.choices,
                              fraction=q.kind == "fraction" and q.high <= 1.0))
-    # required first (a worksheet function lists them before the optional ones)
-    return tuple(sorted(args, key=lambda a: a.optional))
+    # required first (a worksheet function lists them before the optional ones), the design
+    # envelope's inputs last (positional arguments of sheets made before them stay valid)
+    return tuple(sorted(args, key=lambda a: (a.optional,
+                                             a.name in quantities.ENVELOPE_INPUTS)))
 
 
 def design_sheet_functions() -> tuple[SheetFunction, ...]:

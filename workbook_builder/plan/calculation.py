@@ -27,6 +27,7 @@ UNIT_FORMATS = {
     "kip": "#,##0.0", "kip (weight)": "#,##0.0", "kip s^2/ft": "#,##0.00", "mm": "0.0",
     "ft": "0.000", "in": "0.00", "ft/s^2": "0.0000", "milli-g": "0.00", "%": "0.000",
     "kip/ft": "#,##0.00", "kip s/ft": "#,##0.00", "s": "0.0", "N": "#,##0",
+    "m/s": "0.0000", "ft/s": "0.0000", "J": "#,##0", "kip ft": "#,##0.0", "years": "0.0",
 }
 
 #: The question an engine-value flag answers ("current" or "INPUTS CHANGED: rebuild").
@@ -99,6 +100,10 @@ FLAG_GUARDS = {
     "engine_flag_band_mass": "mass ratio for the band",
     "engine_flag_robust": "robust tuning", "engine_flag_robust_worst":
         "worst case of the robust tuning", "engine_flag_as_built": "as-built tuning optimum",
+    "engine_flag_tuning_2": "direction 2 tuning optimum",
+    "engine_flag_spring_2": "direction 2 frequency at its swing",
+    "engine_flag_frequency_error_2": "direction 2 frequency error at its swing",
+    "engine_flag_mass_ratio_2": "direction 2 required mass ratio",
 }
 
 

@@ -11,7 +11,7 @@ from __future__ import annotations
 
 from functions.chain import steps
 from functions.design import check_rules
-from functions.quantities import BAND_RESULTS, design_results, quantity
+from functions.quantities import PART_RESULTS, design_results, quantity
 from functions.worksheet import TWIN_TOLERANCE
 
 from ..project.units import us_display
@@ -45,7 +45,7 @@ NONLINEAR_CHECKS = (
 
 
 #: Results of the optional parts of the calculation (their formulas are cross-checked too).
-_PART_RESULTS = frozenset(q.cell_name for q in BAND_RESULTS)
+_PART_RESULTS = frozenset(q.cell_name for q in PART_RESULTS)
 
 
 def check_name(rule_name: str) -> str:

@@ -41,7 +41,7 @@ def make_plan(options: PlanOptions) -> Plan:
     """
     plan = Plan(options)
     layouts = [summary_sheet(options), inputs_sheet(options), calculation_sheet(options),
-               pendulum_sheet(), checks_sheet(options), charts_sheet(options)]
+               pendulum_sheet("extreme" in options.parts), checks_sheet(options), charts_sheet(options)]
     if "band" in options.parts:
         layouts.append(band_sheet(options))
     if options.simulation is not None:

@@ -43,7 +43,10 @@ RESPONSE_ROWS = (
 
 def simulation_dependencies(options: PlanOptions) -> tuple[str, ...]:
     """Inputs the simulation depends on (through the design and the load calibration)."""
-    deps = ["structure_frequency", "modal_mass", "structural_damping", "acceleration"]
+    deps = ["structure_frequency", "modal_mass", "structural_damping", "acceleration",
+            "floor_ordinate"]
+    if "extreme" in options.parts:          # the load of the extreme level (the default)
+        deps.append("extreme_acceleration")
     if options.mass_ratio_mode == "required":
         deps.append("acceleration_limit")
     elif options.mass_ratio_mode == "chosen_mass_ratio":

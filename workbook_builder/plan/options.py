@@ -14,7 +14,7 @@ import json
 from dataclasses import asdict, dataclass, fields
 from typing import Any
 
-from functions.chain import MASS_RATIO_MODES, PART_SETS, mass_ratio_mode, parts_of
+from functions.chain import MASS_RATIO_MODES, mass_ratio_mode, parts_of, valid_parts
 from functions.damper import OPTIMAL_TUNING_METHODS
 from functions.quantities import design_inputs
 
@@ -69,8 +69,9 @@ class PlanOptions:
         if self.mass_ratio_mode not in MASS_RATIO_MODES:
             raise ValueError(f"mass_ratio_mode={self.mass_ratio_mode!r} must be one of "
                              f"{', '.join(MASS_RATIO_MODES)}")
-        if self.parts not in PART_SETS:
-            raise ValueError(f"parts={self.parts!r} must be one of {PART_SETS}")
+        if not valid_parts(self.parts):
+            raise ValueError(f"parts={self.parts!r} must be optional parts of the calculation "
+                             "(functions.chain.PARTS, in that order)")
         if self.units not in OPTION_KEYS["units"] or self.paper not in OPTION_KEYS["paper"]:
             raise ValueError(f"units={self.units!r} and paper={self.paper!r} must be SI or US "
                              "and A4 or Letter")

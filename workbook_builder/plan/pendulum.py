@@ -62,12 +62,15 @@ def _agm_row(sh: SheetLayout, r: int, theta: str, name: str = "") -> str:
         a_prev, b_prev = f"{a_col}{r}", f"{b_col}{r}"
         col += 2
     sh.formula(r, col, f"=({a_prev}+{b_prev})/2", fmt="0.00000000", style="box", name=name,
-               label="AGM(1, cos(theta/2)) at the design swing" if name else "")
+               label=("AGM(1, cos(theta/2)) at the " + ("extreme level's swing" if "extreme"
+                                                         in name else "design swing"))
+               if name else "")
     return get_column_letter(col)
 
 
-def pendulum_sheet() -> SheetLayout:
-    """The Pendulum sheet (the same for every design)."""
+def pendulum_sheet(extreme: bool = False) -> SheetLayout:
+    """The Pendulum sheet (the same for every design; with ``extreme``, the AGM at the extreme
+    level's swing too)."""
     sh = SheetLayout("Pendulum")
     sh.label(1, 1, "Pendulum length in tune at its own design swing", Looks.TITLE)
     sh.label(2, 1, "Root of h(L) = G(L) - L, G(L) = L_0 AGM(1, cos(theta/2))^2, theta = "
@@ -113,14 +116,24 @@ def pendulum_sheet() -> SheetLayout:
                    style="box", name="fixed_point_change" if last else "", unit="-",
                    label="Relative change of the length in the last iteration")
     r = first + FIXED_POINT_ITERATIONS + 1
-    sh.label(r, 1, "At the design swing theta = swing_angle_deg (Calculation 5.3):", Looks.BOLD)
+    sh.label(r, 1, "At the design swing theta = swing_angle_deg (Calculation 5.3)" + (
+        " and at the extreme level's swing theta_x = extreme_swing_deg:" if extreme else ":"),
+        Looks.BOLD)
     r += 1
     sh.label(r, 1, "final", "box")
     sh.formula(r, 2, "=pendulum_length", fmt=_LENGTH_FMT, style="box")
     sh.formula(r, 3, "=swing_angle_deg", fmt="0.0000", style="box")
     _agm_row(sh, r, f"C{r}", name="agm_at_swing")
+    if extreme:
+        r += 1
+        sh.label(r, 1, "extreme", "box")
+        sh.formula(r, 2, "=pendulum_length", fmt=_LENGTH_FMT, style="box")
+        sh.formula(r, 3, "=extreme_swing_deg", fmt="0.0000", style="box")
+        _agm_row(sh, r, f"C{r}", name="agm_at_extreme_swing")
     sh.label(r + 2, 1, "Small-angle error e = 1/AGM - 1 and detuning -e/(1 + e) are on the "
-                       "Calculation sheet (section 5).")
+                       "Calculation sheet (section 5" + (", and at the extreme swing in the "
+                                                         "extreme level's section)" if extreme
+                                                         else ")."))
     sh.widths([5, 10, 9, 10] + [10] * (2 * AGM_STEPS) + [11, 10, 8, 10, 12])
     sh.page(landscape=True, title_rows="1:4", freeze="B5")
     return sh

@@ -14,7 +14,7 @@ from __future__ import annotations
 
 from functions.chain import steps
 from functions.design import CheckRule, check_rules
-from functions.quantities import BAND_RESULTS, Quantity, design_inputs, design_results, quantity
+from functions.quantities import PART_RESULTS, Quantity, design_inputs, design_results, quantity
 from functions.worksheet import formula_names
 
 from ..project.units import us_display
@@ -85,7 +85,7 @@ def key_results(options: PlanOptions | None = None) -> list[str]:
 
 
 #: Key results of the optional parts of the calculation.
-_PART_KEY_RESULTS = frozenset(q.cell_name for q in BAND_RESULTS if q.summary)
+_PART_KEY_RESULTS = frozenset(q.cell_name for q in PART_RESULTS if q.summary)
 
 
 def _rule_of(name: str, parts: tuple[str, ...] = ()) -> CheckRule | None:

@@ -69,7 +69,9 @@ def _simulation(run: Any, key: str) -> Any:
         "substeps_note": f"{sim.substeps} Runge-Kutta steps per output step",
         "load_description": (f"white noise through a low-pass filter (corner at the mode's "
                              f"frequency), seed {st.seed}" if st.load == "random" else
-                             "sine at the mode's frequency (resonance of the bare building)"),
+                             "sine at the mode's frequency (resonance of the bare building)")
+        + f"; {run.level} wind level: {run.level_acceleration:.5g} m/s^2 peak without the "
+          "damper at the damper's level (top occupied floor / phi_occ), times the load factor",
     }
     if theory is not None:
         values.update(theory_acceleration_rms=theory.acceleration_rms,

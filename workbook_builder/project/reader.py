@@ -381,7 +381,7 @@ def parse_project(data: dict, *, source: str = "<project>", text: str = "",
             continue                       # an optional table not given: no row, no default
         elif q.name in OPTIONAL_TABLES.get(q.section, ()):
             raise ctx.error(key, f"is missing: a [{q.section}] table needs "
-                                 + " and ".join(input_quantity_key(n).split(".", 1)[1]
+                                 + ", ".join(input_quantity_key(n).split(".", 1)[1]
                                                 for n in OPTIONAL_TABLES[q.section]))
         elif q.has_default:
             inputs[q.name] = _default(q, system)

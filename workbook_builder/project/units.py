@@ -73,6 +73,7 @@ UNITS: dict[str, dict[str, Unit]] = {
     "angle": {"deg": Unit("deg", 1.0, "degree (the engine's angle unit)")},
     "time": {"s": Unit("s", 1.0, "SI unit")},
     "count": {"-": Unit("-", 1.0, "a whole number")},
+    "return_period": {"years": Unit("years", 1.0, "return period of a wind criterion")},
 }
 
 #: The SI (engine) unit of each kind (the first of its units; the same as the engine's
@@ -83,9 +84,11 @@ SI_UNIT = {kind: next(iter(units)) for kind, units in UNITS.items()}
 #: Unit a bare number in a project file is read in, per unit system and kind.
 DEFAULT_UNITS: dict[str, dict[str, str]] = {
     "SI": {"frequency": "Hz", "mass": "kg", "fraction": "-", "acceleration": "m/s^2",
-           "length": "m", "angle": "deg", "time": "s", "count": "-"},
+           "length": "m", "angle": "deg", "time": "s", "count": "-",
+           "return_period": "years"},
     "US": {"frequency": "Hz", "mass": "kip", "fraction": "-", "acceleration": "ft/s^2",
-           "length": "ft", "angle": "deg", "time": "s", "count": "-"},
+           "length": "ft", "angle": "deg", "time": "s", "count": "-",
+           "return_period": "years"},
 }
 
 
@@ -119,6 +122,8 @@ US_DISPLAY: dict[str, tuple[str, float]] = {
     "N/m": ("kip/ft", 1000.0 * POUND_FORCE / FOOT),
     "N s/m": ("kip s/ft", 1000.0 * POUND_FORCE / FOOT),
     "N": ("kip", 1000.0 * POUND_FORCE),
+    "m/s": ("ft/s", FOOT),
+    "J": ("kip ft", 1000.0 * POUND_FORCE * FOOT),
 }
 
 #: Unit text of a mass shown in kip: it is the weight under standard gravity.
