@@ -391,11 +391,13 @@ def _extreme_section() -> Section:
              small_angle_error(extreme_swing_deg), "T / T_0 - 1 at theta_x (as step 5.4)",
              "A&S 17.6 (AGM at the extreme swing, Pendulum sheet); series below 0.1 rad",
              error),
-        _step("extreme_detuning", "=(1+small_angle_error)/(1+extreme_small_angle_error)-1",
+        _step("extreme_detuning", "=(small_angle_error-extreme_small_angle_error)"
+                                  "/(1+extreme_small_angle_error)",
               lambda small_angle_error, extreme_small_angle_error:
-              (1.0 + small_angle_error) / (1.0 + extreme_small_angle_error) - 1.0,
-              "(1 + e) / (1 + e_x) - 1", "Frequency ratio = period ratio^-1; in tune at the "
-                                          "design swing"),
+              (small_angle_error - extreme_small_angle_error)
+              / (1.0 + extreme_small_angle_error),
+              "(1 + e) / (1 + e_x) - 1 = (e - e_x) / (1 + e_x)",
+              "Frequency ratio = period ratio^-1; in tune at the design swing"),
         *(_as_step(name, f[name]) for name in ("buffer_excess", "contact_velocity",
                                                "buffer_energy", "extreme_damper_force")),
     ), "The wind of the strength check (extreme_acceleration) on the same linear system: every "
@@ -507,7 +509,13 @@ def _second_direction_section(method: str, core: tuple[Section, ...]) -> Section
         _engine("frequency_at_swing_2", at_swing, "exact period of pendulum and springs",
                 "functions.directions.spring_pendulum_frequency (complete elliptic integral)",
                 "engine_flag_spring_2"),
-        _as_step("detuning_2", d["detuning_2"]),
+        _engine("detuning_2", lambda pendulum_length, spring_stiffness_2, damper_mass,
+                swing_angle_deg_2, gravity: at_swing(pendulum_length, spring_stiffness_2,
+                                                     damper_mass, swing_angle_deg_2, gravity)
+                / at_swing(pendulum_length, spring_stiffness_2, damper_mass, 0.0, gravity) - 1.0,
+                "f_2(theta_2) / f_2(0) - 1",
+                "functions.directions.spring_pendulum_frequency (exact); an engine value: a "
+                "small difference", "engine_flag_spring_2"),
         _engine("frequency_error_2", lambda frequency_at_swing_2, damper_frequency_2:
                 frequency_at_swing_2 / damper_frequency_2 - 1.0, "f_2(theta_2) / f_d2 - 1",
                 "Off the target at direction 2's own swing (springs sized at direction 1's); "
@@ -545,9 +553,28 @@ def _second_extreme_section() -> Section:
               lambda extreme_combined_stroke, pendulum_length:
               np.degrees(np.arcsin(np.minimum(1.0, extreme_combined_stroke / pendulum_length))),
               "asin(x_r,x / L)", "Plane trigonometry (90 deg: the stroke reaches L)"),
+        _step("combined_buffer_excess", "=MAX(0,extreme_combined_stroke-clearance)",
+              lambda extreme_combined_stroke, clearance:
+              np.maximum(0.0, extreme_combined_stroke - clearance), "max(0, x_r,x - c)",
+              "Geometry"),
+        _step("combined_contact_velocity", "=2*PI()*MAX(structure_frequency,frequency_2)"
+                                           "*SQRT(MAX(0,(extreme_combined_stroke-clearance)"
+                                           "*(extreme_combined_stroke+clearance)))",
+              lambda structure_frequency, frequency_2, extreme_combined_stroke, clearance:
+              _TWO_PI * np.maximum(structure_frequency, frequency_2) * np.sqrt(np.maximum(
+                  0.0, (extreme_combined_stroke - clearance)
+                  * (extreme_combined_stroke + clearance))),
+              "2 pi max(f_s, f_s2) sqrt(x_r,x^2 - c^2)",
+              "Harmonic motion of the SRSS amplitude at the higher mode frequency "
+              "(conservative; common practice, no source)"),
+        _step("combined_buffer_energy", "=damper_mass*combined_contact_velocity^2/2",
+              lambda damper_mass, combined_contact_velocity:
+              damper_mass * combined_contact_velocity ** 2 / 2.0, "m_d v_r^2 / 2",
+              "Kinetic energy at contact"),
         steps_2[3],
     ), "Direction 2's response at the extreme level scales with its own extreme input; the "
-       "radial stroke of both directions (SRSS) governs the clearance.")
+       "radial stroke of both directions (SRSS) governs the clearance, and the buffers take "
+       "its excess.")
 
 
 def _as_step(name: str, form: Callable[..., Any]) -> Step:

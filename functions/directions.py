@@ -325,11 +325,6 @@ DIRECTION_FORMS: dict[str, Callable[..., Any]] = {
         lambda gravity, pendulum_length, spring_stiffness_2, damper_mass:
         np.sqrt(gravity / pendulum_length + spring_stiffness_2 / damper_mass) / _TWO_PI,
         "sqrt(g / L + k_2 / m_d) / (2 pi)", "Textbook, small swing"),
-    "detuning_2": _form(
-        "=frequency_at_swing_2/small_swing_frequency_2-1",
-        lambda frequency_at_swing_2, small_swing_frequency_2:
-        frequency_at_swing_2 / small_swing_frequency_2 - 1.0, "f_2(theta_2) / f_2(0) - 1",
-        "functions.directions.spring_pendulum_frequency (exact)"),
     "required_damper_mass_2": _form(
         "=required_mass_ratio_2*modal_mass_2", lambda required_mass_ratio_2, modal_mass_2:
         required_mass_ratio_2 * modal_mass_2, "mu_req2 M*_2"),

@@ -32,9 +32,10 @@ import dataclasses
 import inspect
 import math
 from dataclasses import dataclass
-from typing import Any, Iterable, Mapping
+from typing import Any, Iterable
 
 from functions._validation import check_range, interval_text
+from functions.relations import ENVELOPE_INPUTS, OPTIONAL_TABLES, input_relation_errors
 from functions.damper import OPTIMAL_TUNING_METHODS
 from functions.pendulum import STANDARD_GRAVITY
 
@@ -395,11 +396,13 @@ DESIGN_RESULTS: tuple[Quantity, ...] = (
        "-", "fraction", fmt="0.000000", summary=True,
        description="Total damping of the structure with its damper, equivalent in "
                    "displacement variance under white-noise force"),
-    _q("acceleration_with_damper", "a_d", "Peak acceleration with the damper", "m/s^2",
+    _q("acceleration_with_damper", "a_d", "Peak acceleration with the damper (service level, "
+       "top occupied floor)", "m/s^2",
        "acceleration", fmt="0.00000", summary=True,
        description="Peak acceleration with the damper, a sqrt(zeta_s/zeta_eff) (resonant "
                    "response)"),
-    _q("structure_displacement", "x_s", "Peak displacement of the structure (damper level)",
+    _q("structure_displacement", "x_s", "Peak displacement of the structure (service level, "
+       "damper level)",
        "m", "length", fmt=_LENGTH_FMT,
        description="Peak displacement of the structure with the damper at the damper's "
                    "level, a_d/(phi_occ (2 pi f_s)^2)"),
@@ -407,11 +410,13 @@ DESIGN_RESULTS: tuple[Quantity, ...] = (
        "fraction", fmt="0.000",
        description="RMS damper displacement relative to the structure over RMS structure "
                    "displacement"),
-    _q("stroke", "x_d", "Peak stroke of the damper (relative)", "m", "length", fmt=_LENGTH_FMT,
+    _q("stroke", "x_d", "Peak stroke of the damper (relative, service level)", "m", "length",
+       fmt=_LENGTH_FMT,
        summary=True, description="Peak damper displacement relative to the structure"),
     _q("pendulum_length", "L", "Pendulum length in tune at the design swing", "m", "length",
        fmt=_LENGTH_FMT, summary=True, description="Pendulum length in tune at its design swing"),
-    _q("swing_angle_deg", "theta", "Swing angle at the design stroke", "deg", "angle",
+    _q("swing_angle_deg", "theta", "Swing angle at the design stroke (service level)", "deg",
+       "angle",
        fmt="0.000", summary=True, description="Design swing angle, asin(x_d/L)"),
     _q("small_angle_error", "e", "Small-angle period error at that swing", "-", "fraction",
        fmt="0.000000", description="Exact period over small-angle period minus 1 at the "
@@ -576,7 +581,7 @@ DIRECTION_RESULTS: tuple[Quantity, ...] = (
     _second(_RESULT["acceleration_with_damper"], summary=True),
     _second(_RESULT["structure_displacement"]),
     _second(_RESULT["stroke_ratio"]),
-    _second(_RESULT["stroke"], summary=True),
+    _second(_RESULT["stroke"]),
     _second(_RESULT["swing_angle_deg"]),
     _q("spring_stiffness_2", "k_2", _D2 + "horizontal spring stiffness", "N/m", "stiffness",
        fmt="#,##0", summary=True,
@@ -613,7 +618,7 @@ DIRECTION_RESULTS: tuple[Quantity, ...] = (
        "angle", fmt="0.000", summary=True, description="asin(x_r / L)"),
     _second(_RESULT["extreme_acceleration_with_damper"]),
     _second(_RESULT["extreme_displacement"]),
-    _second(_RESULT["extreme_stroke"], summary=True),
+    _second(_RESULT["extreme_stroke"]),
     _q("extreme_combined_stroke", "x_r,x", "Extreme level, both directions: combined (SRSS) "
        "peak stroke", "m", "length", fmt=_LENGTH_FMT, summary=True,
        description="sqrt(x_d,x1^2 + x_d,x2^2) at the extreme level (common practice, no "
@@ -621,7 +626,17 @@ DIRECTION_RESULTS: tuple[Quantity, ...] = (
     _q("extreme_combined_swing_deg", "theta_r,x", "Extreme level, both directions: combined "
        "swing angle", "deg", "angle", fmt="0.000", summary=True,
        description="asin(x_r,x / L) at the extreme level"),
-    _second(_RESULT["extreme_damper_force"], summary=True),
+    _q("combined_buffer_excess", "dx_b,r", "Extreme level, both directions: stroke beyond "
+       "the clearance (buffers)", "m", "length", fmt=_LENGTH_FMT, summary=True,
+       description="Combined stroke beyond the available clearance, taken by the buffers"),
+    _q("combined_contact_velocity", "v_b,r", "Extreme level, both directions: velocity at "
+       "buffer contact", "m/s", "velocity", fmt="0.0000",
+       description="Velocity at contact of the SRSS amplitude, harmonic at the higher mode "
+                   "frequency (conservative)"),
+    _q("combined_buffer_energy", "E_b,r", "Extreme level, both directions: energy the "
+       "buffers must absorb", "J", "energy", fmt="#,##0", summary=True,
+       description="Kinetic energy at contact, m_d v_b,r^2 / 2"),
+    _second(_RESULT["extreme_damper_force"]),
 )
 
 #: Every result of the optional parts of the calculation.
@@ -673,24 +688,6 @@ FLOOR_TABLE: tuple[Quantity, ...] = (
                                           "the bottom (default: the top floor)"),
 )
 
-#: Inputs of the design envelope (occupied floor, extreme level, comfort criterion, frequency
-#: band, as-built values, second direction), added in swaytune 0.4: a spreadsheet function
-#: lists them after the others, so that positional arguments of existing sheets stay valid.
-ENVELOPE_INPUTS: tuple[str, ...] = (
-    "floor_ordinate", "extreme_acceleration", "return_period", "band_lower", "band_upper",
-    "response_exponent", "measured_frequency", "measured_damping", "frequency_2",
-    "modal_mass_2", "structural_damping_2", "acceleration_2", "acceleration_limit_2",
-    "extreme_acceleration_2")
-
-#: Project-file tables that are optional as a whole, with the inputs a given table must hold:
-#: an input of such a table that has a default takes it only when the table is given (else
-#: the workbook has no row for it).
-OPTIONAL_TABLES: dict[str, tuple[str, ...]] = {
-    "band": ("band_lower", "band_upper"), "as_built": ("measured_frequency",),
-    "direction_2": ("frequency_2", "modal_mass_2", "structural_damping_2", "acceleration_2",
-                    "acceleration_limit_2")}
-
-
 def by_name(group: Iterable[Quantity]) -> dict[str, Quantity]:
     """Glossary name -> declaration, for one group."""
     return {q.name: q for q in group}
@@ -730,65 +727,6 @@ def design_inputs() -> tuple[Quantity, ...]:
 def design_results() -> tuple[Quantity, ...]:
     """The design chain's results as declared now (read at call time, never cached)."""
     return DESIGN_RESULTS
-
-
-def input_relation_errors(values: Mapping[str, Any]) -> list[tuple[str, str]]:
-    """Rules between inputs, as ``(input name, message)`` for each one broken.
-
-    ``values`` maps glossary names to SI values (None: not given). The project-file reader
-    and :class:`DesignInputs` apply the same rules.
-
-    Examples
-    --------
-    >>> input_relation_errors({"mass_ratio": 0.02, "damper_mass": 1e5})
-    [('damper_mass', 'damper_mass=100000.0 and mass_ratio=0.02: give at most one of them')]
-    """
-    errors = []
-    if values.get("damper_mass") is not None and values.get("mass_ratio") is not None:
-        errors.append(("damper_mass", f"damper_mass={values['damper_mass']!r} and mass_ratio="
-                                      f"{values['mass_ratio']!r}: give at most one of them"))
-    band = values.get("band_lower"), values.get("band_upper")
-    if (band[0] is None) != (band[1] is None):
-        given, missing = ("band_lower", "band_upper") if band[1] is None else \
-            ("band_upper", "band_lower")
-        errors.append((missing, f"{given}={values[given]!r} needs {missing} too: give both "
-                                "ends of the frequency band"))
-    elif band[0] is not None and not band[1] > band[0]:
-        errors.append(("band_upper", f"band_upper={band[1]!r} must be above band_lower="
-                                     f"{band[0]!r} [-] (the band must contain the nominal "
-                                     "frequency, factor 1)"))
-    if values.get("measured_damping") is not None and values.get("measured_frequency") is None:
-        errors.append(("measured_damping", f"measured_damping={values['measured_damping']!r} "
-                                           "needs measured_frequency: give the measured "
-                                           "frequency too"))
-    second = OPTIONAL_TABLES["direction_2"]
-    given = [n for n in second if values.get(n) is not None]
-    if given and len(given) < len(second):
-        missing = next(n for n in second if values.get(n) is None)
-        errors.append((missing, f"{missing} is missing: the second direction needs "
-                                f"{', '.join(second)}"))
-    for suffix in ("", "_2"):
-        x, a = values.get("extreme_acceleration" + suffix), values.get("acceleration" + suffix)
-        if x is not None and a is not None and x < a:
-            errors.append(("extreme_acceleration" + suffix,
-                           f"extreme_acceleration{suffix}={x!r} must not be below "
-                           f"acceleration{suffix}={a!r} [m/s^2] (the extreme level is the "
-                           "stronger wind)"))
-    if given and (values.get("extreme_acceleration") is None) != \
-            (values.get("extreme_acceleration_2") is None):
-        name = "extreme_acceleration_2" if values.get("extreme_acceleration") is not None \
-            else "extreme_acceleration"
-        errors.append((name, f"{name} is missing: with two directions give the extreme level "
-                             "in both or in neither"))
-    elif not given and values.get("extreme_acceleration_2") is not None:
-        errors.append(("extreme_acceleration_2", "extreme_acceleration_2="
-                       f"{values['extreme_acceleration_2']!r} needs the second direction "
-                       f"({', '.join(second)})"))
-    lo, hi = values.get("mass_ratio_min"), values.get("mass_ratio_max")
-    if lo is not None and hi is not None and not hi > lo:
-        errors.append(("mass_ratio_max", f"mass_ratio_max={hi!r} must be above mass_ratio_min="
-                                         f"{lo!r} [-]"))
-    return errors
 
 
 def design_signature() -> inspect.Signature:

@@ -18,7 +18,7 @@ import pytest
 from openpyxl.utils import get_column_letter
 
 from functions.chain import steps as all_steps
-from functions.quantities import BAND_RESULTS, DESIGN_INPUTS, DESIGN_RESULTS
+from functions.quantities import PART_RESULTS, DESIGN_INPUTS, DESIGN_RESULTS
 from functions.worksheet import TWIN_TOLERANCE as CROSS_CHECK_TOLERANCE
 from workbook_builder import cli
 from workbook_builder.build import build_workbook, write_workbook
@@ -35,7 +35,7 @@ from workbook_cases import HARMONIC, MINIMAL
 EXAMPLES = Path(__file__).resolve().parent.parent / "example_workbooks"
 EXAMPLE_NAMES = ["residential_tower", "observation_mast", "office_tower_us", "slender_tower_us"]
 RESULTS = [q.name for q in DESIGN_RESULTS]
-BAND_NAMES = {q.cell_name for q in BAND_RESULTS}
+PART_NAMES = {q.cell_name for q in PART_RESULTS}
 
 
 # ----------------------------------------------------------------------------- formulas
@@ -121,7 +121,7 @@ def test_checks_sheet_verdicts(built, name):
     assert all(rel <= CROSS_CHECK_TOLERANCE for *_, rel in b.cross_checks)
     # every result, and every formula result of the optional parts (frequency band, retune)
     parts = {s.name for s in all_steps(b.result.method, b.result.mode, b.result.parts)
-             if s.name in BAND_NAMES and not s.is_engine_value}
+             if s.name in PART_NAMES and not s.is_engine_value}
     assert {n for n, *_ in b.cross_checks} == set(RESULTS) | parts
     assert bool(parts) == bool(b.result.parts)
     assert b.value("all_cross_checks") == "OK"
@@ -531,8 +531,9 @@ def test_nonlinear_sheet_only_when_asked(built):
         b, path = built[name]
         wb = openpyxl.load_workbook(path)
         assert wb.sheetnames == [s for s in SHEETS if s in wb.sheetnames]
-        assert ("Nonlinear" in wb.sheetnames) == (name == "residential_tower"), name
-        assert (b.simulation is not None) == (name == "residential_tower")
+        simulated = name in ("residential_tower", "slender_tower_us")    # [simulation] given
+        assert ("Nonlinear" in wb.sheetnames) == simulated, name
+        assert (b.simulation is not None) == simulated
     b, _ = built["observation_mast"]
     assert not b.nonlinear_verdicts and not _nonlinear_flag(b)
 

@@ -20,7 +20,7 @@ import functions
 # declarations (quantities, worksheet twins, the chain's steps) and the spreadsheet layer (udf,
 # catalogue: thin wrappers documented for the function wizard) are not engine functions.
 SKIP_MODULES = {"functions._validation", "functions.udf", "functions.catalogue",
-                "functions.quantities", "functions.worksheet", "functions.chain",
+                "functions.quantities", "functions.relations", "functions.worksheet", "functions.chain",
                 "functions.closed_forms"}
 
 UNIT = re.compile(r"\[[^\[\]]+\]\.?$")

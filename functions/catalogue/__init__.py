@@ -62,6 +62,9 @@ COVERED_ELSEWHERE: dict[str, str] = {
     "functions.study.design_table":
         "a table of whole designs over input arrays, for scripts; in a sheet, SWAY_DESIGN "
         "copied down rows of inputs gives one design per row",
+    "functions.relations.input_relation_errors":
+        "checks a whole set of inputs against each other; SWAY_DESIGN returns the same "
+        "messages in its cell",
     "functions.design.check_rules":
         "the list of design checks a calculation with optional parts holds, not a number; "
         "SWAY_DESIGN returns the verdicts",

@@ -100,10 +100,10 @@ FLAG_GUARDS = {
     "engine_flag_band_mass": "mass ratio for the band",
     "engine_flag_robust": "robust tuning", "engine_flag_robust_worst":
         "worst case of the robust tuning", "engine_flag_as_built": "as-built tuning optimum",
-    "engine_flag_tuning_2": "direction 2 tuning optimum",
-    "engine_flag_spring_2": "direction 2 frequency at its swing",
-    "engine_flag_frequency_error_2": "direction 2 frequency error at its swing",
-    "engine_flag_mass_ratio_2": "direction 2 required mass ratio",
+    "engine_flag_tuning_2": "direction 2 tuning",
+    "engine_flag_spring_2": "direction 2 frequency",
+    "engine_flag_frequency_error_2": "direction 2 frequency error",
+    "engine_flag_mass_ratio_2": "direction 2 required mass",
 }
 
 

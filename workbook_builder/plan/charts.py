@@ -31,6 +31,7 @@ import numpy as np
 
 from functions.damper import effective_damping, frequency_response
 from functions.envelope import detuned_acceleration
+from functions.levels import MELBOURNE_PALMER_FREQUENCIES, melbourne_palmer_limit
 from functions.design import CAUTION, design_tuning
 from functions.pendulum import small_angle_error
 
@@ -39,6 +40,7 @@ from .options import PlanOptions
 from .sheet import Looks, SheetLayout, ref
 
 __all__ = ["ChartTable", "TableSpec", "chart_tables", "charts_sheet", "band_sheet",
+           "comfort_sheet",
            "RULE_OF_THUMB_DEG", "MAX_TIME_POINTS", "WINDOW_ROWS", "time_history_table", "swing_window_table",
            "write_table", "range_name", "CHART_ROWS", "BLUE", "ORANGE", "GREY", "RED", "GREEN"]
 
@@ -57,6 +59,7 @@ CHART_ROWS = 19
 BLUE, ORANGE, GREY, RED, GREEN = "1F4E79", "C55A11", "7F7F7F", "C00000", "548235"
 
 AMPLITUDE_POINTS, FREQUENCY_POINTS, MASS_RATIO_POINTS, BAND_POINTS = 31, 81, 19, 41
+COMFORT_POINTS = 31
 FREQUENCY_RATIO_RANGE = (0.6, 1.4)
 
 
@@ -91,6 +94,12 @@ def table_specs(method: str, parts: tuple[str, ...] = ()) -> dict[str, TableSpec
                       ("Frequency factor r [-]", "As designed [m/s^2]", "Robust tuning [m/s^2]",
                        "Limit [m/s^2]"), ("0.000", "0.00000", "0.00000", "0.00000"),
                       BAND_POINTS),) if "band" in parts else ()
+    if "comfort" in parts:
+        band += (TableSpec("comfort", "Melbourne & Palmer (1992) peak acceleration criterion",
+                           ("Frequency n [Hz]", "Criterion [m/s^2]"), ("0.000", "0.00000"),
+                           COMFORT_POINTS),
+                 TableSpec("comfort_marks", "Marks", ("Mark", "n [Hz]", "a [m/s^2]"),
+                           ("@", "0.000", "0.00000"), 2))
     return {t.key: t for t in band + (
         TableSpec("period", "Period ratio against swing amplitude",
                   ("Swing amplitude θ0 [deg]", "Exact T/T0 [-]", "Small-angle T/T0 [-]"),
@@ -110,7 +119,8 @@ def table_specs(method: str, parts: tuple[str, ...] = ()) -> dict[str, TableSpec
 #: Texts of the marks tables' first column (fixed).
 MARK_NAMES = {"period_marks": (f"{RULE_OF_THUMB_DEG:g}° rule *", f"{RULE_OF_THUMB_DEG:g}° "
                                "rule *", "Design swing"),
-              "damping_marks": ("Required ζ", "Required ζ", "Design")}
+              "damping_marks": ("Required ζ", "Required ζ", "Design"),
+              "comfort_marks": ("Design, with damper", "Project limit")}
 
 
 def _floats(values: Any) -> list[float]:
@@ -172,6 +182,14 @@ def chart_tables(result: Any) -> dict[str, ChartTable]:
                                       c["robust_damper_damping"], *tail)
         rows["band"] = tuple(zip(_floats(rs), _floats(nominal), _floats(robust),
                                  _floats(np.full(BAND_POINTS, p.acceleration_limit))))
+    if "comfort" in specs:
+        lo, hi = MELBOURNE_PALMER_FREQUENCIES           # open ends: just inside them
+        ns = np.geomspace(lo * 1.01, hi * 0.99, COMFORT_POINTS)
+        rows["comfort"] = tuple(zip(_floats(ns), _floats(melbourne_palmer_limit(
+            ns, p.return_period))))
+        names = MARK_NAMES["comfort_marks"]
+        rows["comfort_marks"] = ((names[0], p.frequency, float(result.acceleration_with_damper)),
+                                 (names[1], p.frequency, p.acceleration_limit))
     return {k: ChartTable(specs[k], rows[k]) for k in specs}
 
 
@@ -262,6 +280,49 @@ def charts_sheet(options: PlanOptions) -> SheetLayout:
     return sh
 
 
+def _notes(sh: SheetLayout, row: int, notes: tuple[str, ...], last_col: int) -> None:
+    """Notes under a chart page's table, one wrapped row each across the page."""
+    for i, text in enumerate(notes):
+        sh.label(row + i, 1, text, Looks.WRAP)
+        sh.merge(row + i, 1, row + i, last_col)
+        sh.height(row + i, 30)
+
+
+def comfort_sheet(options: PlanOptions) -> SheetLayout:
+    """The Comfort sheet (with a return period): the Melbourne & Palmer criterion against the
+    frequency, with the design's acceleration and the project's limit at the mode's frequency;
+    the chart above its tables, one page."""
+    specs = table_specs(options.tuning_method, options.parts)
+    sh = SheetLayout("Comfort")
+    sh.label(1, 1, "Comfort criterion: engine values, computed when the workbook was built or "
+                   "last recalculated", Looks.HEADING)
+    sh.label(2, 1, CAUTION, Looks.WARNING)
+    sh.widths([16, 16, 16, 2, 22, 14, 14])
+    top = 4 + CHART_ROWS
+    c1, c2 = write_table(sh, specs["comfort"], top, 1, "chart")
+    m1, m2 = write_table(sh, specs["comfort_marks"], top, 5, "chart",
+                         MARK_NAMES["comfort_marks"])
+    sh.height(top + 1, 30)
+    notes = ("W. H. Melbourne, T. R. Palmer, J. Wind Eng. Ind. Aerodyn. 41-44 (1992) 105-116: "
+             "a = sqrt(2 ln(n T)) (0.68 + ln(R) / 5) exp(-3.65 - 0.41 ln n), T = 600 s, for "
+             "0.06 < n < 1 Hz, R the return period [years].",
+             "The project's accepted peak acceleration stays the design limit; the criterion "
+             "is shown beside it (Calculation sheet and Checks sheet). Accelerations at the "
+             "top occupied floor.")
+    _notes(sh, c2 + 2, notes, 7)
+    sh.plan.charts.append(Chart(
+        "A4", specs["comfort"].title, "Frequency of the mode n [Hz]",
+        "Peak acceleration [m/s^2]", (
+            Series(_rng(1, c1, c2), _rng(2, c1, c2), "Criterion (return period R)", BLUE),
+            Series(_rng(6, m1, m1), _rng(7, m1, m1), "Design, with damper", RED,
+                   marker="circle", line=False),
+            Series(_rng(6, m2, m2), _rng(7, m2, m2), "Project limit", ORANGE,
+                   marker="diamond", line=False)),
+        x_format="0.00", y_format="0.000", x_min=0.0, x_max=1.0, y_min=0.0))
+    sh.page(title_rows="1:2", print_area=f"A1:G{c2 + 1 + len(notes)}", freeze="A3", pages=1)
+    return sh
+
+
 def band_sheet(options: PlanOptions) -> SheetLayout:
     """The Band sheet (with a frequency band): the acceleration with the damper over the band,
     as designed and tuned robustly, against the limit; the chart above its table, one page."""
@@ -281,10 +342,7 @@ def band_sheet(options: PlanOptions) -> SheetLayout:
              "stiffness error. The acceleration without the damper is held constant across "
              "the band unless the rule a r^k is given (Inputs sheet).",
              "Worst case and its check: Calculation sheet 7.1 and the Checks sheet.")
-    for i, text in enumerate(notes):
-        sh.label(b2 + 2 + i, 1, text, Looks.WRAP)
-        sh.merge(b2 + 2 + i, 1, b2 + 2 + i, 6)
-        sh.height(b2 + 2 + i, 30)
+    _notes(sh, b2 + 2, notes, 6)
     sh.plan.charts.append(Chart(
         "A4", spec.title, "Frequency factor r = f_actual / f_s [-]",
         "Peak acceleration [m/s^2]", (

@@ -2,7 +2,7 @@
 """The whole plan of a workbook, sheet by sheet, from its layout options.
 
 Sheets in order: Summary, Inputs, Calculation, Pendulum, Checks, Charts, Band (with a
-frequency band), Nonlinear (with a simulation), Names, Cautions, Record. The plan depends only on
+frequency band), Comfort (with a comfort criterion), Nonlinear (with a simulation), Names, Cautions, Record. The plan depends only on
 :class:`workbook_builder.plan.options.PlanOptions`: a builder draws it, batch recalculation
 rebuilds it from the options stored in a workbook and reads the workbook through its names.
 """
@@ -12,7 +12,7 @@ import functools
 from collections import Counter
 
 from .calculation import calculation_sheet
-from .charts import band_sheet, charts_sheet
+from .charts import band_sheet, charts_sheet, comfort_sheet
 from .checks import checks_sheet
 from .inputs import inputs_sheet
 from .model import Plan
@@ -25,7 +25,8 @@ from .summary import summary_sheet
 __all__ = ["make_plan", "SHEETS"]
 
 #: Every sheet a plan can hold, in workbook order.
-SHEETS = ("Summary", "Inputs", "Calculation", "Pendulum", "Checks", "Charts", "Band", "Nonlinear",
+SHEETS = ("Summary", "Inputs", "Calculation", "Pendulum", "Checks", "Charts", "Band", "Comfort",
+          "Nonlinear",
           "Names", "Cautions", "Record")
 
 
@@ -44,6 +45,8 @@ def make_plan(options: PlanOptions) -> Plan:
                pendulum_sheet("extreme" in options.parts), checks_sheet(options), charts_sheet(options)]
     if "band" in options.parts:
         layouts.append(band_sheet(options))
+    if "comfort" in options.parts:
+        layouts.append(comfort_sheet(options))
     if options.simulation is not None:
         layouts.append(nonlinear_sheet(options))
     plan.sheets = [sh.plan for sh in layouts] + [cautions_sheet().plan,

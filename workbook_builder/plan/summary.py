@@ -67,10 +67,13 @@ class SummaryColumns:
             self.input_si = self.input_si_unit = self.result_si = self.result_si_unit = 0
             self.source, self.rule, self.last = 5, 7, 7
 
-    def widths(self) -> list[float]:
+    def widths(self, wide: bool = False) -> list[float]:
+        """Column widths; ``wide`` gives the labels more room (the design envelope's long
+        labels on one line each)."""
+        extra = 14 if wide else 0
         if self.us:
-            return [32, 9, 11, 12, 11, 9, 11, 8, 25]
-        return [36, 9, 12, 11, 11, 9, 28]
+            return [32 + extra, 9, 11, 12, 11, 9, 11, 8, 25]
+        return [36 + extra, 9, 12, 11, 11, 9, 28]
 
 
 def key_results(options: PlanOptions | None = None) -> list[str]:
@@ -201,7 +204,7 @@ def _results(sh: SheetLayout, row: int, cols: SummaryColumns, options: PlanOptio
             sh.label(row, cols.rule, rule.rule, "box wrap")
             if rule.lower:
                 row += 1
-                sh.label(row, cols.label, "   practical lower end", "box italic")
+                sh.label(row, cols.label, "   lower limit", "box italic")
                 for c in (cols.symbol, cols.value, cols.unit, cols.verdict, cols.rule):
                     sh.blank(row, c, "box")
                 for c in (cols.result_si, cols.result_si_unit):
@@ -229,6 +232,9 @@ def summary_sheet(options: PlanOptions) -> SheetLayout:
         sh.merge(row, 2, row, cols.last)
         row += 1
     row = _inputs(sh, row + 1, options, cols)
+    if options.parts:
+        # the design envelope: the inputs on the first page, results and verdicts on a second
+        sh.plan.row_breaks.append(row - 1)
     row = _results(sh, row, cols, options)
     sh.section(row, "Verdicts", cols.last)
     row += 1
@@ -237,8 +243,14 @@ def summary_sheet(options: PlanOptions) -> SheetLayout:
     rows += [(label, f"={name}") for name, label in VERDICT_LABELS.items()]
     if options.simulation is not None:
         rows += [(_SHORT[name], f"={name}") for name, *_ in NONLINEAR_CHECKS]
-    rows += [(f"Engine value of the {what} current (inputs unchanged)", f"={flag}_ok")
-             for flag, what in engine_flags(options)]
+    flags = engine_flags(options)
+    if len(flags) <= 3:
+        rows += [(f"Engine value of the {what} current (inputs unchanged)", f"={flag}_ok")
+                 for flag, what in flags]
+    else:       # one row for them all (each has its own on the Checks sheet)
+        every = ",".join(f'{flag}_ok="OK"' for flag, _ in flags)
+        rows.append((f"Every engine value current (inputs unchanged; {len(flags)} flags on the "
+                     "Checks sheet)", f'=IF(AND({every}),"OK","NOT OK")'))
     for label, formula in rows:
         sh.label(row, 1, label, "bold box")
         for c in range(2, cols.verdict):
@@ -259,6 +271,6 @@ def summary_sheet(options: PlanOptions) -> SheetLayout:
         sh.merge(row, 1, row, cols.last)
         row += 1
     sh.label(row, 1, "See the Cautions sheet.")
-    sh.widths(cols.widths())
-    sh.page(pages=1)
+    sh.widths(cols.widths(wide=bool(options.parts)))
+    sh.page(pages=0 if options.parts else 1)
     return sh
