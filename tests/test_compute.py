@@ -171,3 +171,43 @@ def test_simulation_tables_have_the_sizes_the_layout_takes(which, request):
     for table in (run.time_table, run.window_table):
         assert table.spec.rows == len(table.rows)
     assert options_for(project, run).simulation == (run.settings.load, len(rows), len(window))
+
+
+# ----------------------------------------------------------------------------- wind level
+EXTREME = HARMONIC.replace("[wind]\n", "[wind]\nextreme_acceleration = 0.4\n").replace(
+    "[mode]\n", "[mode]\nfloor_ordinate = 0.9\n").replace("load_factor = 4\n", "")
+
+
+def test_the_time_domain_check_runs_at_the_extreme_level_by_default():
+    """Harmonic force at resonance calibrated to the extreme level at the damper (the input at
+    the top occupied floor over the floor ordinate): F0 = 2 zeta_s M a (textbook single mode,
+    Den Hartog 1956, s2.4). With the damper, a small swing: the simulated steady peak equals
+    the frequency-domain prediction |H(omega_s)| F0 from a direct complex solve of the 2-DOF
+    dynamic stiffness (tests/damper_references.py), within the 0.5 % of 32 samples a period."""
+    from damper_references import amplification
+    project = parse_project(tomllib.loads(EXTREME), source="x.toml")
+    result = run_design(project)
+    run = run_simulation(project, result)
+    i = result.inputs
+    assert run.level == "extreme" and run.level_acceleration == pytest.approx(0.4 / 0.9,
+                                                                               rel=1e-15)
+    assert run.force == pytest.approx(0.4 / 0.9 * 2 * i.structural_damping * i.modal_mass,
+                                      rel=1e-12)
+    sim = run.result
+    assert sim.nonlinear.swing_deg < 3.0                      # a small swing: nearly linear
+    tuning = run.hanger_frequency / i.frequency
+    static = run.force / (i.modal_mass * (2 * math.pi * i.frequency) ** 2)
+    predicted = amplification(1.0, result.mass_ratio, tuning, run.damper_damping,
+                              i.structural_damping) * static * (2 * math.pi * i.frequency) ** 2
+    steady = sim.time >= sim.time[-1] - 60.0                  # the last 60 s: transients gone
+    peak = float(np.max(np.abs(sim.nonlinear.acceleration[steady])))
+    assert predicted * (1 - 0.01) <= peak <= predicted * (1 + 0.005)
+
+
+def test_the_service_level_is_simulated_when_asked_or_without_an_extreme_level():
+    project = parse_project(tomllib.loads(EXTREME.replace(
+        "[simulation]\n", '[simulation]\nlevel = "service"\n')), source="s.toml")
+    run = run_simulation(project, run_design(project))
+    assert run.level == "service" and run.level_acceleration == pytest.approx(0.25 / 0.9)
+    project = parse_project(tomllib.loads(HARMONIC), source="h.toml")
+    assert run_simulation(project, run_design(project)).level == "service"

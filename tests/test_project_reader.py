@@ -332,3 +332,63 @@ def test_us_project_defaults_gravity_in_feet_with_the_exact_si_value():
     assert us.value * 0.3048 == 9.80665 and us.value == pytest.approx(32.174049, rel=1e-7)
     si = load_project(EXAMPLES / "residential_tower.toml").inputs["g"]
     assert (si.unit.symbol, si.value, si.si) == ("m/s^2", 9.80665, 9.80665)
+
+
+# ----------------------------------------------------------------------------- design envelope
+SECOND = """
+[direction_2]
+frequency = 0.25
+modal_mass = { value = 9000, unit = "t" }
+structural_damping = 0.01
+acceleration = 0.2
+acceleration_limit = 0.15
+"""
+
+
+@pytest.mark.parametrize("extra, key, words", [
+    ("\n[band]\nlower = 1.05\nupper = 1.2\n", "band.lower",
+     r"1\.05 must be in \[0\.5, 1\]"),                       # the band excludes the nominal 1
+    ("\n[band]\nupper = 1.2\n", "band.lower", "is missing: a \\[band\\] table needs lower, upper"),
+    ("\n[as_built]\ndamping = 0.01\n", "as_built.frequency", "is missing"),
+    (SECOND.replace("modal_mass = { value = 9000, unit = \"t\" }\n", ""),
+     "direction_2.modal_mass", "is missing"),
+    (SECOND.replace("frequency = 0.25", "frequency = 0.15"), "direction_2.frequency", None),
+    ("\n[band]\nlower = 0.9\nupper = 1.1\nrespons_exponent = 1\n", "band.respons_exponent",
+     "unknown key \\(did you mean 'band.response_exponent'"),
+])
+def test_envelope_tables_refuse_bad_inputs_naming_the_key(tmp_path, extra, key, words):
+    """Each refusal names the file, the line and the key (our own rule)."""
+    path = write(tmp_path, MINIMAL + extra)
+    if words is None:      # a second direction below the first: refused by the engine
+        project = load_project(path)
+        from workbook_builder.compute import run_design
+        with pytest.raises(ValueError, match="frequency_2=0.15 Hz needs a damper frequency .*"
+                                             "spring_stiffness_2 would be negative"):
+            run_design(project)
+        return
+    with pytest.raises(ProjectError, match=rf"p\.toml:\d+: {key}: .*{words}"):
+        load_project(path)
+
+
+def test_an_extreme_level_below_the_service_level_is_refused(tmp_path):
+    text = MINIMAL.replace("acceleration = 0.25", "acceleration = 0.25\nextreme_acceleration = 0.2")
+    with pytest.raises(ProjectError, match=r"wind\.extreme_acceleration: extreme_acceleration="
+                                           r"0\.2 must not be below acceleration=0\.25"):
+        load_project(write(tmp_path, text))
+
+
+def test_a_limit_in_the_wrong_table_is_refused_with_the_right_one(tmp_path):
+    """A comfort limit put with the mode (not the wind at the occupied floor) is an unknown key
+    that points to its table."""
+    text = MINIMAL.replace("acceleration_limit = 0.15\n", "").replace(
+        "[mode]\n", "[mode]\nacceleration_limit = 0.15\n")
+    with pytest.raises(ProjectError, match=r"mode\.acceleration_limit: unknown key \(did you "
+                                           r"mean 'wind\.acceleration_limit'\?\)"):
+        load_project(write(tmp_path, text))
+
+
+def test_the_comfort_criterion_only_inside_its_frequencies(tmp_path):
+    text = MINIMAL.replace("frequency = 0.2", "frequency = 1.5").replace(
+        "acceleration_limit = 0.15", "acceleration_limit = 0.15\nreturn_period = 10")
+    with pytest.raises(ProjectError, match=r"wind\.return_period: .*0\.06 < f < 1 Hz"):
+        load_project(write(tmp_path, text))

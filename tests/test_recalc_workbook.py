@@ -63,6 +63,12 @@ def test_recalc_unchanged_workbook_is_identical(built, tmp_path, name):
     ("observation_mast", {"acceleration": 0.36}),           # floor table, chosen mass
     ("office_tower_us", {"clearance": "40 ft"}),              # US units, stroke check fails
     ("den_hartog", {"modal_mass": {"value": 12000.0, "unit": "t"}}),     # closed forms
+    # the design envelope: extreme level, frequency band, second direction, comfort criterion
+    ("slender_tower_us", {"extreme_acceleration": "70 milli-g"}),
+    ("slender_tower_us", {"band_lower": 0.85}),
+    ("slender_tower_us", {"frequency_2": 0.135}),
+    ("slender_tower_us", {"return_period": 5.0}),
+    ("slender_tower_us", {"floor_ordinate": 0.9}),
 ])
 def test_recalc_equals_fresh_build(built, tmp_path, name, change):
     """Recalculated workbook == the builder's workbook for the changed inputs, every cell."""
@@ -86,7 +92,7 @@ def test_recalc_equals_fresh_build(built, tmp_path, name, change):
     got = cell_values(res.output)
     n = assert_numbers_equal(got, fresh_values, rel=1e-12,
                               sheets={"Inputs", "Calculation", "Pendulum", "Checks", "Charts",
-                                      "Names", "Summary"})
+                                      "Names", "Summary", "Band", "Comfort"})
     assert n > 700
     # text results (verdicts, flags) too
     for where, v in fresh_values.items():
