@@ -9,9 +9,9 @@ cross-checked against the engine on its Checks sheet.
 from __future__ import annotations
 
 try:
-    from importlib.metadata import PackageNotFoundError, version as _version
+    from importlib.metadata import version as _version
     __version__ = _version("swaytune")
 except Exception:  # pragma: no cover - running from a source tree without metadata
-    __version__ = "0.3.0"
+    __version__ = "0.4.0"
 
 __all__ = ["__version__"]

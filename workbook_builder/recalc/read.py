@@ -126,7 +126,8 @@ def workbook_format(book: Book) -> int:
 
 
 #: Which swaytune wrote the released layout formats before the current one.
-_MADE_BY = {1: "swaytune 0.1", 2: "swaytune 0.1", 3: "swaytune 0.2.0"}
+_MADE_BY = {1: "swaytune 0.1", 2: "swaytune 0.1", 3: "swaytune 0.2.0", 4: "swaytune 0.3.0",
+            5: "swaytune 0.3.0"}
 
 
 def _plan(book: Book) -> Plan:
