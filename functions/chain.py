@@ -537,6 +537,28 @@ def _second_direction_section(method: str, core: tuple[Section, ...]) -> Section
        "no source).")
 
 
+def _second_band_section() -> Section:
+    """The second direction over the frequency band (its frequency off by the same factor)."""
+    worst = "functions.envelope.band_worst_case: dense grid and golden section over the band"
+
+    def pick(i: int) -> Callable[..., float]:
+        def value(band_lower, band_upper, acceleration_2, mass_ratio_2, tuning_ratio_2,
+                  damper_damping_2, structural_damping_2, response_exponent):
+            return _worst_case(float(band_lower), float(band_upper), float(acceleration_2),
+                               float(mass_ratio_2), float(tuning_ratio_2),
+                               float(damper_damping_2), float(structural_damping_2),
+                               float(response_exponent))[i]
+        return value
+    return Section("Frequency band, second direction", (
+        Step("band_worst_acceleration_2", pick(0), "max over r of a_2 r^k sqrt(zeta_s2 / "
+             "zeta_eff(mu_2, f_2/r, zeta_d2, zeta_s2))", worst, flag="engine_flag_band_2"),
+        Step("band_worst_factor_2", pick(1), "r where a_d2(r) is largest", worst,
+             flag="engine_flag_band_2"),
+    ), "Direction 2's frequency off by the same factor r as the main direction's (one "
+       "stiffness error), its damper as designed: the same assumptions as the band of the main "
+       "direction.")
+
+
 def _second_extreme_section() -> Section:
     """The second direction at the extreme wind, and both directions combined."""
     steps_2 = [Step(_SECOND[n], renamed(LEVEL_FORMS[n], _SECOND), "", "")
@@ -627,6 +649,8 @@ def sections(method: str, mode: str, parts: tuple[str, ...] = ()) -> tuple[Secti
         extra.append(_second_direction_section(method, core))
         if "extreme" in parts:
             extra.append(_second_extreme_section())
+        if "band" in parts:
+            extra.append(_second_band_section())
     return core + tuple(Section(f"{n}  {sec.title}", sec.steps, sec.note)
                         for n, sec in enumerate(extra, start=len(core) + 1))
 

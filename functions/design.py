@@ -272,7 +272,7 @@ PART_CHECK_RULES: tuple[tuple[tuple[str, ...], CheckRule], ...] = (
     (("direction_2",), CheckRule(
         "combined_stroke", "Both directions: combined (SRSS) stroke within the clearance",
         twin("=combined_stroke", lambda combined_stroke: combined_stroke), "clearance",
-        "sqrt(x_d1^2 + x_d2^2) <= x_max",
+        "SRSS(x_d1, x_d2) <= x_max",
         lambda v, lim, lo, ok: f"combined stroke {_fmt(v)} m {_rel(ok)} clearance "
                                f"{_fmt(lim)} m (SRSS, common practice, no source)", unit="m")),
     (("direction_2",), CheckRule(
@@ -286,6 +286,14 @@ PART_CHECK_RULES: tuple[tuple[tuple[str, ...], CheckRule], ...] = (
         twin("=ABS(detuning_2)", lambda detuning_2: np.abs(detuning_2)), "max_detuning",
         "|df_2/f_2| <= |df/f|_max",
         lambda v, lim, lo, ok: f"direction 2: |detuning| {v:.3%} {_rel(ok)} {lim:.3%}")),
+    (("band", "direction_2"), CheckRule(
+        "band_acceleration_2", "Direction 2, frequency band: worst acceleration with damper "
+        "within its limit", twin("=band_worst_acceleration_2", lambda band_worst_acceleration_2:
+                                 band_worst_acceleration_2), "acceleration_limit_2",
+        "a_w2 <= a_lim2 (1 + 1e-9)",
+        lambda v, lim, lo, ok: f"direction 2: worst acceleration over the band {_fmt(v)} "
+                               f"m/s^2 {_rel(ok)} limit {_fmt(lim)} m/s^2",
+        rtol=ACCELERATION_RTOL, unit="m/s^2")),
     (("direction_2", "extreme"), CheckRule(
         "extreme_combined_stroke", "Extreme level, both directions: combined stroke within the "
         "clearance", twin("=extreme_combined_stroke", lambda extreme_combined_stroke:

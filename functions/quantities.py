@@ -626,6 +626,12 @@ DIRECTION_RESULTS: tuple[Quantity, ...] = (
     _q("extreme_combined_swing_deg", "theta_r,x", "Extreme level, both directions: combined "
        "swing angle", "deg", "angle", fmt="0.000", summary=True,
        description="asin(x_r,x / L) at the extreme level"),
+    _q("band_worst_acceleration_2", "a_w2", "Direction 2: worst peak acceleration with the "
+       "damper over the band", "m/s^2", "acceleration", fmt="0.00000", summary=True,
+       description=_D2 + "largest peak acceleration with the damper for any building "
+                         "frequency in the band (damper as designed)"),
+    _q("band_worst_factor_2", "r_w2", "Direction 2: frequency factor of the worst case", "-",
+       "fraction", fmt="0.0000", description=_D2 + "frequency factor of the worst case"),
     _q("combined_buffer_excess", "dx_b,r", "Extreme level, both directions: stroke beyond "
        "the clearance (buffers)", "m", "length", fmt=_LENGTH_FMT, summary=True,
        description="Combined stroke beyond the available clearance, taken by the buffers"),

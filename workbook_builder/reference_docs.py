@@ -18,7 +18,7 @@ from typing import Callable
 
 from functions import udf
 from functions.catalogue import reference_markdown
-from functions.chain import sections
+from functions.chain import PARTS, sections
 from functions.design import check_rules
 from functions.quantities import design_inputs, quantity
 
@@ -48,7 +48,7 @@ def quantities_markdown() -> str:
     out += ["", "### Calculation steps (h2 tuning, required mass ratio)", "",
             "| Step | Defined name | Symbol | Unit | Worksheet formula | Equation | Source |",
             "| --- | --- | --- | --- | --- | --- | --- |"]
-    for sec in sections("h2", "required", ("band", "as_built", "measured_damping")):
+    for sec in sections("h2", "required", PARTS):
         for k, step in enumerate(sec.steps, start=1):
             q = quantity(step.name)
             formula = f"`{_cell(step.formula)}`" if step.formula else "engine value"
@@ -57,7 +57,7 @@ def quantities_markdown() -> str:
     out += ["", "### Design checks", "", "| Check | Rule | Worksheet verdict |",
             "| --- | --- | --- |"]
     out += [f"| {r.label} | {_cell(r.rule)} | `{_cell(r.verdict_formula)}` |"
-            for r in check_rules(("band", "as_built"))]
+            for r in check_rules(PARTS)]
     return "\n".join(out) + "\n"
 
 

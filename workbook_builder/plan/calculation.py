@@ -104,6 +104,7 @@ FLAG_GUARDS = {
     "engine_flag_spring_2": "direction 2 frequency",
     "engine_flag_frequency_error_2": "direction 2 frequency error",
     "engine_flag_mass_ratio_2": "direction 2 required mass",
+    "engine_flag_band_2": "direction 2 worst case over the band",
 }
 
 
