@@ -219,8 +219,12 @@ def test_band_table_against_an_independent_variance():
     assert len(rows) == t["band"].spec.rows == charts.BAND_POINTS
     assert rows[0][0] == pytest.approx(0.88) and rows[-1][0] == pytest.approx(1.12)
     zs = 0.015
-    for factor, nominal, robust, limit in rows[::8]:
+    for factor, nominal, robust, limit, zeta in rows[::8]:
         assert limit == 0.15
+        # effective damping: equal displacement variance of a single oscillator, pi / (2 zeta)
+        with_damper, _ = lyapunov_variances(r.mass_ratio, r.tuning_ratio / factor,
+                                            r.damper_damping, zs)
+        assert zeta == pytest.approx(np.pi / (2.0 * with_damper), rel=1e-9)
         for (f, zd), value in (((r.tuning_ratio, r.damper_damping), nominal),
                                ((r.cells["robust_tuning_ratio"],
                                  r.cells["robust_damper_damping"]), robust)):

@@ -30,7 +30,7 @@ from typing import Any
 import numpy as np
 
 from functions.damper import effective_damping, frequency_response
-from functions.envelope import detuned_acceleration
+from functions.envelope import detuned_acceleration, detuned_effective_damping
 from functions.levels import MELBOURNE_PALMER_FREQUENCIES, melbourne_palmer_limit
 from functions.design import CAUTION, design_tuning
 from functions.pendulum import small_angle_error
@@ -92,7 +92,8 @@ def table_specs(method: str, parts: tuple[str, ...] = ()) -> dict[str, TableSpec
     """The Charts sheet's tables for a tuning method and the calculation's optional parts."""
     band = (TableSpec("band", "Acceleration with damper over the frequency band",
                       ("Frequency factor r [-]", "As designed [m/s^2]", "Robust tuning [m/s^2]",
-                       "Limit [m/s^2]"), ("0.000", "0.00000", "0.00000", "0.00000"),
+                       "Limit [m/s^2]", "Effective damping as designed [-]"),
+                      ("0.000", "0.00000", "0.00000", "0.00000", "0.00000"),
                       BAND_POINTS),) if "band" in parts else ()
     if "comfort" in parts:
         band += (TableSpec("comfort", "Melbourne & Palmer (1992) peak acceleration criterion",
@@ -181,7 +182,8 @@ def chart_tables(result: Any) -> dict[str, ChartTable]:
         robust = detuned_acceleration(rs, *args, c["robust_tuning_ratio"],
                                       c["robust_damper_damping"], *tail)
         rows["band"] = tuple(zip(_floats(rs), _floats(nominal), _floats(robust),
-                                 _floats(np.full(BAND_POINTS, p.acceleration_limit))))
+                                 _floats(np.full(BAND_POINTS, p.acceleration_limit)),
+                                 _floats(detuned_effective_damping(rs, mu, f_d, z_d, zs))))
     if "comfort" in specs:
         lo, hi = MELBOURNE_PALMER_FREQUENCIES           # open ends: just inside them
         ns = np.geomspace(lo * 1.01, hi * 0.99, COMFORT_POINTS)
