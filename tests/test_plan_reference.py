@@ -8,6 +8,7 @@ from __future__ import annotations
 
 import pytest
 
+from functions.chain import PARTS
 from functions.quantities import DESIGN_INPUTS, design_inputs, design_results
 from workbook_builder.plan import PlanOptions, make_plan
 from workbook_builder.plan.model import Cell, Plan, SheetPlan, refreshed
@@ -112,3 +113,14 @@ def test_record_keeps_the_values_of_the_last_engine_run(floors):
         cell = cells[last_run_name(q.cell_name)]
         assert cell.source == ("cell", q.cell_name) and refreshed(cell)
     assert {q.cell_name for q in design_results() if q.summary} <= {q.cell_name for q in results}
+
+
+def test_the_record_keeps_the_key_results_of_the_optional_parts():
+    """recalc reports the key results of the design envelope that changed (our own rule)."""
+    names = [q.cell_name for q in recorded_results(PlanOptions(parts=PARTS))]
+    core = [q.cell_name for q in recorded_results(PlanOptions())]
+    assert names[:len(core)] == core
+    assert {"band_worst_acceleration", "extreme_stroke", "buffer_energy", "comfort_limit_mp",
+            "combined_stroke", "band_worst_acceleration_2"} <= set(names[len(core):])
+    assert "extreme_stroke" not in [q.cell_name for q in recorded_results(
+        PlanOptions(parts=("band",)))]

@@ -9,7 +9,8 @@ workbook with to report the user's edits (:func:`last_run_name`).
 """
 from __future__ import annotations
 
-from functions.quantities import HELPERS, design_inputs, design_results
+from functions.chain import steps
+from functions.quantities import HELPERS, PART_RESULTS, design_inputs, design_results
 
 from .calculation import unit_format, value_format
 from .model import Plan
@@ -116,6 +117,10 @@ def recorded_results(options: PlanOptions) -> list:
     """The result quantities whose engine value the Record sheet keeps: the key results, and
     the modal mass when a floor table gives it (an edited floor shows as its change)."""
     out = [q for q in design_results() if q.summary]
+    if options.parts:           # the key results of the optional parts present, in order
+        keys = {q.cell_name: q for q in PART_RESULTS if q.summary}
+        out += [keys[s.name] for s in steps(options.tuning_method, options.mass_ratio_mode,
+                                            options.parts) if s.name in keys]
     if options.floors:
         out.insert(0, next(q for q in design_inputs() if q.name == "modal_mass"))
     return out
