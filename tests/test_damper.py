@@ -33,7 +33,6 @@ from functions.damper import (
 
 from damper_references import (
     amplification,
-    amplification_cramer,
     base_amplification,
     lyapunov_variances,
     true_peak,

@@ -226,7 +226,6 @@ def test_parse_project_from_dicts():
 
 
 def test_simulation_table_defaults_and_values(tmp_path):
-    from workbook_builder.project import SimulationSettings
     assert load_project(write(tmp_path, MINIMAL)).simulation is None
     assert not load_project(write(tmp_path, MINIMAL)).simulate
     p = load_project(write(tmp_path, MINIMAL + "\n[simulation]\n"))

@@ -14,8 +14,6 @@ from __future__ import annotations
 
 import concurrent.futures as cf
 import dataclasses
-import shutil
-import subprocess
 
 import openpyxl
 import pytest
@@ -24,12 +22,11 @@ from functions.design import ACCELERATION_RTOL
 from functions.quantities import quantity
 from workbook_builder.build import build_workbook, write_workbook
 from workbook_builder.project import parse_project
-from workbook_builder.recalc import (RecalcError, parse_overrides, read_inputs, read_workbook,
-                                     recalc_many, recalc_workbook, write_results)
+from workbook_builder.recalc import (RecalcError, parse_overrides, read_inputs, recalc_many,
+                                     recalc_workbook, write_results)
 from workbook_builder.xlsx import gnumeric, libreoffice
 
 from recalc_helpers import assert_numbers_equal, cell_of, cell_values, copy_to, needs_soffice
-from workbook_cases import DEN_HARTOG
 
 MILLI_G = 9.80665e-3
 

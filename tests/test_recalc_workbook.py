@@ -12,7 +12,6 @@ from __future__ import annotations
 import dataclasses
 import gc
 import os
-import re
 import shutil
 import stat
 
@@ -20,7 +19,6 @@ import openpyxl
 import pytest
 from openpyxl.workbook.defined_name import DefinedName
 
-from functions.quantities import quantity
 from workbook_builder.build import build_workbook, write_workbook
 from workbook_builder.project import load_project, parse_project
 from workbook_builder.recalc import (RecalcError, parse_overrides, read_inputs, read_workbook,

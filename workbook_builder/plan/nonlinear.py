@@ -29,8 +29,9 @@ __all__ = ["nonlinear_sheet", "simulation_dependencies", "RESPONSE_ROWS"]
 RESPONSE_ROWS = (
     ("RMS building displacement", "displacement_rms", "m", True, "sim_displacement_rms"),
     ("Peak building displacement", "displacement_peak", "m", True, "sim_displacement_peak"),
-    ("RMS building acceleration", "acceleration_rms", "m/s^2", True, "sim_acceleration_rms"),
-    ("Peak building acceleration", "acceleration_peak", "m/s^2", True,
+    ("RMS building acceleration (damper level)", "acceleration_rms", "m/s^2", True,
+     "sim_acceleration_rms"),
+    ("Peak building acceleration (damper level)", "acceleration_peak", "m/s^2", True,
      "sim_acceleration_peak"),
     ("RMS swing angle", "angle_rms_deg", "deg", False, "sim_swing_rms_deg"),
     ("Peak swing angle", "swing_deg", "deg", False, ""),
@@ -158,9 +159,11 @@ def nonlinear_sheet(options: PlanOptions) -> SheetLayout:
         sh.merge(4, 4, 4, 6)
     row = _section(sh, 5, "1  Load and damper simulated")
     calib = (f"chosen so that the building WITHOUT the damper has the expected peak "
-             f"acceleration a x load factor: RMS x peak factor over {PEAK_DURATION:g} s"
+             f"acceleration a / phi_occ x load factor at the damper's level: RMS x peak factor "
+             f"over {PEAK_DURATION:g} s (a: the simulated wind level)"
              if random else "chosen so that the steady peak acceleration of the building "
-                            "WITHOUT the damper is a x load factor")
+                            "WITHOUT the damper at the damper's level is a / phi_occ x load "
+                            "factor (a: the simulated wind level)")
     row = put(sh, row, "Load (project file, [simulation] load)", ("sim", "load"), "",
                ("sim", "load_description"))
     row = put(sh, row, "Force RMS" if random else "Force amplitude", ("sim", "force"), "N",
