@@ -35,7 +35,7 @@ from functions.damper import (CLOSED_FORMS, MIN_NUMERICAL_MASS_RATIO, OPTIMAL_TU
                               effective_damping, optimal_tuning,
                               required_mass_ratio)
 from functions.directions import DIRECTION_FORMS, spring_pendulum_frequency
-from functions.envelope import band_mass_ratio, band_worst_case, robust_tuning
+from functions.envelope import BAND_METHODS, band_mass_ratio, band_worst_case, robust_tuning
 from functions.levels import LEVEL_FORMS
 from functions.pendulum import pendulum_length, small_angle_error
 from functions.worksheet import form_of, renamed, twin
@@ -156,6 +156,15 @@ SMALL_SWING_ERROR = (f"=IF({_T}<0.1,{_T}^2/16+11*{_T}^4/3072+173*{_T}^6/737280"
 
 def _required_mass_ratio_step(method: str) -> Step:
     """The required mass ratio for the damper that ``method`` tunes (an engine value)."""
+    if method == "robust":
+        return Step("mass_ratio", lambda acceleration, acceleration_limit, structural_damping,
+                    band_lower, band_upper: band_mass_ratio(
+                        acceleration, acceleration_limit, structural_damping, band_lower,
+                        band_upper, "robust"),
+                    "max over r of a_d(r) = a_lim, the damper tuned robustly for the band",
+                    "Least mass ratio whose robustly tuned damper meets the limit anywhere in "
+                    "the band; functions.envelope.band_mass_ratio(method='robust') (brentq)",
+                    flag="engine_flag_mass_ratio")
     if method in CLOSED_FORMS:
         how = (f"Root of zeta_eff(mu) = zeta_req for the {method} damper, tuned as printed "
                "(undamped structure) on the damped structure (brentq); "
@@ -205,6 +214,16 @@ def _optimum(mass_ratio: float, method: str, structural_damping: float) -> tuple
 
 
 def _tuning_steps(method: str) -> tuple[Step, ...]:
+    if method == "robust":
+        source = ("functions.envelope.robust_tuning: the least effective damping over the band "
+                  "maximised (batched Newton); numerical, valid for a damped structure")
+        return tuple(
+            Step(name, (lambda i: lambda mass_ratio, band_lower, band_upper, structural_damping:
+                        _robust(float(mass_ratio), float(band_lower), float(band_upper),
+                                float(structural_damping))[i])(i),
+                 "max over f, zeta_d of min over r of zeta_eff", source,
+                 flag="engine_flag_tuning")
+            for i, name in enumerate(("tuning_ratio", "damper_damping")))
     if method in CLOSED_FORMS:
         tuning, damping = CLOSED_FORMS[method]
         return (Step("tuning_ratio", tuning, tuning.worksheet.expression,
@@ -319,30 +338,16 @@ def _band_section(method: str) -> Section:
        "ratio f to the actual building.")
 
 
-def _as_built_section(method: str, measured_damping: bool) -> Section:
-    """The damper retuned to the measured frequency (and damping) of the finished building."""
-    flag = "engine_flag_as_built"
-    if method in CLOSED_FORMS:
-        tuning, damping = CLOSED_FORMS[method]
-        optimum = (Step("retune_tuning_ratio", tuning, tuning.worksheet.expression,
-                        tuning.worksheet.source),
-                   Step("retune_damper_damping", damping, damping.worksheet.expression,
-                        damping.worksheet.source))
-    else:
-        source = (f"functions.damper.optimal_tuning(method='{method}') for mu and "
-                  f"{'the measured' if measured_damping else 'the design'} zeta_s")
-        if measured_damping:
-            def pick(i):
-                return lambda mass_ratio, measured_damping: _optimum(
-                    float(mass_ratio), method, float(measured_damping))[i]
-        else:
-            def pick(i):
-                return lambda mass_ratio, structural_damping: _optimum(
-                    float(mass_ratio), method, float(structural_damping))[i]
-        optimum = (Step("retune_tuning_ratio", pick(0), "numerical optimum", source,
-                        flag=flag),
-                   Step("retune_damper_damping", pick(1), "numerical optimum", source,
-                        flag=flag))
+def _as_built_section(design_method: str, measured_damping: bool) -> Section:
+    """The damper retuned to the measured frequency (and damping) of the finished building
+    (a robustly tuned damper is retuned by h2: once measured, the frequency has no band)."""
+    method = "h2" if design_method == "robust" else design_method
+    names = {"tuning_ratio": "retune_tuning_ratio", "damper_damping": "retune_damper_damping",
+             **({"structural_damping": "measured_damping"} if measured_damping else {})}
+    optimum = tuple(Step(names[s.name], renamed(s.compute, names), s.expression,
+                         s.source + (" (measured zeta_s)" if measured_damping else ""),
+                         flag=s.flag and "engine_flag_as_built")
+                    for s in _tuning_steps(method)[:2])
     return Section("As built: the damper retuned to the measured building", optimum + (
         _step("retune_damper_frequency", "=retune_tuning_ratio*measured_frequency",
               lambda retune_tuning_ratio, measured_frequency:
@@ -358,7 +363,11 @@ def _as_built_section(method: str, measured_damping: bool) -> Section:
               lambda damper_mass, retune_damper_frequency, retune_damper_damping:
               2.0 * damper_mass * _TWO_PI * retune_damper_frequency * retune_damper_damping,
               "2 m_d (2 pi f_d,ab) zeta_ab"),
-    ), f"Mass ratio as built, tuned by the design's method ({method}) to the measured "
+    ), f"Mass ratio as built, tuned by {method}" + (" (the design's robust tuning was for the "
+                                                    "band; the measured frequency has none)"
+                                                    if design_method == "robust"
+                                                    else " (the design's method)") +
+       " to the measured "
        f"frequency{' and damping' if measured_damping else ' (design damping zeta_s)'}; "
        "hanger length in tune at the design swing. A frequency measured with the damper "
        "locked must first be multiplied by sqrt(1 + mu).")
@@ -428,29 +437,23 @@ _SECOND = {"tuning_ratio": "tuning_ratio_2", "damper_damping": "damper_damping_2
            "extreme_displacement": "extreme_displacement_2", "stiffness": "stiffness_2",
            "dashpot": "dashpot_2", "extreme_stroke": "extreme_stroke_2",
            "extreme_damper_force": "extreme_damper_force_2",
+           "band_worst_acceleration": "band_worst_acceleration_2",
+           "band_worst_factor": "band_worst_factor_2",
            **{f"var_{v}": f"var_{v}_2" for v in "wgxytnd"}}
 
 
 def _second_of(step: Step) -> Step:
-    """Direction 2's copy of a direction-1 closed form (its names renamed)."""
+    """Direction 2's copy of a direction-1 step (its names renamed; an engine value guarded by
+    the direction-2 copy of its flag)."""
     return Step(_SECOND[step.name], renamed(step.compute, _SECOND), step.expression + " (dir. 2)",
-                step.source)
+                step.source, flag=step.flag and step.flag + "_2")
 
 
 def _second_direction_section(method: str, core: tuple[Section, ...]) -> Section:
     """The same pendulum mass in the second sway direction: tuning, springs, response."""
     d = DIRECTION_FORMS
     by_name = {s.name: s for sec in core for s in sec.steps}
-    if method in CLOSED_FORMS:
-        tuning = tuple(_second_of(by_name[n]) for n in ("tuning_ratio", "damper_damping"))
-    else:
-        source = (f"functions.damper.optimal_tuning(method='{method}') for mu_2 and zeta_s2; "
-                  "numerical, no closed form")
-        tuning = tuple(_engine(name, (lambda i: lambda mass_ratio_2, structural_damping_2:
-                                      _optimum(float(mass_ratio_2), method,
-                                               float(structural_damping_2))[i])(i),
-                               "numerical optimum", source, "engine_flag_tuning_2")
-                       for i, name in enumerate(("tuning_ratio_2", "damper_damping_2")))
+    tuning = tuple(_second_of(by_name[n]) for n in ("tuning_ratio", "damper_damping"))
     spring = d["spring_stiffness_2"]
 
     def springs(damper_mass, damper_frequency_2, damper_frequency):
@@ -490,6 +493,11 @@ def _second_direction_section(method: str, core: tuple[Section, ...]) -> Section
             return 0.0
         return required_mass_ratio(need, zs, method)
 
+    def required_over_band(acceleration_2, acceleration_limit_2, structural_damping_2,
+                           band_lower, band_upper):
+        return band_mass_ratio(acceleration_2, acceleration_limit_2, structural_damping_2,
+                               band_lower, band_upper, "robust")
+
     variance = [_second_of(by_name[f"var_{v}"]) for v in "wgxytnd"]
     response = [_second_of(by_name[n]) for n in (
         "effective_damping", "acceleration_with_damper", "structure_displacement",
@@ -524,7 +532,10 @@ def _second_direction_section(method: str, core: tuple[Section, ...]) -> Section
         _engine("required_mass_ratio_2", required, "zeta_eff(mu, f_opt, zeta_opt, zeta_s2) = "
                 "zeta_req2", f"functions.damper.required_mass_ratio(method='{method}') "
                 "(0 when the structure alone, or a 1e-4 damper, meets it)",
-                "engine_flag_mass_ratio_2"),
+                "engine_flag_mass_ratio_2") if method != "robust" else
+        _engine("required_mass_ratio_2", required_over_band, "max over r of a_d2(r) = a_lim2",
+                "functions.envelope.band_mass_ratio(method='robust') for direction 2 (0 when "
+                "the structure alone meets it)", "engine_flag_mass_ratio_2"),
         _as_step("required_damper_mass_2", d["required_damper_mass_2"]),
         _as_step("combined_stroke", d["combined_stroke"]),
         _as_step("stroke_sum", d["stroke_sum"]),
@@ -537,26 +548,13 @@ def _second_direction_section(method: str, core: tuple[Section, ...]) -> Section
        "no source).")
 
 
-def _second_band_section() -> Section:
+def _second_band_section(method: str) -> Section:
     """The second direction over the frequency band (its frequency off by the same factor)."""
-    worst = "functions.envelope.band_worst_case: dense grid and golden section over the band"
-
-    def pick(i: int) -> Callable[..., float]:
-        def value(band_lower, band_upper, acceleration_2, mass_ratio_2, tuning_ratio_2,
-                  damper_damping_2, structural_damping_2, response_exponent):
-            return _worst_case(float(band_lower), float(band_upper), float(acceleration_2),
-                               float(mass_ratio_2), float(tuning_ratio_2),
-                               float(damper_damping_2), float(structural_damping_2),
-                               float(response_exponent))[i]
-        return value
-    return Section("Frequency band, second direction", (
-        Step("band_worst_acceleration_2", pick(0), "max over r of a_2 r^k sqrt(zeta_s2 / "
-             "zeta_eff(mu_2, f_2/r, zeta_d2, zeta_s2))", worst, flag="engine_flag_band_2"),
-        Step("band_worst_factor_2", pick(1), "r where a_d2(r) is largest", worst,
-             flag="engine_flag_band_2"),
-    ), "Direction 2's frequency off by the same factor r as the main direction's (one "
-       "stiffness error), its damper as designed: the same assumptions as the band of the main "
-       "direction.")
+    return Section("Frequency band, second direction", tuple(
+        _second_of(step) for step in _band_section(method).steps[:2]),
+        "Direction 2's frequency off by the same factor r as the main direction's (one "
+        "stiffness error), its damper as designed: the same assumptions as the band of the "
+        "main direction.")
 
 
 def _second_extreme_section() -> Section:
@@ -614,7 +612,8 @@ def sections(method: str, mode: str, parts: tuple[str, ...] = ()) -> tuple[Secti
     Parameters
     ----------
     method : str
-        Tuning method, one of ``functions.damper.OPTIMAL_TUNING_METHODS`` [-].
+        Tuning method, one of ``functions.envelope.BAND_METHODS``: the optima of
+        ``functions.damper.OPTIMAL_TUNING_METHODS``, or ``robust`` (with the part ``band``) [-].
     mode : str
         One of :data:`MASS_RATIO_MODES` [-].
     parts : tuple of str, optional
@@ -630,8 +629,11 @@ def sections(method: str, mode: str, parts: tuple[str, ...] = ()) -> tuple[Secti
     ValueError
         For an unknown method or mode.
     """
-    if method not in OPTIMAL_TUNING_METHODS:
-        raise ValueError(f"method={method!r} must be one of {', '.join(OPTIMAL_TUNING_METHODS)}")
+    if method not in BAND_METHODS:
+        raise ValueError(f"method={method!r} must be one of {', '.join(BAND_METHODS)}")
+    if method == "robust" and "band" not in parts:
+        raise ValueError("method='robust' tunes the damper for a frequency band: it needs the "
+                         "band (band_lower, band_upper)")
     if not valid_parts(parts):
         raise ValueError(f"parts={parts!r} must be taken from {', '.join(PARTS)}, in that "
                          "order (measured_damping only with as_built)")
@@ -650,7 +652,7 @@ def sections(method: str, mode: str, parts: tuple[str, ...] = ()) -> tuple[Secti
         if "extreme" in parts:
             extra.append(_second_extreme_section())
         if "band" in parts:
-            extra.append(_second_band_section())
+            extra.append(_second_band_section(method))
     return core + tuple(Section(f"{n}  {sec.title}", sec.steps, sec.note)
                         for n, sec in enumerate(extra, start=len(core) + 1))
 
@@ -785,5 +787,9 @@ def all_variants(parts: bool = False) -> list[tuple[str, str, list[Step]]]:
     """``(method, mode, steps)`` for every tuning method and mass-ratio mode (and, with
     ``parts``, every set of optional parts: then the whole step list of each)."""
     sets = PART_SETS if parts else ((),)
-    return [(method, mode, steps(method, mode, p)) for method in OPTIMAL_TUNING_METHODS
-            for mode in MASS_RATIO_MODES for p in sets]
+    out = [(method, mode, steps(method, mode, p)) for method in OPTIMAL_TUNING_METHODS
+           for mode in MASS_RATIO_MODES for p in sets]
+    if parts:           # the robust tuning, with the band it is tuned for
+        out += [("robust", mode, steps("robust", mode, p)) for mode in MASS_RATIO_MODES
+                for p in sets if "band" in p]
+    return out

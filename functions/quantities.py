@@ -36,7 +36,7 @@ from typing import Any, Iterable
 
 from functions._validation import check_range, interval_text
 from functions.relations import ENVELOPE_INPUTS, OPTIONAL_TABLES, input_relation_errors
-from functions.damper import OPTIMAL_TUNING_METHODS
+from functions.envelope import BAND_METHODS
 from functions.pendulum import STANDARD_GRAVITY
 
 __all__ = [
@@ -279,11 +279,11 @@ DESIGN_INPUTS: tuple[Quantity, ...] = (
        note="Give the mass ratio or the damper mass, or neither (the required mass ratio is "
             "used)."),
     _q("tuning_method", "", "Tuning method", "", "choice", default="h2",
-       choices=OPTIMAL_TUNING_METHODS, section="damper", summary=True,
+       choices=BAND_METHODS, section="damper", summary=True,
        description="Optimal tuning method",
        note="h2 and hinf hold for a damped structure; the closed forms are derived for an "
-            "undamped one. The Calculation sheet is laid out for the method (rebuild to "
-            "change it)."),
+            "undamped one; robust tunes for the frequency band (needs [band]). The "
+            "Calculation sheet is laid out for the method (rebuild to change it)."),
     _q("clearance", "x_max", "Available peak stroke (one side)", "m", "length", 0.0, 100.0,
        low_open=True, fmt=_LENGTH_FMT, section="damper", summary=True,
        description="Available peak stroke of the damper, one side",

@@ -92,6 +92,15 @@ def input_relation_errors(values: Mapping[str, Any]) -> list[tuple[str, str]]:
         errors.append(("extreme_acceleration_2", "extreme_acceleration_2="
                        f"{values['extreme_acceleration_2']!r} needs the second direction "
                        f"({', '.join(second)})"))
+    if values.get("tuning_method") == "robust":
+        if values.get("band_lower") is None:
+            errors.append(("tuning_method", "tuning_method='robust' tunes the damper for a "
+                                            "frequency band: give band_lower and band_upper"))
+        elif values.get("response_exponent") not in (None, 0.0):
+            errors.append(("response_exponent", "response_exponent="
+                           f"{values['response_exponent']!r} must be 0 with "
+                           "tuning_method='robust' (the robust tuning holds the response "
+                           "without the damper constant across the band)"))
     lo, hi = values.get("mass_ratio_min"), values.get("mass_ratio_max")
     if lo is not None and hi is not None and not hi > lo:
         errors.append(("mass_ratio_max", f"mass_ratio_max={hi!r} must be above mass_ratio_min="

@@ -176,7 +176,8 @@ def test_text_choices_are_the_engine_choices():
                       "tuning_method": damper.OPTIMAL_TUNING_METHODS,
                       "load_type": simulation.LOAD_TYPES}
     # the band's mass ratio also offers the robust tuning
-    per_function = {("SWAY_BAND_MASS_RATIO", "method"): envelope.BAND_METHODS}
+    per_function = {("SWAY_BAND_MASS_RATIO", "method"): envelope.BAND_METHODS,
+                    ("SWAY_DESIGN", "tuning_method"): envelope.BAND_METHODS}
     for fn in FUNCTIONS:
         for a in fn.arguments:
             if a.kind == TEXT:

@@ -86,6 +86,11 @@ GENERATED = (
                                        "structural_damping": 0.012, "acceleration": 0.22,
                                        "acceleration_limit": 0.15,
                                        "extreme_acceleration": 0.6}}),
+       ("robust", {**_variant("G-19", tuning_method="robust"),
+                   "band": {"lower": 0.88, "upper": 1.1}, "as_built": {"frequency": 0.21},
+                   "direction_2": {"frequency": 0.24, "modal_mass": 8.0e6,
+                                   "structural_damping": 0.01, "acceleration": 0.2,
+                                   "acceleration_limit": 0.15}}),
        ("us_two_directions", {**_variant("G-18", "US", tuning_method="den_hartog"),
                               "direction_2": {"frequency": 0.21, "modal_mass": 18000,
                                               "structural_damping": 0.01,
@@ -166,7 +171,7 @@ def test_the_generated_set_covers_failing_checks_and_every_method(recalculated):
     failing = recalculated["not_ok"][0].result.checks
     assert [c.ok for c in failing].count(False) >= 2
     methods = {recalculated[n][0].plan.options.tuning_method for n in ALL}
-    assert methods == set(OPTIMAL_TUNING_METHODS)
+    assert methods == set(OPTIMAL_TUNING_METHODS) | {"robust"}
     assert {recalculated[n][0].plan.options.units for n in ALL} == {"SI", "US"}
     parts = {recalculated[n][0].plan.options.parts for n in ALL}
     assert ("band", "as_built", "measured_damping") in parts and ("band", "as_built") in parts

@@ -49,7 +49,12 @@ OPTIONS = [PlanOptions(units=units, tuning_method=method, mass_ratio_mode=mode,
                (None, ("random", 50, 20), ("harmonic", 30, 10)),
                ((), ("band",), ("as_built",), ALL_PARTS))
            if not (template and sim) and (method in ("h2", "den_hartog") or units == "SI")
-           and (not parts or (floors == 0 and not template and sim != ("harmonic", 30, 10)))]
+           and (not parts or (floors == 0 and not template and sim != ("harmonic", 30, 10)))] + [
+    # the robust tuning, with the band it is tuned for
+    PlanOptions(units=units, tuning_method="robust", mass_ratio_mode=mode,
+                inputs=_inputs(mode, 0, parts), simulation=sim, parts=parts)
+    for mode, units, sim, parts in itertools.product(
+        MASS_RATIO_MODES, ("SI", "US"), (None, ("random", 50, 20)), (("band",), ALL_PARTS))]
 
 
 @pytest.mark.parametrize("options", OPTIONS, ids=lambda o: f"{o.tuning_method}-{o.mass_ratio_mode}"

@@ -58,7 +58,8 @@ def test_inputs_are_placed_in_the_project_file():
     assert all(q.section in ("mode", "wind", "damper", "band", "as_built", "direction_2",
                              "site") for q in DESIGN_INPUTS)
     assert set(qs.OPTIONAL_TABLES) == {"band", "as_built", "direction_2"}
-    assert qs.by_name(DESIGN_INPUTS)["tuning_method"].choices == OPTIMAL_TUNING_METHODS
+    assert qs.by_name(DESIGN_INPUTS)["tuning_method"].choices == OPTIMAL_TUNING_METHODS + (
+        "robust",)
 
 
 @pytest.mark.parametrize("q", [q for q in DESIGN_INPUTS if q.kind not in ("choice",)],

@@ -29,6 +29,9 @@ SECOND = dict(frequency_2=0.25, modal_mass_2=9e6, structural_damping_2=0.01, acc
     ({**SECOND, "modal_mass_2": None}, "modal_mass_2", "is missing"),
     ({**SECOND, "extreme_acceleration": 0.6}, "extreme_acceleration_2", "in both or in neither"),
     (dict(extreme_acceleration_2=0.6), "extreme_acceleration_2", "needs the second direction"),
+    (dict(tuning_method="robust"), "tuning_method", "give band_lower and band_upper"),
+    (dict(tuning_method="robust", band_lower=0.9, band_upper=1.1, response_exponent=-0.3),
+     "response_exponent", "must be 0 with tuning_method='robust'"),
     ({**SECOND, "acceleration_2": 0.3, "extreme_acceleration": 0.6,
       "extreme_acceleration_2": 0.25}, "extreme_acceleration_2", "must not be below"),
 ])

@@ -55,7 +55,8 @@ def _cases(n=60, seed=20261202):
     """Design inputs spread over their declared valid ranges (engine failures skipped)."""
     rng = np.random.default_rng(seed)
     out = []
-    methods = INPUTS["tuning_method"].choices
+    # every method that needs no frequency band (robust: test_chain.py, test_gnumeric.py)
+    methods = tuple(m for m in INPUTS["tuning_method"].choices if m != "robust")
     while len(out) < n:
         kw = {name: _uniform(rng, INPUTS[name], log=True) for name in
               ("frequency", "modal_mass", "structural_damping")}

@@ -30,7 +30,7 @@ from typing import Any
 import numpy as np
 
 from functions.damper import effective_damping, frequency_response
-from functions.envelope import detuned_acceleration, detuned_effective_damping
+from functions.envelope import detuned_acceleration, detuned_effective_damping, robust_tuning
 from functions.levels import MELBOURNE_PALMER_FREQUENCIES, melbourne_palmer_limit
 from functions.design import CAUTION, design_tuning
 from functions.pendulum import small_angle_error
@@ -164,7 +164,10 @@ def chart_tables(result: Any) -> dict[str, ChartTable]:
     hi_m = max(float(p.mass_ratio_max), mu)
     lo_m = lo_m if lo_m > 0 else hi_m / 100.0          # a lower end of 0: start at 1 %
     mus = np.linspace(lo_m, hi_m, MASS_RATIO_POINTS)
-    f_opt, z_opt = design_tuning(mus, p.tuning_method, zs)
+    if p.tuning_method == "robust":          # each mass ratio tuned robustly for the band
+        f_opt, z_opt = robust_tuning(mus, p.band_lower, p.band_upper, zs)
+    else:
+        f_opt, z_opt = design_tuning(mus, p.tuning_method, zs)
     z_eff = effective_damping(mus, f_opt, z_opt, zs)
     damping = tuple(zip(_floats(mus), _floats(f_opt), _floats(z_opt), _floats(z_eff)))
     required = float(result.required_damping)

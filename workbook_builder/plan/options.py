@@ -15,7 +15,7 @@ from dataclasses import asdict, dataclass, fields
 from typing import Any
 
 from functions.chain import MASS_RATIO_MODES, mass_ratio_mode, parts_of, valid_parts
-from functions.damper import OPTIMAL_TUNING_METHODS
+from functions.envelope import BAND_METHODS
 from functions.quantities import design_inputs
 
 from ..project.schema import OPTION_KEYS
@@ -63,9 +63,10 @@ class PlanOptions:
     version: int = PLAN_VERSION
 
     def __post_init__(self) -> None:
-        if self.tuning_method not in OPTIMAL_TUNING_METHODS:
+        if self.tuning_method not in BAND_METHODS or (self.tuning_method == "robust"
+                                                      and "band" not in self.parts):
             raise ValueError(f"tuning_method={self.tuning_method!r} must be one of "
-                             f"{', '.join(OPTIMAL_TUNING_METHODS)}")
+                             f"{', '.join(BAND_METHODS)} (robust only with a band)")
         if self.mass_ratio_mode not in MASS_RATIO_MODES:
             raise ValueError(f"mass_ratio_mode={self.mass_ratio_mode!r} must be one of "
                              f"{', '.join(MASS_RATIO_MODES)}")
