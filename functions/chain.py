@@ -378,24 +378,36 @@ def _engine(name: str, compute: Callable[..., Any], expression: str, source: str
     return Step(name, compute, expression, source, flag=flag)
 
 
+_REACH = "raise the damper mass or the clearance"
+
+
+def _below_length(name: str, form: Callable[..., Any], remedy: str) -> Step:
+    """A swing angle asin(stroke / L) that refuses a stroke the pendulum cannot reach (the
+    first name the twin ``form`` reads is the stroke)."""
+    stroke = form.worksheet.names[0]
+
+    def swing(**cells):
+        if not cells[stroke] < cells["pendulum_length"]:
+            raise ValueError(f"{stroke}={cells[stroke]!r} m must be below pendulum_length="
+                             f"{cells['pendulum_length']!r} m: the pendulum cannot reach it; "
+                             f"{remedy}")
+        return form(**cells)
+    swing.__signature__ = inspect.signature(form)    # type: ignore[attr-defined]
+    return Step(name, twin(form.worksheet.formula, swing, form.worksheet.expression,
+                           form.worksheet.source), form.worksheet.expression,
+                form.worksheet.source)
+
+
 def _extreme_section() -> Section:
     """The damper at the extreme wind: stroke, swing and detuning, buffers, force."""
     f = LEVEL_FORMS
-
-    def swing(extreme_stroke, pendulum_length):
-        if not extreme_stroke < pendulum_length:
-            raise ValueError(f"extreme_stroke={extreme_stroke:.6g} m must be below "
-                             f"pendulum_length={pendulum_length:.6g} m: the linear response "
-                             "at the extreme level swings past the hanger; raise the damper "
-                             "mass or lower extreme_acceleration")
-        return f["extreme_swing_deg"](extreme_stroke, pendulum_length)
     error = SMALL_SWING_ERROR.replace("swing_angle_deg", "extreme_swing_deg").replace(
         "agm_at_swing", "agm_at_extreme_swing")
     return Section("Extreme level: stroke, swing, buffers and force", (
         *(_as_step(name, f[name]) for name in ("extreme_acceleration_with_damper",
                                                "extreme_displacement", "extreme_stroke")),
-        Step("extreme_swing_deg", twin(f["extreme_swing_deg"].worksheet.formula, swing,
-                                       "asin(x_d,x / L)", "Plane trigonometry")),
+        _below_length("extreme_swing_deg", f["extreme_swing_deg"],
+                      "raise the damper mass or lower extreme_acceleration"),
         Step("extreme_small_angle_error", lambda extreme_swing_deg:
              small_angle_error(extreme_swing_deg), "T / T_0 - 1 at theta_x (as step 5.4)",
              "A&S 17.6 (AGM at the extreme swing, Pendulum sheet); series below 0.1 rad",
@@ -465,19 +477,6 @@ def _second_direction_section(method: str, core: tuple[Section, ...]) -> Section
                 "the main mode ([mode]) and the other as [direction_2]")
         return spring(damper_mass, damper_frequency_2, damper_frequency)
 
-    def below_length(name: str, form: Callable[..., Any]) -> Step:
-        stroke = form.worksheet.names[0]
-
-        def swing(**cells):
-            if not cells[stroke] < cells["pendulum_length"]:
-                raise ValueError(f"{stroke}={cells[stroke]!r} m must be below pendulum_length="
-                                 f"{cells['pendulum_length']!r} m: the pendulum cannot reach "
-                                 "it; raise the damper mass or the clearance")
-            return form(**cells)
-        swing.__signature__ = inspect.signature(form)    # type: ignore[attr-defined]
-        return Step(name, twin(form.worksheet.formula, swing, form.worksheet.expression,
-                               form.worksheet.source))
-
     def at_swing(pendulum_length, spring_stiffness_2, damper_mass, swing_angle_deg_2, gravity):
         return spring_pendulum_frequency(pendulum_length, spring_stiffness_2, damper_mass,
                                          swing_angle_deg_2, gravity)
@@ -508,7 +507,7 @@ def _second_direction_section(method: str, core: tuple[Section, ...]) -> Section
         *tuning,
         _as_step("damper_frequency_2", d["damper_frequency_2"]),
         *variance, *response,
-        below_length("swing_angle_deg_2", d["swing_angle_deg_2"]),
+        _below_length("swing_angle_deg_2", d["swing_angle_deg_2"], _REACH),
         Step("spring_stiffness_2", twin(spring.worksheet.formula, springs,
                                         spring.worksheet.expression, spring.worksheet.source)),
         _second_of(by_name["stiffness"]),
@@ -539,7 +538,7 @@ def _second_direction_section(method: str, core: tuple[Section, ...]) -> Section
         _as_step("required_damper_mass_2", d["required_damper_mass_2"]),
         _as_step("combined_stroke", d["combined_stroke"]),
         _as_step("stroke_sum", d["stroke_sum"]),
-        below_length("combined_swing_deg", d["combined_swing_deg"]),
+        _below_length("combined_swing_deg", d["combined_swing_deg"], _REACH),
     ), "One mass, two mass ratios; the hangers are cut for the main direction (the lower damper "
        "frequency) and horizontal springs lift the pendulum to f_d2 in direction 2: omega^2 = "
        "g/L + k/m (textbook, small swing), sized with g/L_0 at the main direction's swing. "

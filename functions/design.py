@@ -484,11 +484,11 @@ def design_tuning(mass_ratio, tuning_method="h2", structural_damping=0.0):
     return scalar_or_array(f), scalar_or_array(zd)
 
 
-def _run_steps(p: DesignInputs) -> dict[str, float]:
+def _run_steps(p: DesignInputs, parts: tuple[str, ...]) -> dict[str, float]:
     mode = mass_ratio_mode(p.mass_ratio is not None, p.damper_mass is not None)
     cells: dict[str, Any] = {q.cell_name: getattr(p, q.name) for q in design_inputs()
                              if q.kind != "choice" and getattr(p, q.name) is not None}
-    for step in steps(p.tuning_method, mode, parts_of(p.as_dict())):
+    for step in steps(p.tuning_method, mode, parts):
         try:
             cells[step.name] = step.evaluate(cells)
         except ValueError as exc:
@@ -588,8 +588,9 @@ def design_damper(inputs: DesignInputs | None = None, **kwargs: Any) -> DesignRe
             f"acceleration={p.acceleration!r} is already within acceleration_limit="
             f"{p.acceleration_limit!r} [m/s^2]: no damper is required; give damper_mass or "
             f"mass_ratio to size one anyway")
-    cells = _run_steps(p)
-    checks = tuple(rule.evaluate(cells) for rule in check_rules(parts_of(p.as_dict())))
+    parts = parts_of(p.as_dict())
+    cells = _run_steps(p, parts)
+    checks = tuple(rule.evaluate(cells) for rule in check_rules(parts))
     return DesignResult(p, cells, checks)
 
 

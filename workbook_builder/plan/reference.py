@@ -113,14 +113,18 @@ def recorded_inputs(options: PlanOptions) -> list:
     return [q for q in design_inputs() if q.kind != "choice" and q.name in options.inputs]
 
 
+def part_key_results(options: PlanOptions) -> list:
+    """The key results of the optional parts of the calculation ``options`` holds, in
+    checking order."""
+    keys = {q.cell_name: q for q in PART_RESULTS if q.summary}
+    return [keys[s.name] for s in steps(options.tuning_method, options.mass_ratio_mode,
+                                        options.parts) if s.name in keys]
+
+
 def recorded_results(options: PlanOptions) -> list:
     """The result quantities whose engine value the Record sheet keeps: the key results, and
     the modal mass when a floor table gives it (an edited floor shows as its change)."""
-    out = [q for q in design_results() if q.summary]
-    if options.parts:           # the key results of the optional parts present, in order
-        keys = {q.cell_name: q for q in PART_RESULTS if q.summary}
-        out += [keys[s.name] for s in steps(options.tuning_method, options.mass_ratio_mode,
-                                            options.parts) if s.name in keys]
+    out = [q for q in design_results() if q.summary] + part_key_results(options)
     if options.floors:
         out.insert(0, next(q for q in design_inputs() if q.name == "modal_mass"))
     return out

@@ -12,9 +12,8 @@ sheet starts with its heading.
 """
 from __future__ import annotations
 
-from functions.chain import steps
 from functions.design import CheckRule, check_rules
-from functions.quantities import PART_RESULTS, Quantity, design_inputs, design_results, quantity
+from functions.quantities import Quantity, design_inputs, design_results, quantity
 from functions.worksheet import formula_names
 
 from ..project.units import us_display
@@ -22,7 +21,7 @@ from .calculation import engine_flags, result_comment, unit_format
 from .checks import NONLINEAR_CHECKS, check_name
 from .inputs import input_comment
 from .options import PlanOptions
-from .reference import CAUTIONS
+from .reference import CAUTIONS, part_key_results
 from .sheet import Looks, SheetLayout, ref
 
 __all__ = ["summary_sheet", "HEADING", "TITLE_BLOCK", "key_results", "VERDICT_LABELS",
@@ -80,15 +79,9 @@ def key_results(options: PlanOptions | None = None) -> list[str]:
     """Defined names of the key results shown on the Summary sheet, in checking order (with
     ``options``, those of its optional parts too)."""
     names = [q.cell_name for q in design_results() if q.summary]
-    if options is not None and options.parts:
-        names += [s.name for s in steps(options.tuning_method, options.mass_ratio_mode,
-                                         options.parts)
-                  if s.name not in names and s.name in _PART_KEY_RESULTS]
+    if options is not None:
+        names += [q.cell_name for q in part_key_results(options)]
     return names
-
-
-#: Key results of the optional parts of the calculation.
-_PART_KEY_RESULTS = frozenset(q.cell_name for q in PART_RESULTS if q.summary)
 
 
 def _rule_of(name: str, parts: tuple[str, ...] = ()) -> CheckRule | None:
