@@ -27,7 +27,7 @@ name of the topic modules is re-exported here, imported on first use::
 import importlib
 from typing import Any
 
-__version__ = "0.4.0"
+__version__ = "0.5.0"
 
 #: The topic modules, in the order their names are searched. They are imported on first use
 #: (PEP 562), so ``import functions.quantities`` or the ``swaytune --version`` command does not

@@ -26,11 +26,11 @@ from __future__ import annotations
 
 import functools
 import inspect
-from dataclasses import dataclass
 from typing import Any, Callable
 
 import numpy as np
 
+from functions.chain_supply import supply_sections
 from functions.damper import (CLOSED_FORMS, MIN_NUMERICAL_MASS_RATIO, OPTIMAL_TUNING_METHODS,
                               effective_damping, optimal_tuning,
                               required_mass_ratio)
@@ -38,7 +38,9 @@ from functions.directions import DIRECTION_FORMS, spring_pendulum_frequency
 from functions.envelope import BAND_METHODS, band_mass_ratio, band_worst_case, robust_tuning
 from functions.levels import LEVEL_FORMS
 from functions.pendulum import pendulum_length, small_angle_error
-from functions.worksheet import form_of, renamed, twin
+from functions.steps import Section, Step, closed_form as _step, engine_value as _engine, \
+    from_form as _as_step
+from functions.worksheet import renamed, twin
 
 __all__ = ["Step", "Section", "MASS_RATIO_MODES", "mass_ratio_mode", "sections", "steps",
            "all_variants", "VARIANCE_SOURCE", "SMALL_SWING_ERROR", "PARTS", "parts_of",
@@ -50,64 +52,13 @@ MASS_RATIO_MODES = ("chosen_mass_ratio", "chosen_damper_mass", "required")
 #: Optional parts of the calculation, each present when its inputs are given: the frequency
 #: band (``band_lower``, ``band_upper``), the as-built retune (``measured_frequency``) and the
 #: measured damping it uses (``measured_damping``).
-PARTS = ("band", "as_built", "measured_damping", "extreme", "comfort", "direction_2")
+#: ``supply`` (the table ``[supply]``: dashpots, hangers, block, space, forces) with
+#: ``dashpots_at_extreme`` when its dashpots are set at the extreme level.
+PARTS = ("band", "as_built", "measured_damping", "extreme", "comfort", "direction_2", "supply",
+         "dashpots_at_extreme")
 
 #: Source of the white-noise variance steps.
 VARIANCE_SOURCE = "I4 integral (Newland 1993, App. 1), regrouped: no cancellation"
-
-
-@dataclass(frozen=True)
-class Step:
-    """One cell of the calculation.
-
-    ``compute`` takes the cells it reads as keyword arguments (its parameter names are defined
-    names) and returns the cell's value. When it is a twin (:func:`functions.worksheet.twin`)
-    its worksheet formula is the step's formula; otherwise ``formula`` names the workbook's
-    helper cells that compute the same value (``""``: an engine value, no worksheet formula).
-    """
-
-    name: str
-    compute: Callable[..., Any]
-    expression: str = ""
-    source: str = ""
-    formula_via_helpers: str = ""
-    #: Defined name of the flag that guards an engine value (its inputs changed since it was
-    #: computed); '' for a worksheet formula.
-    flag: str = ""
-
-    @functools.cached_property
-    def reads(self) -> tuple[str, ...]:
-        """The cells this step reads (the parameters of ``compute``)."""
-        return tuple(inspect.signature(self.compute).parameters)
-
-    @property
-    def formula(self) -> str:
-        """The worksheet formula of the cell ('' for an engine value)."""
-        form = form_of(self.compute)
-        return form.formula if form is not None else self.formula_via_helpers
-
-    @property
-    def is_engine_value(self) -> bool:
-        """True when the workbook shows the engine's number (no closed form)."""
-        return not self.formula
-
-    @property
-    def is_twin(self) -> bool:
-        """True when the worksheet formula and the numpy function are one closed form."""
-        return form_of(self.compute) is not None
-
-    def evaluate(self, cells: dict[str, Any]) -> float:
-        """The step's value from the cells computed before it."""
-        return float(self.compute(**{name: cells[name] for name in self.reads}))
-
-
-@dataclass(frozen=True)
-class Section:
-    """A titled group of steps with a note for the reader."""
-
-    title: str
-    steps: tuple[Step, ...]
-    note: str = ""
 
 
 def mass_ratio_mode(mass_ratio_given: bool, damper_mass_given: bool) -> str:
@@ -135,13 +86,11 @@ def parts_of(values: Any) -> tuple[str, ...]:
              "measured_damping": values.get("measured_damping") is not None,
              "extreme": values.get("extreme_acceleration") is not None,
              "comfort": values.get("return_period") is not None,
-             "direction_2": values.get("frequency_2") is not None}
+             "direction_2": values.get("frequency_2") is not None,
+             "supply": values.get("hanger_count") is not None,
+             "dashpots_at_extreme": values.get("hanger_count") is not None
+             and values.get("dashpot_level") == "extreme"}
     return tuple(part for part in PARTS if given[part])
-
-
-def _step(name: str, formula: str, compute: Callable[..., Any], expression: str,
-          source: str = "") -> Step:
-    return Step(name, twin(formula, compute, expression, source), expression, source)
 
 
 _TWO_PI = 2.0 * np.pi
@@ -373,11 +322,6 @@ def _as_built_section(design_method: str, measured_damping: bool) -> Section:
        "locked must first be multiplied by sqrt(1 + mu).")
 
 
-def _engine(name: str, compute: Callable[..., Any], expression: str, source: str,
-            flag: str) -> Step:
-    return Step(name, compute, expression, source, flag=flag)
-
-
 _REACH = "raise the damper mass or the clearance"
 
 
@@ -596,11 +540,6 @@ def _second_extreme_section() -> Section:
        "its excess.")
 
 
-def _as_step(name: str, form: Callable[..., Any]) -> Step:
-    """A step from a twin declared in an engine module (its expression and source kept)."""
-    return Step(name, form, form.worksheet.expression, form.worksheet.source)
-
-
 @functools.lru_cache(maxsize=None)
 def sections(method: str, mode: str, parts: tuple[str, ...] = ()) -> tuple[Section, ...]:
     """The calculation's sections for a tuning ``method``, mass-ratio ``mode`` and optional
@@ -635,7 +574,8 @@ def sections(method: str, mode: str, parts: tuple[str, ...] = ()) -> tuple[Secti
                          "band (band_lower, band_upper)")
     if not valid_parts(parts):
         raise ValueError(f"parts={parts!r} must be taken from {', '.join(PARTS)}, in that "
-                         "order (measured_damping only with as_built)")
+                         "order (measured_damping only with as_built, supply only with "
+                         "extreme, dashpots_at_extreme only with supply)")
     core = _core_sections(method, mode)
     extra = []
     if "band" in parts:
@@ -652,6 +592,8 @@ def sections(method: str, mode: str, parts: tuple[str, ...] = ()) -> tuple[Secti
             extra.append(_second_extreme_section())
         if "band" in parts:
             extra.append(_second_band_section(method))
+    if "supply" in parts:
+        extra += supply_sections(parts, _SECOND)
     return core + tuple(Section(f"{n}  {sec.title}", sec.steps, sec.note)
                         for n, sec in enumerate(extra, start=len(core) + 1))
 
@@ -772,14 +714,18 @@ def engine_flag_names(method: str, mode: str, parts: tuple[str, ...] = ()) -> li
 
 def valid_parts(parts: tuple[str, ...]) -> bool:
     """True for optional parts a calculation can hold: taken from :data:`PARTS`, in its
-    order, ``measured_damping`` only with ``as_built``."""
+    order, ``measured_damping`` only with ``as_built``, ``supply`` only with ``extreme``,
+    ``dashpots_at_extreme`` only with ``supply``."""
     return (tuple(p for p in PARTS if p in parts) == tuple(parts)
-            and ("measured_damping" not in parts or "as_built" in parts))
+            and ("measured_damping" not in parts or "as_built" in parts)
+            and ("supply" not in parts or "extreme" in parts)
+            and ("dashpots_at_extreme" not in parts or "supply" in parts))
 
 
 #: Sets of optional parts that, together, hold every section and every combination of two.
 PART_SETS = ((), ("band",), ("as_built", "measured_damping"), ("band", "as_built"),
-             ("extreme",), ("comfort",), ("direction_2",), ("extreme", "direction_2"), PARTS)
+             ("extreme",), ("comfort",), ("direction_2",), ("extreme", "direction_2"),
+             ("extreme", "supply"), ("extreme", "supply", "dashpots_at_extreme"), PARTS)
 
 
 def all_variants(parts: bool = False) -> list[tuple[str, str, list[Step]]]:

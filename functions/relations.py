@@ -15,7 +15,7 @@ from __future__ import annotations
 
 from typing import Any, Mapping
 
-__all__ = ["ENVELOPE_INPUTS", "OPTIONAL_TABLES", "input_relation_errors"]
+__all__ = ["ENVELOPE_INPUTS", "SUPPLY_INPUT_NAMES", "OPTIONAL_TABLES", "input_relation_errors"]
 
 #: Inputs of the design envelope (occupied floor, extreme level, comfort criterion, frequency
 #: band, as-built values, second direction), added in swaytune 0.4: a spreadsheet function
@@ -32,7 +32,15 @@ ENVELOPE_INPUTS: tuple[str, ...] = (
 OPTIONAL_TABLES: dict[str, tuple[str, ...]] = {
     "band": ("band_lower", "band_upper"), "as_built": ("measured_frequency",),
     "direction_2": ("frequency_2", "modal_mass_2", "structural_damping_2", "acceleration_2",
-                    "acceleration_limit_2")}
+                    "acceleration_limit_2"),
+    "supply": ("hanger_count", "hanger_safety_factor", "hanger_axial_stiffness",
+               "block_length_1", "block_length_2", "available_height", "buffer_stiffness")}
+
+#: Inputs of the damper's supply specification (table ``[supply]``), added in swaytune 0.5:
+#: a spreadsheet function lists them after the design envelope's.
+SUPPLY_INPUT_NAMES: tuple[str, ...] = (
+    "velocity_exponent", "dashpot_units", "dashpot_level") + OPTIONAL_TABLES["supply"][:3] + (
+    "block_density",) + OPTIONAL_TABLES["supply"][3:]
 
 
 def input_relation_errors(values: Mapping[str, Any]) -> list[tuple[str, str]]:
@@ -75,6 +83,16 @@ def input_relation_errors(values: Mapping[str, Any]) -> list[tuple[str, str]]:
         missing = next(n for n in second if values.get(n) is None)
         errors.append((missing, f"{missing} is missing: the second direction needs "
                                 f"{', '.join(second)}"))
+    supply = OPTIONAL_TABLES["supply"]
+    given_supply = [n for n in supply if values.get(n) is not None]
+    if given_supply and len(given_supply) < len(supply):
+        missing = next(n for n in supply if values.get(n) is None)
+        errors.append((missing, f"{missing} is missing: the supply specification needs "
+                                f"{', '.join(supply)}"))
+    elif given_supply and values.get("extreme_acceleration") is None:
+        errors.append(("extreme_acceleration", "extreme_acceleration is missing: the supply "
+                       "specification gives the dashpots, hangers and forces at the extreme "
+                       "level too; give the extreme level's acceleration ([wind])"))
     for suffix in ("", "_2"):
         x, a = values.get("extreme_acceleration" + suffix), values.get("acceleration" + suffix)
         if x is not None and a is not None and x < a:

@@ -168,13 +168,15 @@ def test_arguments_match_the_engine_signature(fn):
 
 
 def test_text_choices_are_the_engine_choices():
-    from functions import damper, envelope, simulation
+    from functions import damper, dashpots, envelope, simulation
     from functions import structure
+    from functions.quantities_supply import DASHPOT_LEVELS
     engine_choices = {"method": damper.OPTIMAL_TUNING_METHODS,
                       "structure_type": tuple(structure.MODE_SHAPE_EXPONENTS),
                       "building_type": tuple(structure.STRUCTURAL_LOG_DECREMENTS),
                       "tuning_method": damper.OPTIMAL_TUNING_METHODS,
-                      "load_type": simulation.LOAD_TYPES}
+                      "load_type": simulation.LOAD_TYPES,
+                      "dashpot_level": DASHPOT_LEVELS, "response": dashpots.RESPONSES}
     # the band's mass ratio also offers the robust tuning
     per_function = {("SWAY_BAND_MASS_RATIO", "method"): envelope.BAND_METHODS,
                     ("SWAY_DESIGN", "tuning_method"): envelope.BAND_METHODS}
@@ -199,7 +201,8 @@ def _engine_modules():
     # spreadsheet layer itself are not engine functions
     skip = {"functions._validation", "functions.udf", "functions.catalogue",
             "functions.quantities", "functions.worksheet", "functions.chain",
-            "functions.closed_forms"}
+            "functions.closed_forms", "functions.quantity", "functions.quantities_supply",
+            "functions.steps", "functions.chain_supply"}
     for info in pkgutil.iter_modules(functions.__path__, "functions."):
         if info.name not in skip:
             yield importlib.import_module(info.name)

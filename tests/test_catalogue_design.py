@@ -9,7 +9,7 @@ from __future__ import annotations
 import dataclasses
 
 from functions import catalogue, design, quantities, simulation
-from functions.quantities import ENVELOPE_INPUTS
+from functions.quantities import ENVELOPE_INPUTS, SUPPLY_INPUT_NAMES
 from functions.catalogue import design as sheet_design
 
 
@@ -59,4 +59,5 @@ def test_sway_design_keeps_the_positional_arguments_of_earlier_sheets():
                           "acceleration_limit", "clearance", "damper_mass", "mass_ratio",
                           "tuning_method", "max_swing_deg", "max_detuning", "mass_ratio_min",
                           "mass_ratio_max", "g"]
-    assert names[14:] == list(ENVELOPE_INPUTS)
+    assert names[14:14 + len(ENVELOPE_INPUTS)] == list(ENVELOPE_INPUTS)
+    assert names[14 + len(ENVELOPE_INPUTS):] == list(SUPPLY_INPUT_NAMES)

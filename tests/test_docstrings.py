@@ -20,8 +20,9 @@ import functions
 # declarations (quantities, worksheet twins, the chain's steps) and the spreadsheet layer (udf,
 # catalogue: thin wrappers documented for the function wizard) are not engine functions.
 SKIP_MODULES = {"functions._validation", "functions.udf", "functions.catalogue",
-                "functions.quantities", "functions.relations", "functions.worksheet", "functions.chain",
-                "functions.closed_forms"}
+                "functions.quantities", "functions.relations", "functions.worksheet",
+                "functions.chain", "functions.closed_forms", "functions.quantity",
+                "functions.quantities_supply", "functions.steps", "functions.chain_supply"}
 
 UNIT = re.compile(r"\[[^\[\]]+\]\.?$")
 ENTRY = re.compile(r"^(\*{0,2}[A-Za-z_][A-Za-z0-9_]*)\s*:\s*(.+)$")

@@ -28,6 +28,8 @@ NUMERIC = tuple(q.name for q in DESIGN_INPUTS if q.kind != "choice")
 PART_INPUTS = {"band": {"band_lower", "band_upper", "response_exponent"},
                "as_built": {"measured_frequency"}, "measured_damping": {"measured_damping"}}
 ALL_PARTS = ("band", "as_built", "measured_damping")
+#: The supply specification with everything it shows (both directions, the band's range).
+SUPPLY_PARTS = ("band", "extreme", "direction_2", "supply", "dashpots_at_extreme")
 
 
 def _inputs(mode: str, floors: int, parts: tuple[str, ...] = ()) -> tuple[str, ...]:
@@ -54,7 +56,8 @@ OPTIONS = [PlanOptions(units=units, tuning_method=method, mass_ratio_mode=mode,
     PlanOptions(units=units, tuning_method="robust", mass_ratio_mode=mode,
                 inputs=_inputs(mode, 0, parts), simulation=sim, parts=parts)
     for mode, units, sim, parts in itertools.product(
-        MASS_RATIO_MODES, ("SI", "US"), (None, ("random", 50, 20)), (("band",), ALL_PARTS))]
+        MASS_RATIO_MODES, ("SI", "US"), (None, ("random", 50, 20)), (("band",), ALL_PARTS,
+                                                            SUPPLY_PARTS))]
 
 
 @pytest.mark.parametrize("options", OPTIONS, ids=lambda o: f"{o.tuning_method}-{o.mass_ratio_mode}"
@@ -66,7 +69,8 @@ def test_plan_is_consistent(options):
     assert [s.title for s in plan.sheets] == [
         t for t in SHEETS if (t != "Nonlinear" or options.simulation)
         and (t != "Band" or "band" in options.parts)
-        and (t != "Comfort" or "comfort" in options.parts)]
+        and (t != "Comfort" or "comfort" in options.parts)
+        and (t != "Supply" or "supply" in options.parts)]
     for sheet, cell in plan.cells():
         if cell.kind in ("formula", "check"):
             check_formula(cell.content)

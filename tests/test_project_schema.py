@@ -28,7 +28,8 @@ def _toml(values: dict) -> str:
     for q in DESIGN_INPUTS:
         if q.name in values:
             v = values[q.name]
-            text = f'"{v}"' if isinstance(v, str) else repr(float(v))
+            text = f'"{v}"' if isinstance(v, str) else repr(v) if isinstance(v, int) \
+                else repr(float(v))
             tables.setdefault(q.section, []).append(f"{q.key or q.name} = {text}")
     return "".join(f"[{t}]\n" + "\n".join(lines) + "\n\n" for t, lines in tables.items())
 
@@ -40,6 +41,8 @@ def _candidates(q) -> list[float]:
         if math.isfinite(end):
             out += [end, float(np.nextafter(end, -np.inf)), float(np.nextafter(end, np.inf))]
     mid = q.default if q.has_default else (q.low + q.high) / 2
+    if q.kind == "count":             # whole numbers: the ends and next to them, as integers
+        return [int(q.low), int(q.low) - 1, int(q.high), int(q.high) + 1, int(mid), 2.5, -1]
     return out + [mid, -1.0, 0.0, 1e30]
 
 
@@ -57,6 +60,11 @@ def _case(q, v) -> dict:
               "acceleration_2": 0.2, "acceleration_limit_2": 0.15}
     if q.name in second or q.name == "extreme_acceleration_2":
         values.update(second, extreme_acceleration=10.0, extreme_acceleration_2=10.0)
+    supply = {"hanger_count": 4, "hanger_safety_factor": 3.0, "hanger_axial_stiffness": 2e8,
+              "block_length_1": 3.0, "block_length_2": 3.0, "available_height": 20.0,
+              "buffer_stiffness": 1e6}
+    if q.section == "supply":
+        values.update(supply, extreme_acceleration=10.0)
     values[q.name] = v
     return values
 

@@ -56,8 +56,8 @@ def test_inputs_are_placed_in_the_project_file():
     keys = [q.file_key for q in DESIGN_INPUTS]
     assert len(keys) == len(set(keys))
     assert all(q.section in ("mode", "wind", "damper", "band", "as_built", "direction_2",
-                             "site") for q in DESIGN_INPUTS)
-    assert set(qs.OPTIONAL_TABLES) == {"band", "as_built", "direction_2"}
+                             "site", "supply") for q in DESIGN_INPUTS)
+    assert set(qs.OPTIONAL_TABLES) == {"band", "as_built", "direction_2", "supply"}
     assert qs.by_name(DESIGN_INPUTS)["tuning_method"].choices == OPTIMAL_TUNING_METHODS + (
         "robust",)
 

@@ -49,6 +49,22 @@ def _eval(formula: str, cells: dict | None = None):
     ("=IFERROR(1/0,-1)", -1.0),
     ("=ROUND(2.5,0)", 3.0),
     ("=ROUND(-2.345,2)", -2.35),
+    # ROUNDUP rounds away from zero (Microsoft, "ROUNDUP function": ROUNDUP(3.2,0) = 4,
+    # ROUNDUP(76.9,0) = 77, ROUNDUP(3.14159,3) = 3.142, ROUNDUP(-3.14159,1) = -3.2,
+    # ROUNDUP(31415.92654,-2) = 31500)
+    ("=ROUNDUP(3.2,0)", 4.0),
+    ("=ROUNDUP(76.9,0)", 77.0),
+    ("=ROUNDUP(3.14159,3)", 3.142),
+    ("=ROUNDUP(-3.14159,1)", -3.2),
+    ("=ROUNDUP(31415.92654,-2)", 31500.0),
+    ("=ROUNDUP(3,0)", 3.0),                     # an integer stays
+    ("=ROUNDUP(0.1*3,1)", 0.3),                 # 0.30000000000000004: 15 digits, as a sheet
+    ("=ROUNDUP(2.7,0.9)", 3.0),                 # the digits are truncated to an integer
+    # GAMMALN = ln Gamma(x) (Microsoft, "GAMMALN function": GAMMALN(4) = ln 3! = 1.791759)
+    ("=GAMMALN(4)", math.log(6.0)),
+    ("=EXP(GAMMALN(0.5))", math.sqrt(math.pi)),  # Gamma(1/2) = sqrt(pi) (A&S 6.1.8)
+    ("=GAMMALN(1)", 0.0),
+    ("=GAMMALN(2.5)", math.lgamma(2.5)),
     ('="a"&"b"', "ab"),
     ('=IF("ok"="OK",1,0)', 1.0),               # text comparison ignores case
 ])
@@ -59,7 +75,8 @@ def test_evaluator(formula, expected):
 
 
 @pytest.mark.parametrize("formula", ["=1/0", "=SQRT(-1)", "=ASIN(2)", "=LN(0)", "=NOSUCH(1)",
-                                     "=missing_name+1", "=ATAN2(0,0)"])
+                                     "=missing_name+1", "=ATAN2(0,0)",
+                                     "=GAMMALN(0)", "=GAMMALN(-1.5)", "=ROUNDUP(1/0,0)"])
 def test_evaluator_errors(formula):
     assert is_error(_eval(formula))
 
@@ -77,6 +94,12 @@ def test_evaluator_errors(formula):
 def test_check_formula_refuses(formula, message):
     with pytest.raises(FormulaError, match=message):
         check_formula(formula)
+
+
+def test_gammaln_and_roundup_are_allowed():
+    # both exist with these names in Excel, LibreOffice Calc and Gnumeric
+    check_formula("=MAX(1,ROUNDUP(a/(b-c),0))+EXP(GAMMALN(1+x/2))")
+    assert functions_used("=ROUNDUP(GAMMALN(x),2)") == {"ROUNDUP", "GAMMALN"}
 
 
 def test_functions_used():

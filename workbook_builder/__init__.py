@@ -12,6 +12,6 @@ try:
     from importlib.metadata import version as _version
     __version__ = _version("swaytune")
 except Exception:  # pragma: no cover - running from a source tree without metadata
-    __version__ = "0.4.0"
+    __version__ = "0.5.0"
 
 __all__ = ["__version__"]

@@ -37,6 +37,7 @@ from functions.catalogue.design import DESIGN, SIMULATION, design_sheet_function
 from functions.catalogue.directions import DIRECTIONS
 from functions.catalogue.envelope import ENVELOPE
 from functions.catalogue.levels import LEVELS
+from functions.catalogue.supply import SUPPLY
 from functions.catalogue.mechanics import DAMPER, PENDULUM, STRUCTURE
 
 __all__ = [
@@ -51,7 +52,7 @@ _REQUIRED = REQUIRED
 
 #: Every worksheet function, in documentation order.
 FUNCTIONS: tuple[SheetFunction, ...] = (PENDULUM + STRUCTURE + DAMPER + ENVELOPE + LEVELS
-                                        + DIRECTIONS
+                                        + DIRECTIONS + SUPPLY
                                         + SIMULATION + DESIGN)
 
 #: Excel name -> declaration.
@@ -132,6 +133,7 @@ TOPICS = {
     "envelope": "Frequency band",
     "levels": "Extreme level and comfort",
     "directions": "Two sway directions",
+    "supply": "Supply specification",
     "simulation": "Simulation",
     "design": "Design chain",
 }

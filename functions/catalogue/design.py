@@ -128,9 +128,11 @@ def _design_arguments() -> tuple[Argument, ...]:
                              kind=TEXT if q.kind == "choice" else NUMBER, choices=q.choices,
                              fraction=q.kind == "fraction" and q.high <= 1.0))
     # required first (a worksheet function lists them before the optional ones), the design
-    # envelope's inputs last (positional arguments of sheets made before them stay valid)
-    return tuple(sorted(args, key=lambda a: (a.optional,
-                                             a.name in quantities.ENVELOPE_INPUTS)))
+    # envelope's inputs, then the supply's, last (positional arguments of sheets made before
+    # them stay valid)
+    later = quantities.ENVELOPE_INPUTS + quantities.SUPPLY_INPUT_NAMES
+    return tuple(sorted(args, key=lambda a: (a.optional, a.name in later,
+                                             a.name in quantities.SUPPLY_INPUT_NAMES)))
 
 
 def design_sheet_functions() -> tuple[SheetFunction, ...]:

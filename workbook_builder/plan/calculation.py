@@ -18,7 +18,7 @@ from .sheet import Looks, SheetLayout, ref
 
 __all__ = ["calculation_sheet", "engine_flag", "engine_flags", "snapshot_name",
            "UNIT_FORMATS", "unit_format", "value_format", "Columns", "calculation_columns",
-           "FLAG_LABEL", "FLAG_GUARDS", "result_comment", "SIMULATION_FLAG"]
+           "FLAG_LABEL", "FLAG_GUARDS", "result_comment", "SIMULATION_FLAG", "step_numbers"]
 
 #: Display format of a value by unit where no quantity declares one (US columns, checks).
 UNIT_FORMATS = {
@@ -28,6 +28,8 @@ UNIT_FORMATS = {
     "ft": "0.000", "in": "0.00", "ft/s^2": "0.0000", "milli-g": "0.00", "%": "0.000",
     "kip/ft": "#,##0.00", "kip s/ft": "#,##0.00", "s": "0.0", "N": "#,##0",
     "m/s": "0.0000", "ft/s": "0.0000", "J": "#,##0", "kip ft": "#,##0.0", "years": "0.0",
+    "kg/m^3": "#,##0", "lb/ft^3": "#,##0.0", "m^3": "0.000", "ft^3": "#,##0.0", "W": "#,##0",
+    "kN": "#,##0.0", "kN/m": "#,##0", "kip/in": "#,##0.00",
 }
 
 #: The question an engine-value flag answers ("current" or "INPUTS CHANGED: rebuild").
@@ -183,6 +185,19 @@ def _step_row(sh: SheetLayout, row: int, cols: Columns, number: str, step: chain
         sh.label(row, cols.shown_unit, us_unit, "box top")
 
 
+def _numbers(sec: chain.Section) -> dict[str, str]:
+    """Step numbers of a section's steps ("5.2": section 5, step 2)."""
+    return {step.name: f"{sec.title.split()[0]}.{k}" for k, step in enumerate(sec.steps, 1)}
+
+
+def step_numbers(options: PlanOptions) -> dict[str, str]:
+    """Defined name -> number of its step on the Calculation sheet ("5.2")."""
+    return {name: number
+            for sec in chain.sections(options.tuning_method, options.mass_ratio_mode,
+                                      options.parts)
+            for name, number in _numbers(sec).items()}
+
+
 def calculation_sheet(options: PlanOptions) -> SheetLayout:
     """The Calculation sheet for ``options``."""
     sh = SheetLayout("Calculation")
@@ -207,8 +222,7 @@ def calculation_sheet(options: PlanOptions) -> SheetLayout:
             sh.merge(row, 2, row, cols.last)
             row += 1
         steps = list(sec.steps)
-        numbers = {step.name: f"{sec.title.split()[0]}.{k}"
-                   for k, step in enumerate(steps, start=1)}
+        numbers = _numbers(sec)
         deferred = [s for s in steps if s.name in WORKING_VALUES]
         if deferred:
             first, last = numbers[deferred[0].name], numbers[deferred[-1].name]

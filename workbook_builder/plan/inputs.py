@@ -11,7 +11,7 @@ from __future__ import annotations
 
 import math
 
-from functions.quantities import FLOOR_TABLE, Quantity, by_name, design_inputs
+from functions.quantities import FLOOR_TABLE, OPTIONAL_TABLES, Quantity, by_name, design_inputs
 
 from .options import PlanOptions
 from .sheet import Looks, SheetLayout, ref
@@ -168,6 +168,8 @@ def inputs_sheet(options: PlanOptions) -> SheetLayout:
     row = 5
     for q in design_inputs():
         if q.kind == "choice":
+            if q.section in OPTIONAL_TABLES and q.section not in options.parts:
+                continue                # a choice of an optional table not given: no row
             _choice_row(sh, row, q)
         elif q.name in options.inputs:
             _input_row(sh, row, q)

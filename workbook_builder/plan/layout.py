@@ -2,7 +2,8 @@
 """The whole plan of a workbook, sheet by sheet, from its layout options.
 
 Sheets in order: Summary, Inputs, Calculation, Pendulum, Checks, Charts, Band (with a
-frequency band), Comfort (with a comfort criterion), Nonlinear (with a simulation), Names, Cautions, Record. The plan depends only on
+frequency band), Comfort (with a comfort criterion), Supply (with a supply specification),
+Nonlinear (with a simulation), Names, Cautions, Record. The plan depends only on
 :class:`workbook_builder.plan.options.PlanOptions`: a builder draws it, batch recalculation
 rebuilds it from the options stored in a workbook and reads the workbook through its names.
 """
@@ -21,13 +22,13 @@ from .options import PlanOptions
 from .pendulum import pendulum_sheet
 from .reference import cautions_sheet, names_sheet, record_sheet
 from .summary import summary_sheet
+from .supply import supply_sheet
 
 __all__ = ["make_plan", "SHEETS"]
 
 #: Every sheet a plan can hold, in workbook order.
 SHEETS = ("Summary", "Inputs", "Calculation", "Pendulum", "Checks", "Charts", "Band", "Comfort",
-          "Nonlinear",
-          "Names", "Cautions", "Record")
+          "Supply", "Nonlinear", "Names", "Cautions", "Record")
 
 
 @functools.lru_cache(maxsize=64)
@@ -42,11 +43,14 @@ def make_plan(options: PlanOptions) -> Plan:
     """
     plan = Plan(options)
     layouts = [summary_sheet(options), inputs_sheet(options), calculation_sheet(options),
-               pendulum_sheet("extreme" in options.parts), checks_sheet(options), charts_sheet(options)]
+               pendulum_sheet("extreme" in options.parts), checks_sheet(options),
+               charts_sheet(options)]
     if "band" in options.parts:
         layouts.append(band_sheet(options))
     if "comfort" in options.parts:
         layouts.append(comfort_sheet(options))
+    if "supply" in options.parts:
+        layouts.append(supply_sheet(options))
     if options.simulation is not None:
         layouts.append(nonlinear_sheet(options))
     plan.sheets = [sh.plan for sh in layouts] + [cautions_sheet().plan,

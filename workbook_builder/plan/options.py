@@ -30,8 +30,11 @@ __all__ = ["PLAN_VERSION", "FORMAT_NAME", "PLAN_PROPERTY", "SIMULATION_PROPERTY"
 #: or writes in a named cell, the options in SwaytunePlan; 4 = the printed calculation: Summary
 #: with inputs and limits, US values first, working values on their own page, the Pendulum
 #: sheet's secant iteration in 10 rows, cell notes, page headers; 5 = the values of the last
-#: engine run on the Record sheet, every simulation value named, fixed-size simulation tables.
-PLAN_VERSION = 5
+#: engine run on the Record sheet, every simulation value named, fixed-size simulation tables
+#: (swaytune 0.3.0; 0.4.0 added the design envelope's optional rows and sheets without raising
+#: it); 6 = the supply specification (its inputs, sections and the Supply sheet), choices of
+#: optional tables (swaytune 0.5.0).
+PLAN_VERSION = 6
 #: Defined name (workbook scope, hidden) holding :data:`PLAN_VERSION`.
 FORMAT_NAME = "SWAYTUNE_FORMAT"
 #: Custom document property holding the options as JSON data (never a formula).
@@ -84,6 +87,12 @@ class PlanOptions:
     def to_json(self) -> str:
         """The options as JSON text."""
         return json.dumps(asdict(self), sort_keys=True)
+
+    def choice(self, name: str) -> str:
+        """The text of the choice input ``name`` the workbook is laid out for."""
+        if name == "dashpot_level":
+            return "extreme" if "dashpots_at_extreme" in self.parts else "service"
+        return getattr(self, name)
 
     @classmethod
     def from_json(cls, text: str) -> "PlanOptions":

@@ -25,7 +25,7 @@ from .reference import CAUTIONS, part_key_results
 from .sheet import Looks, SheetLayout, ref
 
 __all__ = ["summary_sheet", "HEADING", "TITLE_BLOCK", "key_results", "VERDICT_LABELS",
-           "SummaryColumns"]
+           "SummaryColumns", "shown"]
 
 HEADING = "Pendulum tuned mass damper - preliminary design"
 
@@ -110,7 +110,7 @@ def _title_block(sh: SheetLayout, last: int) -> int:
     return 7
 
 
-def _shown(sh: SheetLayout, row: int, col: int, name: str, q_unit: str, fmt: str,
+def shown(sh: SheetLayout, row: int, col: int, name: str, q_unit: str, fmt: str,
            us: bool, *, style: str = "box", comment: str = "") -> str:
     """The value of ``name`` in the display unit (US or SI); return the unit shown."""
     if not us:
@@ -136,6 +136,8 @@ def _inputs(sh: SheetLayout, row: int, options: PlanOptions, cols: SummaryColumn
     sh.merge(row, cols.source, row, cols.last)
     row += 1
     for q in design_inputs():
+        if q.section == "supply":   # the Supply sheet lists them with the specification
+            continue
         if q.kind == "choice":
             sh.label(row, cols.label, q.label, "box")
             sh.label(row, cols.symbol, q.symbol, "box")
@@ -149,7 +151,7 @@ def _inputs(sh: SheetLayout, row: int, options: PlanOptions, cols: SummaryColumn
         elif q.name in options.inputs or (q.name == "modal_mass" and options.floors):
             sh.label(row, cols.label, q.label, "box wrap")
             sh.label(row, cols.symbol, q.symbol, "box")
-            unit = _shown(sh, row, cols.value, q.cell_name, q.unit, q.fmt, cols.us,
+            unit = shown(sh, row, cols.value, q.cell_name, q.unit, q.fmt, cols.us,
                           comment=input_comment(q))
             sh.label(row, cols.unit, unit, "box")
             if cols.us:
@@ -166,6 +168,14 @@ def _inputs(sh: SheetLayout, row: int, options: PlanOptions, cols: SummaryColumn
             sh.blank(row, c, "box")
         sh.merge(row, cols.source, row, cols.last)
         row += 1
+    if "supply" in options.parts:
+        sh.label(row, cols.label, "Supply specification ([supply]): its inputs are on the "
+                                  "Inputs sheet and beside its results on the Supply sheet",
+                 "box wrap italic")
+        for c in range(cols.label + 1, cols.last + 1):
+            sh.blank(row, c, "box")
+        sh.merge(row, cols.label, row, cols.last)
+        row += 1
     return row + 1
 
 
@@ -181,7 +191,7 @@ def _results(sh: SheetLayout, row: int, cols: SummaryColumns, options: PlanOptio
         q: Quantity = quantity(name)
         sh.label(row, cols.label, q.label, "box wrap")
         sh.label(row, cols.symbol, q.symbol, "box")
-        unit = _shown(sh, row, cols.value, name, q.unit, q.fmt, cols.us,
+        unit = shown(sh, row, cols.value, name, q.unit, q.fmt, cols.us,
                       comment=result_comment(q, "Calculation sheet"))
         sh.label(row, cols.unit, unit, "box")
         if cols.us:
@@ -192,7 +202,7 @@ def _results(sh: SheetLayout, row: int, cols: SummaryColumns, options: PlanOptio
             for c in (cols.limit, cols.verdict, cols.rule):
                 sh.blank(row, c, "box")
         else:
-            _shown(sh, row, cols.limit, rule.limit, rule.unit, q.fmt, cols.us)
+            shown(sh, row, cols.limit, rule.limit, rule.unit, q.fmt, cols.us)
             sh.formula(row, cols.verdict, f"={check_name(rule.name)}", style="bold box")
             sh.label(row, cols.rule, rule.rule, "box wrap")
             if rule.lower:
@@ -203,7 +213,7 @@ def _results(sh: SheetLayout, row: int, cols: SummaryColumns, options: PlanOptio
                 for c in (cols.result_si, cols.result_si_unit):
                     if c:
                         sh.blank(row, c, "box")
-                _shown(sh, row, cols.limit, rule.lower, rule.unit, q.fmt, cols.us)
+                shown(sh, row, cols.limit, rule.lower, rule.unit, q.fmt, cols.us)
         row += 1
     col = ref(first, cols.verdict)[:-len(str(first))]
     sh.verdicts(f"{col}{first}:{col}{row - 1}")

@@ -31,6 +31,10 @@ KIP_WEIGHT = 1000.0 * POUND
 KIP_MASS = 1000.0 * POUND * STANDARD_GRAVITY / FOOT
 
 
+#: lbf in N, exact: 0.45359237 kg x 9.80665 m/s^2 (NIST SP 811 (2008) App. B).
+POUND_FORCE = POUND * STANDARD_GRAVITY
+
+
 @dataclass(frozen=True)
 class Unit:
     """A unit of a kind of quantity and its exact factor to the SI unit."""
@@ -74,6 +78,24 @@ UNITS: dict[str, dict[str, Unit]] = {
     "time": {"s": Unit("s", 1.0, "SI unit")},
     "count": {"-": Unit("-", 1.0, "a whole number")},
     "return_period": {"years": Unit("years", 1.0, "return period of a wind criterion")},
+    "force": {
+        "N": Unit("N", 1.0, "SI unit"),
+        "kN": Unit("kN", 1000.0, "exact: 1 kN = 1000 N"),
+        "MN": Unit("MN", 1e6, "exact: 1 MN = 10^6 N"),
+        "kip": Unit("kip", 1000.0 * POUND_FORCE, "exact: 1000 lbf; " + _EXACT_1959),
+    },
+    "stiffness": {
+        "N/m": Unit("N/m", 1.0, "SI unit"),
+        "kN/m": Unit("kN/m", 1000.0, "exact: 1 kN/m = 1000 N/m"),
+        "kN/mm": Unit("kN/mm", 1e6, "exact: 1 kN/mm = 10^6 N/m"),
+        "kip/ft": Unit("kip/ft", 1000.0 * POUND_FORCE / FOOT, _EXACT_1959),
+        "kip/in": Unit("kip/in", 1000.0 * POUND_FORCE / INCH, _EXACT_1959),
+    },
+    "density": {
+        "kg/m^3": Unit("kg/m^3", 1.0, "SI unit"),
+        "t/m^3": Unit("t/m^3", 1000.0, "exact: 1 t/m^3 = 1000 kg/m^3"),
+        "lb/ft^3": Unit("lb/ft^3", POUND / FOOT ** 3, _EXACT_1959),
+    },
 }
 
 #: The SI (engine) unit of each kind (the first of its units; the same as the engine's
@@ -85,10 +107,12 @@ SI_UNIT = {kind: next(iter(units)) for kind, units in UNITS.items()}
 DEFAULT_UNITS: dict[str, dict[str, str]] = {
     "SI": {"frequency": "Hz", "mass": "kg", "fraction": "-", "acceleration": "m/s^2",
            "length": "m", "angle": "deg", "time": "s", "count": "-",
-           "return_period": "years"},
+           "return_period": "years", "force": "N", "stiffness": "N/m",
+           "density": "kg/m^3"},
     "US": {"frequency": "Hz", "mass": "kip", "fraction": "-", "acceleration": "ft/s^2",
            "length": "ft", "angle": "deg", "time": "s", "count": "-",
-           "return_period": "years"},
+           "return_period": "years", "force": "kip", "stiffness": "kip/ft",
+           "density": "lb/ft^3"},
 }
 
 
@@ -111,8 +135,6 @@ def unit_for(kind: str, symbol: str) -> Unit:
                          f"{', '.join(repr(u) for u in units)}")
     return units[symbol]
 
-#: lbf in N, exact: 0.45359237 kg x 9.80665 m/s^2 (NIST SP 811 (2008) App. B).
-POUND_FORCE = POUND * STANDARD_GRAVITY
 
 #: Results shown beside the SI value in US customary projects: SI unit -> (unit, factor).
 US_DISPLAY: dict[str, tuple[str, float]] = {
@@ -124,6 +146,8 @@ US_DISPLAY: dict[str, tuple[str, float]] = {
     "N": ("kip", 1000.0 * POUND_FORCE),
     "m/s": ("ft/s", FOOT),
     "J": ("kip ft", 1000.0 * POUND_FORCE * FOOT),
+    "kg/m^3": ("lb/ft^3", POUND / FOOT ** 3),
+    "m^3": ("ft^3", FOOT ** 3),
 }
 
 #: Unit text of a mass shown in kip: it is the weight under standard gravity.

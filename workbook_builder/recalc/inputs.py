@@ -183,7 +183,8 @@ def read_inputs(path: str | os.PathLike) -> dict[str, Any]:
     out: dict[str, Any] = {}
     for q in design_inputs():
         if q.kind == "choice":
-            out[q.name] = data.project.inputs[q.name].value
+            if q.name in data.project.inputs:         # not a choice of a table not given
+                out[q.name] = data.project.inputs[q.name].value
         elif q.name in data.typed:
             value, unit = data.typed[q.name]
             out[q.name] = {"value": value, "unit": unit}

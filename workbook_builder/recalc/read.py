@@ -18,7 +18,8 @@ from dataclasses import dataclass, field
 from pathlib import Path
 from typing import Any, Mapping
 
-from functions.quantities import FLOOR_TABLE, by_name, design_inputs, input_relation_errors
+from functions.quantities import (FLOOR_TABLE, OPTIONAL_TABLES, by_name, design_inputs,
+                                  input_relation_errors)
 
 from .. import __version__
 from ..plan import (FORMAT_NAME, PLAN_PROPERTY, PLAN_VERSION, SIMULATION_PROPERTY, Plan,
@@ -127,7 +128,7 @@ def workbook_format(book: Book) -> int:
 
 #: Which swaytune wrote the released layout formats before the current one.
 _MADE_BY = {1: "swaytune 0.1", 2: "swaytune 0.1", 3: "swaytune 0.2.0", 4: "swaytune 0.3.0",
-            5: "swaytune 0.3.0"}
+            5: "swaytune 0.3.0 or 0.4.0"}
 
 
 def _plan(book: Book) -> Plan:
@@ -324,11 +325,16 @@ def read_workbook(path: str | os.PathLike, *, overrides: Mapping[str, Any] | Non
     for q in design_inputs():
         o = changes.pop(q.name, None)
         if q.kind == "choice":
+            if q.section in OPTIONAL_TABLES and q.section not in options.parts:
+                if o is not None and o.si is not None:
+                    inputs[q.name] = InputValue(q, o.si, None, o.si, q.note, True)
+                    relayout.append(f"{q.name} given (the workbook has no row for it)")
+                continue
             sheet, cell = names.cell(q.cell_name)
             value = _cell_text(cell).strip()
-            if value != getattr(options, q.name, value):
+            if value != options.choice(q.name):
                 raise RecalcError(f"{q.name} {value!r} ({sheet}!{cell.coordinate}) differs "
-                                  f"from {getattr(options, q.name)!r}, which the workbook is "
+                                  f"from {options.choice(q.name)!r}, which the workbook is "
                                   "laid out for: it was changed after the build; rebuild the "
                                   "workbook")
             if o is not None and o.si != value:
@@ -340,6 +346,8 @@ def read_workbook(path: str | os.PathLike, *, overrides: Mapping[str, Any] | Non
             if o is not None and o.si is not None:
                 unit = unit_for(q.kind, o.unit or DEFAULT_UNITS[options.units][q.kind])
                 value = o.typed_in(unit.symbol)
+                if q.kind == "count" and value.is_integer():
+                    value = int(value)
                 typed[q.name] = (value, unit.symbol)
                 inputs[q.name] = InputValue(q, value, unit, value * unit.factor, q.note, True)
                 relayout.append(f"{q.name} given (the workbook has no row for it)")
@@ -373,6 +381,13 @@ def read_workbook(path: str | os.PathLike, *, overrides: Mapping[str, Any] | Non
                                 f"{unit.symbol!r} ({unit.factor!r}); the engine uses "
                                 f"{unit.factor!r}", repr(unit.factor), repr(fcell.value)))
         si = value * unit.factor
+        if q.kind == "count":           # a whole number, as the project file takes it
+            if float(value).is_integer():
+                value = si = int(value)
+            else:
+                bad.append(f"{q.name}={value!r} must be a whole number in {q.interval()} "
+                           f"({sheet}!{vcell.coordinate})")
+                continue
         if not q.contains(si):
             bad.append(f"{q.name}={value:g} {unit.symbol} must be in "
                        f"{q.interval(unit.factor)} [{unit.symbol}] ({sheet}!{vcell.coordinate})")

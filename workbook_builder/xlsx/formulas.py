@@ -30,7 +30,7 @@ __all__ = [
 ALLOWED_FUNCTIONS = frozenset({
     "SQRT", "PI", "SIN", "COS", "ASIN", "ATAN2", "RADIANS", "DEGREES", "LN", "EXP", "POWER",
     "SUMPRODUCT", "CONVERT", "IF", "AND", "OR", "ABS", "MAX", "MIN", "INDEX", "MATCH",
-    "IFERROR", "ROUND",
+    "IFERROR", "ROUND", "ROUNDUP", "GAMMALN",
 })
 
 #: Functions whose arguments may be ranges or range arithmetic (array context).
@@ -251,7 +251,7 @@ def parse(formula: str):
 
 
 _ELEMENTWISE = frozenset({"POWER", "SQRT", "SIN", "COS", "ASIN", "RADIANS", "DEGREES", "LN",
-                          "EXP", "ABS", "ATAN2", "ROUND"})
+                          "EXP", "ABS", "ATAN2", "ROUND", "ROUNDUP", "GAMMALN"})
 
 
 def _walk(node, array: bool, direct: bool, found: list, misuse: list) -> None:
@@ -489,12 +489,29 @@ def _round(x: float, digits: float) -> float:
     return math.copysign(r / factor, x) if r else 0.0
 
 
+def _roundup(x: float, digits: float) -> float:
+    """ROUNDUP: away from zero to ``digits`` decimals (negative: left of the point), the
+    digits truncated to an integer; the scaled value is first cut to 15 significant digits,
+    as a spreadsheet holds numbers, so ROUNDUP(0.1*3,1) is 0.3, not 0.4."""
+    digits = int(digits)
+    factor = 10.0 ** digits
+    y = float(f"{abs(x) * factor:.15g}")
+    r = math.ceil(y)
+    return math.copysign(r / factor, x) if r else 0.0
+
+
+def _gammaln(x: float) -> float:
+    if x <= 0:
+        raise ValueError
+    return math.lgamma(x)
+
+
 #: One-argument worksheet functions (built once, not at every call).
 _UNARY = {
     "SQRT": _math1(_sqrt), "SIN": _math1(math.sin), "COS": _math1(math.cos),
     "ASIN": _math1(math.asin), "RADIANS": _math1(math.radians),
     "DEGREES": _math1(math.degrees), "LN": _math1(_ln), "EXP": _math1(math.exp),
-    "ABS": _math1(abs),
+    "ABS": _math1(abs), "GAMMALN": _math1(_gammaln),
 }
 
 
@@ -653,13 +670,15 @@ class Evaluator:
                         return v
                 return DIV0 if x == 0 and y == 0 else math.atan2(y, x)
             return _map(atan2, ev(args[0]), ev(args[1]))
-        if fname == "ROUND" and n == 2:
+        if fname in ("ROUND", "ROUNDUP") and n == 2:
+            how = _round if fname == "ROUND" else _roundup
+
             def rnd(x, d):
                 x, d = _num(x), _num(d)
                 for v in (x, d):
                     if is_error(v):
                         return v
-                return _round(x, d)
+                return how(x, d)
             return _map(rnd, ev(args[0]), ev(args[1]))
         if fname == "IF" and n in (2, 3):
             cond = _truth(self._scalar(ev(args[0])))
