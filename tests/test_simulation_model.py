@@ -18,7 +18,7 @@ from scipy.special import ellipk
 from simulation_reference import FS, G, L, M, ZD, ZS
 
 from functions.pendulum import exact_period
-from functions.simulation import simulate
+from functions.simulation import HarmonicForce, simulate
 
 
 def upward_crossings(result):
@@ -85,3 +85,94 @@ def test_mirror_symmetry(angle, x0, mu):
                  initial_displacement=-x0)
     np.testing.assert_array_equal(a.nonlinear.angle_deg, -b.nonlinear.angle_deg)
     np.testing.assert_array_equal(a.nonlinear.displacement, -b.nonlinear.displacement)
+
+
+# --- the velocity-exponent dashpot and the hanger tension ---------------------------------
+# A floor that does not move: a modal mass 1e12 times the damper's (the pendulum swings on a
+# fixed pivot, textbook free pendulum).
+RIGID_M, MD, LEN = 1e12, 1e3, 6.0
+#: The reference building's damper (2 % of M) forced at resonance (invented demo data).
+MD_REF, RESONANT = 2e4, HarmonicForce(4e4, 0.2)
+
+
+def _free(release_deg, zd=0.0, **kw):
+    return simulate(RIGID_M, 0.2, 0.01, MD, LEN, zd, None, 30.0, warmup=0.0,
+                    initial_angle_deg=release_deg, samples_per_period=256, rtol=1e-9, **kw)
+
+
+@pytest.mark.parametrize("release_deg", [5.0, 20.0, 45.0])
+def test_tension_peaks_at_the_bottom_of_a_free_swing(release_deg):
+    """Energy and the radial equation of a free pendulum: T_max = m g (3 - 2 cos theta_0)
+    (J. L. Meriam, L. G. Kraige, Engineering Mechanics: Dynamics, normal-tangential
+    coordinates); sampled at 256 points a period the peak is caught to about 1e-6."""
+    r = _free(release_deg)
+    bound = MD * G * (3 - 2 * math.cos(math.radians(release_deg)))
+    assert r.nonlinear.tension_peak == pytest.approx(bound, rel=2e-5)
+    assert r.nonlinear.tension_peak <= bound * (1 + 1e-9)
+    assert r.summary()["tension_peak"] == r.nonlinear.tension_peak
+    assert r.linear.tension_peak == 0.0
+
+
+def test_tension_at_rest_is_the_weight():
+    r = _free(0.0)
+    assert r.nonlinear.tension_peak == pytest.approx(MD * G, rel=1e-12)
+
+
+def test_linear_law_through_the_coefficient_reproduces_the_linear_dashpot():
+    """C |v|^1 with C = c_d = 2 zeta_d m_d omega_d is the linear dashpot (our own rule)."""
+    c_d = 2 * ZD * MD_REF * math.sqrt(G / L)
+    plain = simulate(M, FS, ZS, MD_REF, L, ZD, RESONANT, 120.0)
+    law = simulate(M, FS, ZS, MD_REF, L, ZD, RESONANT, 120.0, velocity_exponent=1.0,
+                   dashpot_coefficient=c_d)
+    np.testing.assert_allclose(law.nonlinear.stroke, plain.nonlinear.stroke, rtol=1e-9,
+                               atol=1e-12 * plain.nonlinear.stroke_peak)
+    assert law.departure == pytest.approx(plain.departure, rel=1e-6, abs=1e-12)
+
+
+@pytest.mark.parametrize("alpha", [0.3, 0.5, 1.5])
+def test_energy_lost_per_cycle_is_the_equal_energy_law(alpha):
+    """A lightly damped swing of 2 deg loses lambda C V^(1+alpha) / omega per cycle,
+    lambda = 2^(2+alpha) Gamma(1+alpha/2)^2 / Gamma(2+alpha) (S. J. Elliott, M. Ghandchi
+    Tehrani, R. S. Langley, Phil. Trans. R. Soc. A 373 (2015) 20140402: equal energy per cycle;
+    the Gamma form is checked by quadrature in tests/test_dashpots.py). The loss is measured
+    from the simulated energy m (L theta')^2 / 2 + m g L (1 - cos theta) one period apart."""
+    w = math.sqrt(G / LEN)
+    theta0 = math.radians(2.0)
+    v = LEN * theta0 * w
+    C = 0.002 * 2 * MD * w / v ** (alpha - 1)         # about 0.2 % damping at this velocity
+    r = _free(2.0, velocity_exponent=alpha, dashpot_coefficient=C)
+    th = np.radians(r.nonlinear.angle_deg)
+    rate = np.radians(r.nonlinear.angular_velocity_deg)
+    energy = MD * (0.5 * (LEN * rate) ** 2 + G * LEN * (1 - np.cos(th)))
+    period = 2 * math.pi / w * (1 + theta0 ** 2 / 16)      # A&S 17.3.11, to theta^2
+    k = int(round(period / r.time_step))
+    lost = energy[0] - np.interp(period, r.time, energy)
+    amplitude = math.sqrt((energy[0] + energy[k]) / MD)    # peak speed V, mean of the cycle
+    lam = 2 ** (2 + alpha) * math.gamma(1 + alpha / 2) ** 2 / math.gamma(2 + alpha)
+    assert lost == pytest.approx(lam * C * amplitude ** (1 + alpha) / w, rel=0.01)
+
+
+def test_a_soft_law_is_integrated_accurately():
+    """alpha = 0.3 has an infinite force slope at v = 0: the fixed-step Runge-Kutta with its
+    step-doubling check agrees with scipy's DOP853 at a tight tolerance (J. R. Dormand, P. J.
+    Prince, J. Comput. Appl. Math. 6 (1980) 19-26) on the same output grid."""
+    c_d = 2 * ZD * MD_REF * math.sqrt(G / L)
+    kw = dict(velocity_exponent=0.3, dashpot_coefficient=c_d * 0.5 ** 0.7)
+    for n in (32, 128):
+        rk4 = simulate(M, FS, ZS, MD_REF, L, ZD, RESONANT, 120.0, samples_per_period=n, **kw)
+        ivp = simulate(M, FS, ZS, MD_REF, L, ZD, RESONANT, 120.0, samples_per_period=n,
+                       integrator="solve_ivp", rtol=1e-8, **kw)
+        assert rk4.nonlinear.stroke_rms == pytest.approx(ivp.nonlinear.stroke_rms, rel=1e-4)
+        assert rk4.nonlinear.tension_peak == pytest.approx(ivp.nonlinear.tension_peak,
+                                                           rel=1e-4)
+
+
+@pytest.mark.parametrize("kw, message", [
+    (dict(velocity_exponent=0.0, dashpot_coefficient=1.0), r"velocity_exponent=0.0"),
+    (dict(velocity_exponent=2.5, dashpot_coefficient=1.0), r"velocity_exponent=2.5"),
+    (dict(velocity_exponent=0.5), "needs dashpot_coefficient"),
+    (dict(dashpot_coefficient=-3.0), "dashpot_coefficient=-3.0"),
+])
+def test_bad_dashpot_law_is_refused(kw, message):
+    with pytest.raises(ValueError, match=message):
+        _free(2.0, **kw)

@@ -18,7 +18,7 @@ from .plan.charts import ChartTable, swing_window_table, time_history_table
 from .project import Project
 
 __all__ = ["run_design", "run_simulation", "SimulationRun", "simulated_level",
-           "simulated_acceleration"]
+           "simulated_acceleration", "dashpot_law"]
 
 
 def _prefix(project: Project) -> str:
@@ -68,6 +68,10 @@ class SimulationRun:
     #: the damper at the damper's level the load reproduces (before the load factor) [m/s^2].
     level: str = "service"
     level_acceleration: float = 0.0
+    #: The exact model's dashpot law: C |v|^alpha (``dashpot_coefficient`` [N (s/m)^alpha]),
+    #: or None for the linear dashpot of the design.
+    velocity_exponent: float = 1.0
+    dashpot_coefficient: float | None = None
 
 
 def simulated_level(settings: Any, inputs: Any) -> str:
@@ -84,11 +88,24 @@ def simulated_acceleration(settings: Any, inputs: Any) -> float:
                  else inputs.acceleration)
 
 
+def dashpot_law(result: DesignResult) -> dict[str, float]:
+    """The dashpot law a design's simulation uses: its supply specification's velocity-exponent
+    dashpot (``velocity_exponent``, ``dashpot_coefficient`` of ``simulate``), or {} for the
+    linear dashpot of the design (no [supply], or alpha = 1)."""
+    alpha = result.inputs.velocity_exponent
+    if "supply" not in result.parts or alpha == 1.0:
+        return {}
+    return {"velocity_exponent": float(alpha),
+            "dashpot_coefficient": float(result.cells["dashpot_coefficient"])}
+
+
 def run_simulation(project: Project, result: DesignResult) -> SimulationRun:
     """Simulate the design's pendulum damper in time (``functions.simulation.simulate``).
 
     The design's pendulum length is simulated with the designed dashpot, the damper damping
-    on the hanger's small-angle frequency (``functions.simulation.hanger_damping``), under a
+    on the hanger's small-angle frequency (``functions.simulation.hanger_damping``; with a
+    supply specification's velocity-exponent dashpot, its law in the exact model:
+    :func:`dashpot_law`), under a
     load that gives the building WITHOUT the damper the input peak acceleration times the load
     factor (``functions.simulation.calibrated_load``: a random force, expected peak over
     :data:`functions.simulation.PEAK_DURATION`, or a harmonic force at the mode's frequency).
@@ -118,10 +135,12 @@ def run_simulation(project: Project, result: DesignResult) -> SimulationRun:
         zd = hanger_damping(float(result.damper_damping), float(result.damper_frequency), L, g)
         load, force, gp = calibrated_load(level * settings.load_factor, M, fs, zs,
                                           settings.load, PEAK_DURATION, settings.seed)
+        law = dashpot_law(result)
         sim = simulate(M, fs, zs, md, L, zd, load, settings.duration,
-                       tolerance=settings.tolerance, g=g)
+                       tolerance=settings.tolerance, g=g, **law)
         tables = time_history_table(sim), swing_window_table(sim)
     except ValueError as exc:
         raise ValueError(f"{_prefix(project)}the simulation cannot be run: {exc}") from exc
     return SimulationRun(settings, load, float(force), fs, gp, L, md, sim.damper_frequency, zd,
-                         sim, *tables, simulated_level(settings, i), level)
+                         sim, *tables, simulated_level(settings, i), level,
+                         law.get("velocity_exponent", 1.0), law.get("dashpot_coefficient"))

@@ -74,7 +74,12 @@ SIMULATION: tuple[SheetFunction, ...] = (
             Argument("tolerance", "Accepted departure of nonlinear from linear RMS response "
                      "[-]. Empty: 0.05.", "-", default=0.05),
             Argument("g", "Acceleration of gravity, > 0 [m/s^2]. Empty: 9.80665 [m/s^2].",
-                     "m/s^2", default=_G)),
+                     "m/s^2", default=_G),
+            Argument("velocity_exponent", "Exponent alpha of the dashpot law F = C |v|^alpha, "
+                     "in (0, 2] [-]. Empty: 1 (linear).", "-", default=1.0),
+            Argument("dashpot_coefficient", "Coefficient C of that law, > 0 [N (s/m)^a]. "
+                     "Empty: the linear dashpot of damper_damping.", "N (s/m)^a",
+                     default=None)),
         "simulation", kind=SUMMARY, fields=simulation.SUMMARY_FIELDS, slow=True,
         example=(1e6, 0.2, 0.01, 2e4, 6.0, 0.07, "harmonic", 5e3, 0.2, 300.0),
         notes="Takes a second or more per case: a time-domain integration. A row of cases "

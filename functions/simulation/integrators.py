@@ -26,7 +26,7 @@ import numpy as np
 from scipy.linalg import expm
 
 from functions.simulation.loads import HarmonicForce, _force_at
-from functions.simulation.model import _System
+from functions.simulation.model import _System, _dashpot_term
 
 __all__ = ["INTEGRATORS"]
 
@@ -114,7 +114,9 @@ def _rk4(p: _System, y0, force, tau, n_sub, first_record, chunk=2048):
     mL = m * p.L
     iL = 1.0 / p.L
     cdL = p.cd_over_m * p.L
-    sin, cos = math.sin, math.cos
+    # the dashpot: linear (c_d v_h), or C |v_h|^alpha sign(v_h), v_h = L cos(theta) theta'
+    linear, kC, al, L = not p.exponent_law, p.Cn / m, p.alpha, p.L
+    sin, cos, copysign = math.sin, math.cos, math.copysign
     x, v, th, w = (float(y) for y in y0)
     h2 = 0.5 * h
     h6 = h / 6.0
@@ -131,7 +133,8 @@ def _rk4(p: _System, y0, force, tau, n_sub, first_record, chunk=2048):
             s = sin(th)
             c = cos(th)
             r1 = F[j] - C * v - K * x + mL * s * w * w
-            r2 = -g * s - cdL * c * c * w
+            r2 = -g * s - (cdL * c * c * w if linear else
+                           kC * c * copysign(abs(L * c * w) ** al, c * w))
             q = 1.0 / (M + m * s * s)
             a1 = (r1 - m * c * r2) * q
             b1 = (Mm * r2 - c * r1) * q * iL
@@ -143,7 +146,8 @@ def _rk4(p: _System, y0, force, tau, n_sub, first_record, chunk=2048):
             s = sin(t2)
             c = cos(t2)
             r1 = fm - C * v2 - K * (x + h2 * v) + mL * s * w2 * w2
-            r2 = -g * s - cdL * c * c * w2
+            r2 = -g * s - (cdL * c * c * w2 if linear else
+                           kC * c * copysign(abs(L * c * w2) ** al, c * w2))
             q = 1.0 / (M + m * s * s)
             a2 = (r1 - m * c * r2) * q
             b2 = (Mm * r2 - c * r1) * q * iL
@@ -154,7 +158,8 @@ def _rk4(p: _System, y0, force, tau, n_sub, first_record, chunk=2048):
             s = sin(t3)
             c = cos(t3)
             r1 = fm - C * v3 - K * (x + h2 * v2) + mL * s * w3 * w3
-            r2 = -g * s - cdL * c * c * w3
+            r2 = -g * s - (cdL * c * c * w3 if linear else
+                           kC * c * copysign(abs(L * c * w3) ** al, c * w3))
             q = 1.0 / (M + m * s * s)
             a3 = (r1 - m * c * r2) * q
             b3 = (Mm * r2 - c * r1) * q * iL
@@ -165,7 +170,8 @@ def _rk4(p: _System, y0, force, tau, n_sub, first_record, chunk=2048):
             s = sin(t4)
             c = cos(t4)
             r1 = F[j + 2] - C * v4 - K * (x + h * v3) + mL * s * w4 * w4
-            r2 = -g * s - cdL * c * c * w4
+            r2 = -g * s - (cdL * c * c * w4 if linear else
+                           kC * c * copysign(abs(L * c * w4) ** al, c * w4))
             q = 1.0 / (M + m * s * s)
             a4 = (r1 - m * c * r2) * q
             b4 = (Mm * r2 - c * r1) * q * iL
@@ -208,7 +214,6 @@ def _nonlinear_rk4(p, y0, load, tau, forces, first_record, rtol):
 def _nonlinear_ivp(p, y0, load, tau, forces, first_record, rtol):
     dt = float(tau[1] - tau[0])
     M, m, L, K, C, g = p.M, p.m, p.L, p.K, p.C, p.g
-    cdL = p.cd_over_m * L
     fl = forces.tolist() if forces is not None else None
     n_last = tau.size - 1
     if isinstance(load, HarmonicForce):
@@ -230,7 +235,7 @@ def _nonlinear_ivp(p, y0, load, tau, forces, first_record, rtol):
         s = math.sin(th)
         c = math.cos(th)
         r1 = force(t) - C * v - K * x + m * L * s * w * w
-        r2 = -g * s - cdL * c * c * w
+        r2 = -g * s - float(_dashpot_term(p, c, w))
         den = M + m * s * s
         return (v, (r1 - m * c * r2) / den, w, ((M + m) * r2 - c * r1) / (L * den))
 

@@ -44,6 +44,21 @@ Divided by m_d L, the second equation gives the mass matrix [[M+m_d, m_d L cos t
     r_1 = F - C\dot x - K x + m_d L\dot\theta^2\sin\theta,\quad
     r_2 = -g\sin\theta - 2\zeta_d\omega_d L\cos^2\theta\,\dot\theta .
 
+A velocity-exponent dashpot (``velocity_exponent`` alpha, ``dashpot_coefficient`` C) replaces
+the linear one in the exact model only: its force against the horizontal relative velocity
+v_h = L cos(theta) theta' is F(v_h) = C |v_h|^alpha sign(v_h), whose generalised force on theta
+is -F(v_h) L cos(theta), so r_2 = -g sin(theta) - F(v_h) cos(theta) / m_d (alpha = 1, C = c_d:
+the linear term above). The linearised model keeps the linear c_d.
+
+Hanger tension: the radial equation of the mass (unit vector e_r = (sin theta, -cos theta)
+from the pivot; acceleration along it x'' sin(theta) - L theta'^2) gives the total tension
+
+.. math::
+
+    T = m_d g\cos\theta + m_d L\dot\theta^2 - m_d\ddot x\sin\theta - F(v_h)\sin\theta
+
+(at rest m_d g; on a fixed pivot the textbook m_d (g cos theta + L theta'^2)).
+
 Linearised (sin theta = theta, cos theta = 1, theta'^2 = 0) with the stroke u = L theta this is the
 textbook tuned-mass-damper pair (M+m_d) x'' + m_d u'' + C x' + K x = F,
 m_d (x'' + u'') + c_d u' + m_d omega_d^2 u = 0; mass ratio mu = m_d/M, tuning f = omega_d/omega_s.
@@ -71,6 +86,15 @@ class _System:
     L: float
     zd: float
     g: float
+    #: Velocity exponent alpha of the nonlinear model's dashpot and its coefficient C
+    #: [N (s/m)^alpha]; C = 0: the linear dashpot c_d = 2 zeta_d m_d omega_d.
+    alpha: float = 1.0
+    Cn: float = 0.0
+
+    @property
+    def exponent_law(self) -> bool:
+        """True when the nonlinear model's dashpot is F = C |v|^alpha (not c_d v)."""
+        return self.Cn > 0.0
 
     @property
     def ws(self):
@@ -119,8 +143,15 @@ def _bare(M: float, fs: float, zs: float) -> tuple[np.ndarray, np.ndarray]:
     return A, B
 
 
-def _system(modal_mass, frequency, structural_damping, damper_mass, length, damper_damping, g):
+def _system(modal_mass, frequency, structural_damping, damper_mass, length, damper_damping, g,
+            velocity_exponent=1.0, dashpot_coefficient=None):
     """The :class:`_System` of the arguments of ``simulate``; ValueError names a bad one."""
+    alpha = _scalar("velocity_exponent", velocity_exponent, 0.0, 2.0, low_open=True, unit="-")
+    Cn = 0.0 if dashpot_coefficient is None else _scalar(
+        "dashpot_coefficient", dashpot_coefficient, 0.0, low_open=True, unit="N (s/m)^alpha")
+    if alpha != 1.0 and dashpot_coefficient is None:
+        raise ValueError(f"velocity_exponent={velocity_exponent!r} needs dashpot_coefficient "
+                         "(C of F = C |v|^alpha, > 0 [N (s/m)^alpha])")
     return _System(
         M=_scalar("modal_mass", modal_mass, 0.0, low_open=True, unit="kg"),
         fs=_scalar("frequency", frequency, 0.0, low_open=True, unit="Hz"),
@@ -129,7 +160,34 @@ def _system(modal_mass, frequency, structural_damping, damper_mass, length, damp
         L=_scalar("length", length, 0.0, low_open=True, unit="m"),
         zd=_scalar("damper_damping", damper_damping, 0.0, 1.0, unit="-"),
         g=_scalar("g", g, 0.0, low_open=True, unit="m/s^2"),
+        alpha=alpha, Cn=Cn,
     )
+
+
+def _dashpot_force(p: _System, c, w):
+    """Force of the dashpot against the horizontal relative velocity v_h = L cos(theta)
+    theta' (numpy, vectorised): c_d v_h, or C |v_h|^alpha sign(v_h) [N]; on the mass it acts
+    as -this."""
+    v = p.L * c * w
+    if not p.exponent_law:
+        return p.m * p.cd_over_m * v
+    return p.Cn * np.abs(v) ** p.alpha * np.sign(v)
+
+
+def _dashpot_term(p: _System, c, w):
+    """The dashpot's part of r_2 (its generalised force over m_d L): F(v_h) cos(theta) / m_d."""
+    if not p.exponent_law:
+        return p.cd_over_m * p.L * c * c * w
+    return _dashpot_force(p, c, w) * c / p.m
+
+
+def _tension(p: _System, x_acc, th, w):
+    """Total tension of the hangers (nonlinear model), from the radial equation of the mass:
+    T = m g cos(theta) + m L theta'^2 - m x'' sin(theta) + F_h sin(theta), F_h = -F(v_h) the
+    dashpot's horizontal force on the mass [N]."""
+    s = np.sin(th)
+    c = np.cos(th)
+    return p.m * (p.g * c + p.L * w * w - x_acc * s) - _dashpot_force(p, c, w) * s
 
 
 def _accelerations(p: _System, x, v, th, w, F):
@@ -137,6 +195,6 @@ def _accelerations(p: _System, x, v, th, w, F):
     s = np.sin(th)
     c = np.cos(th)
     r1 = F - p.C * v - p.K * x + p.m * p.L * s * w * w
-    r2 = -p.g * s - p.cd_over_m * p.L * c * c * w
+    r2 = -p.g * s - _dashpot_term(p, c, w)
     den = p.M + p.m * s * s
     return (r1 - p.m * c * r2) / den, ((p.M + p.m) * r2 - c * r1) / (p.L * den)

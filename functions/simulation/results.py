@@ -24,6 +24,7 @@ SUMMARY_FIELDS = (
     ("simulated_detuning", "-", "detuning of the damper identified from the simulated swing"),
     ("departure", "-", "largest relative RMS difference nonlinear vs linear"),
     ("within_tolerance", "-", "1 if departure <= tolerance and swing <= 90 deg, else 0"),
+    ("tension_peak", "N", "peak total hanger tension, nonlinear model"),
 )
 
 
@@ -48,6 +49,9 @@ class Response:
     effective_damping : float
         Damping ratio of the bare building that gives the same response to the same load [-]
         (see :func:`simulate`, Notes); NaN when it cannot be identified (reason in the notes).
+    tension_peak : float
+        Largest total tension of the hangers over the record, from the radial equation of
+        the mass (nonlinear model; 0 for the linearised model and without damper) [N].
     """
 
     displacement: np.ndarray
@@ -65,6 +69,7 @@ class Response:
     stroke_rms: float
     stroke_peak: float
     effective_damping: float
+    tension_peak: float = 0.0
 
 
 @dataclass(frozen=True)
@@ -155,6 +160,7 @@ class SimulationResult:
             "simulated_detuning": self.simulated_detuning,
             "departure": self.departure,
             "within_tolerance": 1.0 if self.within_tolerance else 0.0,
+            "tension_peak": self.nonlinear.tension_peak,
         }
         return {name: float(values[name]) for name, _, _ in SUMMARY_FIELDS}
 
@@ -167,7 +173,8 @@ def _peak(a):
     return float(np.max(np.abs(a))) if a.size else 0.0
 
 
-def _response(x, v, acc, theta=None, omega=None, stroke=None, zeta_eff=math.nan):
+def _response(x, v, acc, theta=None, omega=None, stroke=None, zeta_eff=math.nan,
+              tension=None):
     angle = None if theta is None else np.degrees(theta)
     rate = None if omega is None else np.degrees(omega)
     return Response(
@@ -180,4 +187,5 @@ def _response(x, v, acc, theta=None, omega=None, stroke=None, zeta_eff=math.nan)
         stroke_rms=_rms(stroke) if stroke is not None else 0.0,
         stroke_peak=_peak(stroke) if stroke is not None else 0.0,
         effective_damping=zeta_eff,
+        tension_peak=_peak(tension) if tension is not None else 0.0,
     )

@@ -25,7 +25,7 @@ from functions.simulation.integrators import (
     _nonlinear_rk4,
 )
 from functions.simulation.loads import HarmonicForce, RandomForce, _force_at
-from functions.simulation.model import _accelerations, _System, _system
+from functions.simulation.model import _accelerations, _System, _system, _tension
 from functions.simulation.results import SimulationResult, _response
 from functions.simulation.theory import _theory, _zeta_from_variance
 
@@ -66,7 +66,8 @@ def _auto_warmup(p: _System, load):
 def simulate(modal_mass, frequency, structural_damping, damper_mass, length, damper_damping,
              load=None, duration=600.0, *, warmup=None, initial_angle_deg=0.0,
              initial_displacement=0.0, samples_per_period=32, rtol=1e-4, tolerance=0.05,
-             integrator="rk4", g=STANDARD_GRAVITY):
+             integrator="rk4", g=STANDARD_GRAVITY, velocity_exponent=1.0,
+             dashpot_coefficient=None):
     """Simulate the building mode with its pendulum damper in time.
 
     .. math::
@@ -116,6 +117,13 @@ def simulate(modal_mass, frequency, structural_damping, damper_mass, length, dam
         with local error control, slow reference) [-].
     g : float
         Acceleration of gravity [m/s^2].
+    velocity_exponent : float
+        Exponent alpha of the nonlinear model's dashpot F = C |v_h|^alpha sign(v_h), in
+        (0, 2]; with alpha != 1 give ``dashpot_coefficient`` [-].
+    dashpot_coefficient : float or None
+        Coefficient C of that law, > 0 [N (s/m)^alpha]; None: the linear dashpot of
+        ``damper_damping``. The linearised model keeps the linear dashpot of
+        ``damper_damping``, so the departure shows the law's effect too [N (s/m)^alpha].
 
     Returns
     -------
@@ -175,7 +183,7 @@ def simulate(modal_mass, frequency, structural_damping, damper_mass, length, dam
        Appl. Math. 6(1):19-26 (1980) (the DOP853 family in scipy).
     """
     p = _system(modal_mass, frequency, structural_damping, damper_mass, length, damper_damping,
-                g)
+                g, velocity_exponent, dashpot_coefficient)
     if load is not None and not isinstance(load, (HarmonicForce, RandomForce)):
         raise ValueError(f"load={load!r} must be a HarmonicForce, a RandomForce or None")
     T = _scalar("duration", duration, 0.0, 1e6, low_open=True, unit="s")
@@ -264,7 +272,8 @@ def simulate(modal_mass, frequency, structural_damping, damper_mass, length, dam
             def zeff(xh):
                 return math.nan
             notes.append("free vibration: no effective damping is identified")
-    nonlinear = _response(xn, vn, acc_nl, thn, wn, p.L * np.sin(thn), zeff(xn))
+    nonlinear = _response(xn, vn, acc_nl, thn, wn, p.L * np.sin(thn), zeff(xn),
+                          _tension(p, acc_nl, thn, wn))
     linear = _response(z[:, 0], z[:, 2], acc_lin, z[:, 1] / p.L, z[:, 3] / p.L, z[:, 1],
                        zeff(z[:, 0]))
     bare = _response(zb[:, 0], zb[:, 1], acc_bare, zeta_eff=zeff(zb[:, 0]))

@@ -11,7 +11,8 @@ __all__ = ["simulation_summary"]
 
 def simulation_summary(modal_mass, frequency, structural_damping, damper_mass, length,
                        damper_damping, load_type, force, load_frequency, duration=600.0,
-                       seed=0, tolerance=0.05, g=STANDARD_GRAVITY):
+                       seed=0, tolerance=0.05, g=STANDARD_GRAVITY, velocity_exponent=1.0,
+                       dashpot_coefficient=None):
     """Key numbers of a nonlinear damper simulation, flat inputs.
 
     .. math::
@@ -48,6 +49,10 @@ def simulation_summary(modal_mass, frequency, structural_damping, damper_mass, l
         Accepted departure of nonlinear from linear RMS response [-].
     g : float
         Acceleration of gravity [m/s^2].
+    velocity_exponent : float
+        Exponent alpha of the nonlinear model's dashpot F = C |v|^alpha, in (0, 2] [-].
+    dashpot_coefficient : float or None
+        Its coefficient C (None: the linear dashpot of ``damper_damping``) [N (s/m)^alpha].
 
     Returns
     -------
@@ -81,5 +86,7 @@ def simulation_summary(modal_mass, frequency, structural_damping, damper_mass, l
     else:
         load = RandomForce(force, load_frequency, seed=seed)
     res = simulate(modal_mass, frequency, structural_damping, damper_mass, length,
-                   damper_damping, load, duration, tolerance=tolerance, g=g)
+                   damper_damping, load, duration, tolerance=tolerance, g=g,
+                   velocity_exponent=velocity_exponent,
+                   dashpot_coefficient=dashpot_coefficient)
     return res.summary()

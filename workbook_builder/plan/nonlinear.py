@@ -184,6 +184,8 @@ def nonlinear_sheet(options: PlanOptions) -> SheetLayout:
     row = put(sh, row, "Damper damping on the hanger's small-angle frequency",
                ("sim", "damper_damping"), "-", "zeta_d f_d / f_L: the dashpot c_d designed on "
                                                 "the Calculation sheet")
+    row = put(sh, row, "Dashpot law of the exact model", ("sim", "dashpot_law"), "",
+               ("sim", "dashpot_law_note"))
     row = put(sh, row, "Record length (after the warm-up)", ("sim", "record_length"), "s",
                "project file, [simulation] duration", fmt="0.0")
     row = put(sh, row, "Warm-up simulated and discarded", ("sim", "warmup"), "s",
@@ -263,6 +265,13 @@ def nonlinear_sheet(options: PlanOptions) -> SheetLayout:
                f'=IFERROR(sim_frequency_at_swing/damper_frequency-1,"{NOT_DEFINED}")', "-",
                "0 at the design swing; the hanger runs fast at smaller swings and slow at "
                "larger ones")
+    row = put(sh, row, "Peak tension of all hangers together (exact pendulum)",
+               ("sim", "tension_peak"), "N", "radial equation of the mass over the record "
+               "(functions.simulation.model)", "sim_tension_peak", "#,##0")
+    row = put(sh, row, "Free-swing bound at the simulated peak swing",
+               "=damper_mass*gravity*(3-2*COS(RADIANS(sim_swing_deg)))", "N",
+               "m_d g (3 - 2 cos theta): a free swing of that amplitude, at the bottom",
+               fmt="#,##0")
     row = put(sh, row, "Largest departure, exact pendulum against linearised",
                ("sim", "departure"), "-", ("sim", "departure_quantity"), "sim_departure")
     row = put(sh, row, "Accepted departure", ("sim", "tolerance"), "-",

@@ -51,6 +51,15 @@ def _floors(project: Any, key: str, *index: int) -> Any:
             }[key]()
 
 
+def _law(run: Any) -> tuple[str, str]:
+    """The dashpot law of the exact model and its note, as the Nonlinear sheet states them."""
+    if run.dashpot_coefficient is None:
+        return "linear", "F = c_d v, the dashpot designed on the Calculation sheet"
+    return (f"C |v|^{run.velocity_exponent:g}",
+            f"C = {run.dashpot_coefficient:.6g} N (s/m)^alpha, the Supply sheet's dashpots "
+            "(velocity-exponent law); the linearised model keeps the linear c_d")
+
+
 def _simulation(run: Any, key: str) -> Any:
     sim, st = run.result, run.settings
     theory = sim.theory
@@ -67,6 +76,8 @@ def _simulation(run: Any, key: str) -> Any:
         "departure_quantity": sim.departure_quantity, "tolerance": st.tolerance,
         "verdict": sim.verdict, "notes": "\n".join(sim.notes) or "-",
         "substeps_note": f"{sim.substeps} Runge-Kutta steps per output step",
+        "tension_peak": sim.nonlinear.tension_peak,
+        "dashpot_law": _law(run)[0], "dashpot_law_note": _law(run)[1],
         "load_description": (f"white noise through a low-pass filter (corner at the mode's "
                              f"frequency), seed {st.seed}" if st.load == "random" else
                              "sine at the mode's frequency (resonance of the bare building)")
