@@ -103,7 +103,7 @@ def supply_sheet(options: PlanOptions) -> SheetLayout:
     numbers = step_numbers(options)
     sh.label(1, 1, "Damper supply specification", Looks.TITLE)
     sh.label(2, 1, "Project", Looks.BOLD)
-    sh.text(2, 2, ("info", "title"), Looks.WRAP)
+    sh.text(2, 2, ("info", "title"))
     sh.merge(2, 2, 2, last)
     sh.label(3, 1, "Project no. / revision", Looks.BOLD)
     sh.text(3, 2, ("info", "number"))
