@@ -15,6 +15,10 @@ name of the topic modules is re-exported here, imported on first use::
                   damper force, Melbourne & Palmer comfort criterion, floor ordinate
     directions    one pendulum mass for two sway directions: springs, dashpots, combined
                   stroke and swing
+    dashpots      linear and velocity-exponent dashpots: equivalent damping (equal energy,
+                  statistical linearisation), coefficient, power, peak force
+    suspension    hangers (tension, breaking load, stretch), mass block, folded stages,
+                  space, buffer contact
     optima        numerical optima (h2, hinf) on a damped structure, reached through
                   damper.optimal_tuning (no public names of its own)
     quantities    every quantity of the design declared once (name, symbol, unit, range, ...)
@@ -33,7 +37,8 @@ __version__ = "0.5.0"
 #: (PEP 562), so ``import functions.quantities`` or the ``swaytune --version`` command does not
 #: pay for scipy's start-up.
 TOPICS = ("pendulum", "structure", "closed_forms", "damper", "optima", "envelope", "levels",
-          "quantities", "worksheet", "chain", "design", "study", "simulation", "directions")
+          "quantities", "worksheet", "chain", "design", "study", "simulation", "directions",
+          "dashpots", "suspension")
 
 
 def _topic(name: str) -> Any:

@@ -153,3 +153,39 @@ def test_bad_inputs_name_the_key(key, value, message):
 def test_a_block_taller_than_the_space_is_refused():
     with pytest.raises(ValueError, match="available_height"):
         design_damper(**{**TOWER, "available_height": 1.0})
+
+
+def _evaluate(formula: str, values: dict):
+    """A formula evaluated by the workbook builder's evaluator over defined names."""
+    from openpyxl import Workbook
+    from openpyxl.workbook.defined_name import DefinedName
+    from workbook_builder.xlsx.formulas import Evaluator
+    wb = Workbook()
+    ws = wb.active
+    ws.title = "V"
+    for i, (name, v) in enumerate(values.items(), start=1):
+        ws.cell(i, 1, float(v))
+        wb.defined_names.add(DefinedName(name, attr_text=f"V!$A${i}"))
+    return Evaluator(wb).evaluate(formula, "V")
+
+
+@pytest.mark.parametrize("alpha, level, two, clearance", [
+    (0.15, "service", False, 1.6), (0.5, "extreme", True, 1.0), (1.0, "service", True, 1.6),
+    (1.4, "extreme", False, 0.9), (2.0, "service", False, 1.6)])
+def test_every_supply_formula_equals_its_numpy_twin(alpha, level, two, clearance):
+    """The worksheet formula of each step of the part, evaluated as a spreadsheet would,
+    equals the engine's value (the twins' rule, functions/worksheet.py)."""
+    kw = dict(TOWER, velocity_exponent=alpha, dashpot_level=level, clearance=clearance,
+              **(SECOND if two else {}))
+    result = design_damper(**kw)
+    names = {s.name for sec in sections("h2", "required", result.parts)
+             if sec.title.split(maxsplit=1)[1].startswith(("Dashpots", "Hangers", "Forces"))
+             for s in sec.steps}
+    assert len(names) >= 35
+    from functions.chain import steps
+    for step in steps("h2", "required", result.parts):
+        if step.name not in names:
+            continue
+        got = _evaluate(step.formula, {n: result.cells[n] for n in step.reads})
+        want = result.cells[step.name]
+        assert got == pytest.approx(want, rel=1e-13, abs=1e-300), step.name
