@@ -96,6 +96,28 @@ def check_range(name: str, value: Any, low: float = -math.inf, high: float = mat
     return arr
 
 
+def positive(name: str, value: Any, unit: str = "") -> np.ndarray:
+    """:func:`check_range` over (0, inf), the range of most physical arguments.
+
+    Examples
+    --------
+    >>> positive("length", 2.0, "m")
+    array(2.)
+    """
+    return check_range(name, value, 0.0, low_open=True, unit=unit)
+
+
+def non_negative(name: str, value: Any, unit: str = "") -> np.ndarray:
+    """:func:`check_range` over [0, inf).
+
+    Examples
+    --------
+    >>> non_negative("stroke", 0.0, "m")
+    array(0.)
+    """
+    return check_range(name, value, 0.0, unit=unit)
+
+
 def broadcast(**arrays: Any) -> list[np.ndarray]:
     """Broadcast named arrays together or raise a ValueError naming them and their shapes.
 

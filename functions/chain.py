@@ -39,7 +39,7 @@ from functions.envelope import BAND_METHODS, band_mass_ratio, band_worst_case, r
 from functions.levels import LEVEL_FORMS
 from functions.pendulum import pendulum_length, small_angle_error
 from functions.steps import Section, Step, closed_form as _step, engine_value as _engine, \
-    from_form as _as_step
+    from_form as _as_step, second_of
 from functions.worksheet import renamed, twin
 
 __all__ = ["Step", "Section", "MASS_RATIO_MODES", "mass_ratio_mode", "sections", "steps",
@@ -399,10 +399,8 @@ _SECOND = {"tuning_ratio": "tuning_ratio_2", "damper_damping": "damper_damping_2
 
 
 def _second_of(step: Step) -> Step:
-    """Direction 2's copy of a direction-1 step (its names renamed; an engine value guarded by
-    the direction-2 copy of its flag)."""
-    return Step(_SECOND[step.name], renamed(step.compute, _SECOND), step.expression + " (dir. 2)",
-                step.source, flag=step.flag and step.flag + "_2")
+    """Direction 2's copy of a direction-1 step (:func:`functions.steps.second_of`)."""
+    return second_of(step, _SECOND)
 
 
 def _second_direction_section(method: str, core: tuple[Section, ...]) -> Section:

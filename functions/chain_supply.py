@@ -17,7 +17,7 @@ from __future__ import annotations
 
 from functions.dashpots import DASHPOT_FORMS
 from functions.quantities_supply import SECOND_DIRECTION_SUPPLY
-from functions.steps import Section, Step, closed_form, from_form
+from functions.steps import Section, Step, closed_form, from_form, second_of
 from functions.suspension import SUSPENSION_FORMS
 from functions.worksheet import renamed
 
@@ -60,17 +60,9 @@ def _forms(names: tuple[str, ...], forms: dict, swing: dict | None = None) -> li
     for name in names:
         form = forms[name]
         if swing and set(form.worksheet.names) & set(swing):
-            out.append(Step(name, renamed(form, swing), form.worksheet.expression
-                            + " (combined swing)", form.worksheet.source))
-        else:
-            out.append(from_form(name, form))
+            form = renamed(form, swing, form.worksheet.expression + " (combined swing)")
+        out.append(from_form(name, form))
     return out
-
-
-def _second(step: Step, names: dict[str, str]) -> Step:
-    """Direction 2's copy of a main-direction step (every name it reads renamed)."""
-    return Step(names[step.name], renamed(step.compute, names), step.expression + " (dir. 2)",
-                step.source)
 
 
 def supply_sections(parts: tuple[str, ...], second_names: dict[str, str]) -> list[Section]:
@@ -124,10 +116,10 @@ def supply_sections(parts: tuple[str, ...], second_names: dict[str, str]) -> lis
                     "buffer_deflection": "combined_buffer_deflection",
                     "buffer_force": "combined_buffer_force"}
         out.append(Section("Dashpots and forces, second direction", (
-            *(_second(first[n], names) for n in SECOND_DIRECTION_SUPPLY),
-            *(Step(combined[n], renamed(SUSPENSION_FORMS[n], combined),
-                   SUSPENSION_FORMS[n].worksheet.expression + " (both directions)",
-                   SUSPENSION_FORMS[n].worksheet.source)
+            *(second_of(first[n], names) for n in SECOND_DIRECTION_SUPPLY),
+            *(from_form(combined[n], renamed(
+                SUSPENSION_FORMS[n], combined,
+                SUSPENSION_FORMS[n].worksheet.expression + " (both directions)"))
               for n in ("buffer_deflection", "buffer_force")),
         ), "Direction 2's dashpots follow the same law, number of units and wind level, "
            "sized for its own dashpot constant c_2 and velocity; its restoring stiffness "

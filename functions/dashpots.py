@@ -42,9 +42,10 @@ from typing import Any, Callable
 import numpy as np
 from scipy.special import gammaln
 
-from functions._validation import broadcast, check_range, scalar_or_array
+from functions._validation import (broadcast, check_range, non_negative, positive,
+                                   scalar_or_array)
 from functions.damper import peak_factor
-from functions.worksheet import twin
+from functions.worksheet import renamed, twin
 
 __all__ = [
     "VELOCITY_EXPONENTS", "RESPONSES", "DASHPOT_FORMS", "energy_constant",
@@ -70,19 +71,21 @@ def _exponent(value) -> np.ndarray:
                        unit="-")
 
 
-def _positive(name: str, value, unit: str) -> np.ndarray:
-    return check_range(name, value, 0.0, low_open=True, unit=unit)
-
-
-def _non_negative(name: str, value, unit: str) -> np.ndarray:
-    return check_range(name, value, 0.0, unit=unit)
-
-
 def _response(response) -> str:
     text = response.strip().lower() if isinstance(response, str) else None
     if text not in RESPONSES:
         raise ValueError(f"response={response!r} must be one of: {', '.join(RESPONSES)}")
     return text
+
+
+def _law_arguments(name, value, unit, velocity_exponent, velocity, response,
+                   velocity_check=positive):
+    """The response text and the broadcast (constant, exponent, velocity) of a law function."""
+    kind = _response(response)
+    c = non_negative(name, value, unit)
+    a = _exponent(velocity_exponent)
+    v = velocity_check("velocity", velocity, "m/s")
+    return (kind, *broadcast(**{name: c, "velocity_exponent": a, "velocity": v}))
 
 
 def _lambda(a):
@@ -266,11 +269,8 @@ def equivalent_dashpot(coefficient, velocity_exponent, velocity, response="rando
     1. S. J. Elliott, M. Ghandchi Tehrani, R. S. Langley, "Nonlinear damping and quasi-linear
        modelling", Phil. Trans. R. Soc. A 373 (2015) 20140402.
     """
-    kind = _response(response)
-    c = _non_negative("coefficient", coefficient, "N (s/m)^alpha")
-    a = _exponent(velocity_exponent)
-    v = _positive("velocity", velocity, "m/s")
-    c, a, v = broadcast(coefficient=c, velocity_exponent=a, velocity=v)
+    kind, c, a, v = _law_arguments("coefficient", coefficient, "N (s/m)^alpha",
+                                   velocity_exponent, velocity, response)
     return scalar_or_array(_per_velocity(a, kind) * c * v ** (a - 1.0))
 
 
@@ -323,11 +323,8 @@ def dashpot_coefficient(dashpot, velocity_exponent, velocity, response="random")
     1. S. J. Elliott, M. Ghandchi Tehrani, R. S. Langley, "Nonlinear damping and quasi-linear
        modelling", Phil. Trans. R. Soc. A 373 (2015) 20140402.
     """
-    kind = _response(response)
-    c = _non_negative("dashpot", dashpot, "N s/m")
-    a = _exponent(velocity_exponent)
-    v = _positive("velocity", velocity, "m/s")
-    c, a, v = broadcast(dashpot=c, velocity_exponent=a, velocity=v)
+    kind, c, a, v = _law_arguments("dashpot", dashpot, "N s/m", velocity_exponent, velocity,
+                                   response)
     return scalar_or_array(c / (_per_velocity(a, kind) * v ** (a - 1.0)))
 
 
@@ -380,11 +377,8 @@ def mean_dashpot_power(coefficient, velocity_exponent, velocity, response="rando
     1. S. J. Elliott, M. Ghandchi Tehrani, R. S. Langley, "Nonlinear damping and quasi-linear
        modelling", Phil. Trans. R. Soc. A 373 (2015) 20140402.
     """
-    kind = _response(response)
-    c = _non_negative("coefficient", coefficient, "N (s/m)^alpha")
-    a = _exponent(velocity_exponent)
-    v = _non_negative("velocity", velocity, "m/s")
-    c, a, v = broadcast(coefficient=c, velocity_exponent=a, velocity=v)
+    kind, c, a, v = _law_arguments("coefficient", coefficient, "N (s/m)^alpha",
+                                   velocity_exponent, velocity, response, non_negative)
     factor = _kappa(a) if kind == "random" else _lambda(a) / _TWO_PI
     return scalar_or_array(factor * c * v ** (1.0 + a))
 
@@ -448,8 +442,8 @@ def peak_force_bound(spring_force, dashpot_force, velocity_exponent):
     2. A. K. Chopra, Dynamics of Structures, 4th ed., Prentice Hall, 2012, ch. 3 (forces of a
        harmonically vibrating spring and damper).
     """
-    fk = _non_negative("spring_force", spring_force, "N")
-    fd = _non_negative("dashpot_force", dashpot_force, "N")
+    fk = non_negative("spring_force", spring_force, "N")
+    fd = non_negative("dashpot_force", dashpot_force, "N")
     a = _exponent(velocity_exponent)
     fk, fd, a = broadcast(spring_force=fk, dashpot_force=fd, velocity_exponent=a)
     return scalar_or_array(_bound(fk, fd, a))
@@ -470,6 +464,11 @@ _P = "(2/(2-MIN(velocity_exponent,1)))"
 
 def _form(formula: str, expression: str, source: str, compute: Callable[..., Any]):
     return twin(formula, compute, expression, source)
+
+
+#: The service level's names and the extreme level's: the extreme forms are the same closed
+#: forms renamed (functions.worksheet.renamed).
+_AT_EXTREME = {"stroke": "extreme_stroke", "damper_velocity": "extreme_damper_velocity"}
 
 
 def _random_damping(c, a, v, g, m, f):
@@ -494,10 +493,6 @@ DASHPOT_FORMS: dict[str, Callable[..., Any]] = {
     "damper_velocity": _form(
         "=2*PI()*structure_frequency*stroke", "2 pi f_s x_d", _HARMONIC,
         lambda structure_frequency, stroke: _TWO_PI * structure_frequency * stroke),
-    "extreme_damper_velocity": _form(
-        "=2*PI()*structure_frequency*extreme_stroke", "2 pi f_s x_d,x", _HARMONIC,
-        lambda structure_frequency, extreme_stroke: _TWO_PI * structure_frequency
-        * extreme_stroke),
     "dashpot_reference_force": _form(
         f"=dashpot*dashpot_reference_velocity*peak_factor^(velocity_exponent-1)/({_KAPPA})",
         "c v_ref g^(a-1) / kappa(a): C with c_eq = c at sigma = v_ref / g, times v_ref^a",
@@ -526,32 +521,11 @@ DASHPOT_FORMS: dict[str, Callable[..., Any]] = {
         damper_frequency: _harmonic_damping(
             dashpot_coefficient, velocity_exponent, damper_velocity, damper_mass,
             damper_frequency)),
-    "extreme_dashpot_damping_random": _form(
-        f"={_KAPPA}*dashpot_coefficient*(extreme_damper_velocity/peak_factor)"
-        "^(velocity_exponent-1)/(4*PI()*damper_mass*damper_frequency)",
-        "kappa(a) C (v_x / g)^(a-1) / (2 m_d 2 pi f_d)", _EGTL + " (statistical linearisation)",
-        lambda dashpot_coefficient, velocity_exponent, extreme_damper_velocity, peak_factor,
-        damper_mass, damper_frequency: _random_damping(
-            dashpot_coefficient, velocity_exponent, extreme_damper_velocity, peak_factor,
-            damper_mass, damper_frequency)),
-    "extreme_dashpot_damping_harmonic": _form(
-        f"={_LAMBDA}/PI()*dashpot_coefficient*extreme_damper_velocity^(velocity_exponent-1)"
-        "/(4*PI()*damper_mass*damper_frequency)",
-        "lambda(a) C v_x^(a-1) / pi / (2 m_d 2 pi f_d)", _EGTL + " (equal energy per cycle)",
-        lambda dashpot_coefficient, velocity_exponent, extreme_damper_velocity, damper_mass,
-        damper_frequency: _harmonic_damping(
-            dashpot_coefficient, velocity_exponent, extreme_damper_velocity, damper_mass,
-            damper_frequency)),
     "dashpot_unit_force": _form(
         "=dashpot_coefficient*damper_velocity^velocity_exponent/dashpot_units",
         "C v^a / n", "Dashpot law F = C |v|^a sign(v), shared by n equal units",
         lambda dashpot_coefficient, damper_velocity, velocity_exponent, dashpot_units:
         dashpot_coefficient * damper_velocity ** velocity_exponent / dashpot_units),
-    "extreme_dashpot_unit_force": _form(
-        "=dashpot_coefficient*extreme_damper_velocity^velocity_exponent/dashpot_units",
-        "C v_x^a / n", "Dashpot law F = C |v|^a sign(v), shared by n equal units",
-        lambda dashpot_coefficient, extreme_damper_velocity, velocity_exponent, dashpot_units:
-        dashpot_coefficient * extreme_damper_velocity ** velocity_exponent / dashpot_units),
     "dashpot_power": _form(
         f"={_KAPPA}*dashpot_coefficient*(damper_velocity/peak_factor)^(1+velocity_exponent)",
         "kappa(a) C (v / g)^(1+a), all units, random response",
@@ -559,14 +533,6 @@ DASHPOT_FORMS: dict[str, Callable[..., Any]] = {
         lambda dashpot_coefficient, velocity_exponent, damper_velocity, peak_factor:
         _kappa(velocity_exponent) * dashpot_coefficient
         * (damper_velocity / peak_factor) ** (1.0 + velocity_exponent)),
-    "extreme_dashpot_power": _form(
-        f"={_KAPPA}*dashpot_coefficient*(extreme_damper_velocity/peak_factor)"
-        "^(1+velocity_exponent)",
-        "kappa(a) C (v_x / g)^(1+a), all units, random response",
-        _EGTL + " (mean power E[F v] of a Gaussian velocity)",
-        lambda dashpot_coefficient, velocity_exponent, extreme_damper_velocity, peak_factor:
-        _kappa(velocity_exponent) * dashpot_coefficient
-        * (extreme_damper_velocity / peak_factor) ** (1.0 + velocity_exponent)),
     "extreme_dashpot_heat": _form(
         "=extreme_dashpot_power*3600", "P_x * 3600 s: heat in one hour [J]",
         "Energy = mean power times duration",
@@ -580,16 +546,14 @@ DASHPOT_FORMS: dict[str, Callable[..., Any]] = {
         lambda stiffness, stroke, dashpot_coefficient, damper_velocity, velocity_exponent:
         _bound(stiffness * stroke, dashpot_coefficient * damper_velocity ** velocity_exponent,
                velocity_exponent)),
-    "extreme_horizontal_force": _form(
-        f"=((stiffness*extreme_stroke)^{_P}+(dashpot_coefficient*extreme_damper_velocity"
-        f"^velocity_exponent)^{_P})^(1/{_P})",
-        "(F_k^p + F_d^p)^(1/p), F_k = k x_d,x, F_d = C v_x^a, p = 2 / (2 - min(a, 1))",
-        "Hoelder's inequality (Hardy, Littlewood & Polya, Inequalities, 1952, Th. 13): an upper "
-        "bound, exact for a linear dashpot",
-        lambda stiffness, extreme_stroke, dashpot_coefficient, extreme_damper_velocity,
-        velocity_exponent: _bound(
-            stiffness * extreme_stroke,
-            dashpot_coefficient * extreme_damper_velocity ** velocity_exponent,
-            velocity_exponent)),
 }
-
+DASHPOT_FORMS.update({
+    "extreme_" + name: renamed(DASHPOT_FORMS[name], _AT_EXTREME, expression)
+    for name, expression in (
+        ("damper_velocity", "2 pi f_s x_d,x"),
+        ("dashpot_damping_random", "kappa(a) C (v_x / g)^(a-1) / (2 m_d 2 pi f_d)"),
+        ("dashpot_damping_harmonic", "lambda(a) C v_x^(a-1) / pi / (2 m_d 2 pi f_d)"),
+        ("dashpot_unit_force", "C v_x^a / n"),
+        ("dashpot_power", "kappa(a) C (v_x / g)^(1+a), all units, random response"),
+        ("horizontal_force", "(F_k^p + F_d^p)^(1/p), F_k = k x_d,x, F_d = C v_x^a, "
+                             "p = 2 / (2 - min(a, 1))"))})

@@ -43,7 +43,8 @@ from typing import Any, Callable, NamedTuple
 
 import numpy as np
 
-from functions._validation import broadcast, check_range, scalar_or_array
+from functions._validation import (broadcast, check_range, non_negative, positive,
+                                   scalar_or_array)
 from functions.pendulum import small_angle_error, swing_angle
 from functions.worksheet import twin
 
@@ -67,16 +68,8 @@ _TWO_PI = 2.0 * np.pi
 # --------------------------------------------------------------------------------------------
 # arguments and kernels (the public functions and the worksheet twins share the kernels)
 # --------------------------------------------------------------------------------------------
-def _positive(name: str, value, unit: str) -> np.ndarray:
-    return check_range(name, value, 0.0, low_open=True, unit=unit)
-
-
 def _ratio(name: str, value) -> np.ndarray:
     return check_range(name, value, 0.0, 1.0, low_open=True, high_open=True, unit="-")
-
-
-def _non_negative(name: str, value, unit: str) -> np.ndarray:
-    return check_range(name, value, 0.0, unit=unit)
 
 
 def _with_damper(a, zs, zeta):
@@ -178,12 +171,12 @@ def extreme_response(extreme_acceleration, structural_damping, effective_damping
     2. D. E. Newland, An Introduction to Random Vibrations, Spectral & Wavelet Analysis, 3rd ed.,
        Longman, 1993, Appendix 1.
     """
-    a = _positive("extreme_acceleration", extreme_acceleration, "m/s^2")
+    a = positive("extreme_acceleration", extreme_acceleration, "m/s^2")
     zs = _ratio("structural_damping", structural_damping)
     zeta = _ratio("effective_damping", effective_damping)
-    ratio = _positive("stroke_ratio", stroke_ratio, "-")
-    fs = _positive("frequency", frequency, "Hz")
-    phi = _positive("floor_ordinate", floor_ordinate, "-")
+    ratio = positive("stroke_ratio", stroke_ratio, "-")
+    fs = positive("frequency", frequency, "Hz")
+    phi = positive("floor_ordinate", floor_ordinate, "-")
     a, zs, zeta, ratio, fs, phi = broadcast(
         extreme_acceleration=a, structural_damping=zs, effective_damping=zeta,
         stroke_ratio=ratio, frequency=fs, floor_ordinate=phi)
@@ -241,9 +234,9 @@ def extreme_acceleration_from_displacement(displacement_without_damper, frequenc
     1. A. K. Chopra, Dynamics of Structures, 4th ed., Prentice Hall, 2012, ch. 3 (harmonic
        motion) and ch. 12 (modal coordinates).
     """
-    x = _positive("displacement_without_damper", displacement_without_damper, "m")
-    fs = _positive("frequency", frequency, "Hz")
-    phi = _positive("floor_ordinate", floor_ordinate, "-")
+    x = positive("displacement_without_damper", displacement_without_damper, "m")
+    fs = positive("frequency", frequency, "Hz")
+    phi = positive("floor_ordinate", floor_ordinate, "-")
     x, fs, phi = broadcast(displacement_without_damper=x, frequency=fs, floor_ordinate=phi)
     return scalar_or_array(phi * (_TWO_PI * fs) ** 2 * x)
 
@@ -308,8 +301,8 @@ def extreme_swing(extreme_stroke, pendulum_length, design_swing_deg=0.0):
     ----------
     1. Abramowitz & Stegun, Handbook of Mathematical Functions (NBS AMS-55, 1964), §17.2.
     """
-    x = _non_negative("extreme_stroke", extreme_stroke, "m")
-    length = _positive("pendulum_length", pendulum_length, "m")
+    x = non_negative("extreme_stroke", extreme_stroke, "m")
+    length = positive("pendulum_length", pendulum_length, "m")
     design = check_range("design_swing_deg", design_swing_deg, 0.0, 180.0, high_open=True,
                          unit="deg")
     x, length, design = broadcast(extreme_stroke=x, pendulum_length=length,
@@ -368,8 +361,8 @@ def buffer_excess(stroke, clearance):
     ----------
     1. Plane geometry (no published source needed).
     """
-    a = _non_negative("stroke", stroke, "m")
-    c = _non_negative("clearance", clearance, "m")
+    a = non_negative("stroke", stroke, "m")
+    c = non_negative("clearance", clearance, "m")
     a, c = broadcast(stroke=a, clearance=c)
     return scalar_or_array(np.maximum(0.0, a - c))
 
@@ -422,9 +415,9 @@ def contact_velocity(stroke, clearance, frequency):
     1. A. K. Chopra, Dynamics of Structures, 4th ed., Prentice Hall, 2012, ch. 3 (harmonic
        motion).
     """
-    a = _non_negative("stroke", stroke, "m")
-    c = _non_negative("clearance", clearance, "m")
-    f = _positive("frequency", frequency, "Hz")
+    a = non_negative("stroke", stroke, "m")
+    c = non_negative("clearance", clearance, "m")
+    f = positive("frequency", frequency, "Hz")
     a, c, f = broadcast(stroke=a, clearance=c, frequency=f)
     return scalar_or_array(_contact(a, c, f))
 
@@ -473,7 +466,7 @@ def buffer_energy(damper_mass, stroke, clearance, frequency):
     ----------
     1. A. K. Chopra, Dynamics of Structures, 4th ed., Prentice Hall, 2012, ch. 3.
     """
-    m = _positive("damper_mass", damper_mass, "kg")
+    m = positive("damper_mass", damper_mass, "kg")
     v = np.asarray(contact_velocity(stroke, clearance, frequency))
     m, v = broadcast(damper_mass=m, contact_velocity=v)
     return scalar_or_array(0.5 * m * v * v)
@@ -528,10 +521,10 @@ def peak_damper_force(stroke, stiffness, dashpot, frequency):
     1. A. K. Chopra, Dynamics of Structures, 4th ed., Prentice Hall, 2012, ch. 3 (forces of a
        harmonically vibrating spring and damper).
     """
-    a = _non_negative("stroke", stroke, "m")
-    k = _positive("stiffness", stiffness, "N/m")
-    c = _non_negative("dashpot", dashpot, "N s/m")
-    f = _positive("frequency", frequency, "Hz")
+    a = non_negative("stroke", stroke, "m")
+    k = positive("stiffness", stiffness, "N/m")
+    c = non_negative("dashpot", dashpot, "N s/m")
+    f = positive("frequency", frequency, "Hz")
     a, k, c, f = broadcast(stroke=a, stiffness=k, dashpot=c, frequency=f)
     return scalar_or_array(_force(a, k, c, f))
 
@@ -593,7 +586,7 @@ def melbourne_palmer_limit(frequency, return_period, duration=600.0):
     n = check_range("frequency", frequency, low, high, low_open=True, high_open=True,
                     unit="Hz")
     r = check_range("return_period", return_period, *RETURN_PERIODS, unit="years")
-    t = _positive("duration", duration, "s")
+    t = positive("duration", duration, "s")
     n, r, t = broadcast(frequency=n, return_period=r, duration=t)
     nt = n * t
     if np.any(nt <= np.e):
@@ -647,9 +640,9 @@ def power_law_floor_ordinate(occupied_height, damper_height, exponent):
     ----------
     1. EN 1991-1-4:2005, Eurocode 1: Actions on structures - Wind actions, Annex F, (F.3).
     """
-    z = _positive("occupied_height", occupied_height, "m")
-    zd = _positive("damper_height", damper_height, "m")
-    k = _positive("exponent", exponent, "-")
+    z = positive("occupied_height", occupied_height, "m")
+    zd = positive("damper_height", damper_height, "m")
+    k = positive("exponent", exponent, "-")
     z, zd, k = broadcast(occupied_height=z, damper_height=zd, exponent=k)
     return scalar_or_array((z / zd) ** k)
 

@@ -31,8 +31,8 @@ from __future__ import annotations
 import inspect
 from typing import Iterable
 
-from functions.quantity import (OPTIONAL, REQUIRED, UNIT_KINDS, Quantity, declare,
-                                second_direction)
+from functions.quantity import (LENGTH_FMT, OPTIONAL, REQUIRED, UNIT_KINDS, Quantity,
+                                declare, second_direction)
 from functions.quantities_supply import SUPPLY_INPUTS, SUPPLY_RESULTS, SUPPLY_RESULTS_2
 from functions.relations import (ENVELOPE_INPUTS, OPTIONAL_TABLES, SUPPLY_INPUT_NAMES,
                                  input_relation_errors)
@@ -51,9 +51,7 @@ _q = declare
 
 
 _PRACTICE = "Common practice, no source."
-#: Display format of lengths: 4 decimals below 10 m, 3 below 100 m, then 2 (5 significant
-#: digits from 1 m to 1000 m, 3 or 4 below).
-_LENGTH_FMT = "[<10]0.0000;[<100]0.000;0.00"
+_LENGTH_FMT = LENGTH_FMT
 
 #: Inputs of the design chain (``functions.design.DesignInputs``), in the order of the
 #: workbook's Inputs sheet.

@@ -12,13 +12,13 @@ to its groups; the physics is in :mod:`functions.dashpots` and :mod:`functions.s
 """
 from __future__ import annotations
 
-from functions.quantity import OPTIONAL, Quantity, declare, second_direction
+from functions.quantity import LENGTH_FMT, OPTIONAL, Quantity, declare, second_direction
 
 __all__ = ["SUPPLY_INPUTS", "SUPPLY_RESULTS", "SUPPLY_RESULTS_2", "SUPPLY_TABLE",
            "DASHPOT_LEVELS", "SECOND_DIRECTION_SUPPLY"]
 
 _q = declare
-_LENGTH_FMT = "[<10]0.0000;[<100]0.000;0.00"
+_LENGTH_FMT = LENGTH_FMT
 _FORCE_FMT = "#,##0"
 _RATIO_FMT = "0.000000"
 

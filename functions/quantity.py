@@ -15,10 +15,15 @@ from typing import Any
 
 from functions._validation import check_range, interval_text
 
-__all__ = ["Quantity", "REQUIRED", "OPTIONAL", "UNIT_KINDS", "INF", "declare",
+__all__ = ["Quantity", "REQUIRED", "OPTIONAL", "UNIT_KINDS", "INF", "declare", "LENGTH_FMT",
            "second_direction"]
 
 INF = math.inf
+
+
+#: Display format of lengths: 4 decimals below 10 m, 3 below 100 m, then 2 (5 significant
+#: digits from 1 m to 1000 m, 3 or 4 below).
+LENGTH_FMT = "[<10]0.0000;[<100]0.000;0.00"
 
 
 class _Marker:

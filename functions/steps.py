@@ -14,9 +14,9 @@ import inspect
 from dataclasses import dataclass
 from typing import Any, Callable
 
-from functions.worksheet import form_of, twin
+from functions.worksheet import form_of, renamed, twin
 
-__all__ = ["Step", "Section", "closed_form", "from_form", "engine_value"]
+__all__ = ["Step", "Section", "closed_form", "from_form", "engine_value", "second_of"]
 
 
 @dataclass(frozen=True)
@@ -88,3 +88,10 @@ def engine_value(name: str, compute: Callable[..., Any], expression: str, source
                  flag: str) -> Step:
     """An engine value (no closed form), guarded by the flag named ``flag``."""
     return Step(name, compute, expression, source, flag=flag)
+
+
+def second_of(step: Step, names: dict[str, str]) -> Step:
+    """Direction 2's copy of a main-direction step: every name it reads, and its own, renamed
+    by ``names``; an engine value guarded by the direction-2 copy of its flag."""
+    return Step(names[step.name], renamed(step.compute, names), step.expression + " (dir. 2)",
+                step.source, flag=step.flag and step.flag + "_2")

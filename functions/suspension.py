@@ -31,9 +31,10 @@ from typing import Any, Callable, NamedTuple
 
 import numpy as np
 
-from functions._validation import broadcast, check_range, scalar_or_array
+from functions._validation import (broadcast, check_range, non_negative, positive,
+                                   scalar_or_array)
 from functions.pendulum import STANDARD_GRAVITY
-from functions.worksheet import twin
+from functions.worksheet import renamed, twin
 
 __all__ = [
     "SUSPENSION_FORMS", "hanger_tension", "minimum_breaking_load", "hanger_stretch",
@@ -45,14 +46,6 @@ __all__ = [
 # --------------------------------------------------------------------------------------------
 # arguments and kernels (the public functions and the worksheet twins share the kernels)
 # --------------------------------------------------------------------------------------------
-def _positive(name: str, value, unit: str) -> np.ndarray:
-    return check_range(name, value, 0.0, low_open=True, unit=unit)
-
-
-def _non_negative(name: str, value, unit: str) -> np.ndarray:
-    return check_range(name, value, 0.0, unit=unit)
-
-
 def _count(name: str, value) -> np.ndarray:
     n = check_range(name, value, 1.0, unit="-")
     whole = n == np.round(n)
@@ -135,10 +128,10 @@ def hanger_tension(damper_mass, amplitude_deg, hanger_count=1, g=STANDARD_GRAVIT
     1. J. L. Meriam, L. G. Kraige, Engineering Mechanics: Dynamics, 7th ed., Wiley, 2012,
        ch. 3 (normal and tangential coordinates; work and energy).
     """
-    m = _positive("damper_mass", damper_mass, "kg")
+    m = positive("damper_mass", damper_mass, "kg")
     theta = check_range("amplitude_deg", amplitude_deg, 0.0, 90.0, unit="deg")
     n = _count("hanger_count", hanger_count)
-    gg = _positive("g", g, "m/s^2")
+    gg = positive("g", g, "m/s^2")
     m, theta, n, gg = broadcast(damper_mass=m, amplitude_deg=theta, hanger_count=n, g=gg)
     return scalar_or_array(_peak_tension(m, gg, theta, n))
 
@@ -182,7 +175,7 @@ def minimum_breaking_load(tension, safety_factor):
     ----------
     1. Definition of a safety factor on the breaking load (common practice, no source).
     """
-    t = _non_negative("tension", tension, "N")
+    t = non_negative("tension", tension, "N")
     s = check_range("safety_factor", safety_factor, 1.0, unit="-")
     t, s = broadcast(tension=t, safety_factor=s)
     return scalar_or_array(t * s)
@@ -230,9 +223,9 @@ def hanger_stretch(tension, length, axial_stiffness):
     1. S. P. Timoshenko, J. M. Gere, Mechanics of Materials, Van Nostrand Reinhold, 1972,
        ch. 1 (axially loaded bars).
     """
-    t = _non_negative("tension", tension, "N")
-    length_ = _positive("length", length, "m")
-    ea = _positive("axial_stiffness", axial_stiffness, "N")
+    t = non_negative("tension", tension, "N")
+    length_ = positive("length", length, "m")
+    ea = positive("axial_stiffness", axial_stiffness, "N")
     t, length_, ea = broadcast(tension=t, length=length_, axial_stiffness=ea)
     return scalar_or_array(t * length_ / ea)
 
@@ -277,8 +270,8 @@ def stretch_frequency_error(length, stretch):
     1. Abramowitz & Stegun, Handbook of Mathematical Functions (NBS AMS-55, 1964), §17.2
        (small-swing period 2 pi sqrt(L/g)).
     """
-    length_ = _positive("length", length, "m")
-    d = _non_negative("stretch", stretch, "m")
+    length_ = positive("length", length, "m")
+    d = non_negative("stretch", stretch, "m")
     length_, d = broadcast(length=length_, stretch=d)
     return scalar_or_array(_frequency_error(length_, d))
 
@@ -338,10 +331,10 @@ def mass_block(damper_mass, density, plan_length_1, plan_length_2):
     ----------
     1. Geometry of a prism and the definition of density (no published source needed).
     """
-    m = _positive("damper_mass", damper_mass, "kg")
-    rho = _positive("density", density, "kg/m^3")
-    b1 = _positive("plan_length_1", plan_length_1, "m")
-    b2 = _positive("plan_length_2", plan_length_2, "m")
+    m = positive("damper_mass", damper_mass, "kg")
+    rho = positive("density", density, "kg/m^3")
+    b1 = positive("plan_length_1", plan_length_1, "m")
+    b2 = positive("plan_length_2", plan_length_2, "m")
     m, rho, b1, b2 = broadcast(damper_mass=m, density=rho, plan_length_1=b1,
                                plan_length_2=b2)
     volume = m / rho
@@ -405,9 +398,9 @@ def pendulum_stages(length, available_height, block_height):
     1. Statics of a pendulum in small swings (restoring force W x / L per stage) — textbook
        result, common practice, no source; see :func:`functions.pendulum.folded_pendulum_length`.
     """
-    length_ = _positive("length", length, "m")
-    big_h = _positive("available_height", available_height, "m")
-    h = _positive("block_height", block_height, "m")
+    length_ = positive("length", length, "m")
+    big_h = positive("available_height", available_height, "m")
+    h = positive("block_height", block_height, "m")
     length_, big_h, h = broadcast(length=length_, available_height=big_h, block_height=h)
     n = _stage_count(length_, big_h, h)
     stage = length_ / n
@@ -453,8 +446,8 @@ def swing_space(block_length, clearance):
     ----------
     1. Plane geometry (no published source needed).
     """
-    b = _positive("block_length", block_length, "m")
-    c = _non_negative("clearance", clearance, "m")
+    b = positive("block_length", block_length, "m")
+    c = non_negative("clearance", clearance, "m")
     b, c = broadcast(block_length=b, clearance=c)
     return scalar_or_array(b + 2.0 * c)
 
@@ -516,9 +509,9 @@ def buffer_contact(contact_velocity, damper_mass, buffer_stiffness):
     1. J. L. Meriam, L. G. Kraige, Engineering Mechanics: Dynamics, 7th ed., Wiley, 2012,
        ch. 3 (work and energy of a linear spring).
     """
-    v = _non_negative("contact_velocity", contact_velocity, "m/s")
-    m = _positive("damper_mass", damper_mass, "kg")
-    k = _positive("buffer_stiffness", buffer_stiffness, "N/m")
+    v = non_negative("contact_velocity", contact_velocity, "m/s")
+    m = positive("damper_mass", damper_mass, "kg")
+    k = positive("buffer_stiffness", buffer_stiffness, "N/m")
     v, m, k = broadcast(contact_velocity=v, damper_mass=m, buffer_stiffness=k)
     return BufferContact(scalar_or_array(v * np.sqrt(m / k)), scalar_or_array(v * np.sqrt(m * k)))
 
@@ -548,11 +541,6 @@ SUSPENSION_FORMS: dict[str, Callable[..., Any]] = {
         "m_d g (3 - 2 cos theta_0) / n", _TENSION,
         lambda damper_mass, gravity, swing_angle_deg, hanger_count:
         _peak_tension(damper_mass, gravity, swing_angle_deg, hanger_count)),
-    "extreme_hanger_tension": _form(
-        "=damper_mass*gravity*(3-2*COS(RADIANS(extreme_swing_deg)))/hanger_count",
-        "m_d g (3 - 2 cos theta_x) / n", _TENSION,
-        lambda damper_mass, gravity, extreme_swing_deg, hanger_count:
-        _peak_tension(damper_mass, gravity, extreme_swing_deg, hanger_count)),
     "hanger_breaking_load": _form(
         "=hanger_safety_factor*extreme_hanger_tension", "gamma T_x",
         "Safety factor on the breaking load, the designer's choice",
@@ -594,9 +582,6 @@ SUSPENSION_FORMS: dict[str, Callable[..., Any]] = {
     "plan_space_1": _form(
         "=block_length_1+2*clearance", "b_1 + 2 c", "Geometry",
         lambda block_length_1, clearance: block_length_1 + 2.0 * clearance),
-    "plan_space_2": _form(
-        "=block_length_2+2*clearance", "b_2 + 2 c", "Geometry",
-        lambda block_length_2, clearance: block_length_2 + 2.0 * clearance),
     "static_vertical_load": _form(
         "=damper_mass*gravity", "m_d g", "Statics",
         lambda damper_mass, gravity: damper_mass * gravity),
@@ -614,3 +599,10 @@ SUSPENSION_FORMS: dict[str, Callable[..., Any]] = {
         lambda contact_velocity, damper_mass, buffer_stiffness:
         contact_velocity * np.sqrt(damper_mass * buffer_stiffness)),
 }
+SUSPENSION_FORMS.update({
+    "extreme_hanger_tension": renamed(SUSPENSION_FORMS["hanger_peak_tension"],
+                                      {"swing_angle_deg": "extreme_swing_deg"},
+                                      "m_d g (3 - 2 cos theta_x) / n"),
+    "plan_space_2": renamed(SUSPENSION_FORMS["plan_space_1"],
+                            {"block_length_1": "block_length_2"}, "b_2 + 2 c"),
+})

@@ -63,6 +63,7 @@ def _law(run: Any) -> tuple[str, str]:
 def _simulation(run: Any, key: str) -> Any:
     sim, st = run.result, run.settings
     theory = sim.theory
+    law, law_note = _law(run)
     values = {
         "load": st.load, "force": run.force, "load_factor": st.load_factor,
         "peak_factor": run.peak_factor, "load_frequency": run.load_frequency,
@@ -77,7 +78,7 @@ def _simulation(run: Any, key: str) -> Any:
         "verdict": sim.verdict, "notes": "\n".join(sim.notes) or "-",
         "substeps_note": f"{sim.substeps} Runge-Kutta steps per output step",
         "tension_peak": sim.nonlinear.tension_peak,
-        "dashpot_law": _law(run)[0], "dashpot_law_note": _law(run)[1],
+        "dashpot_law": law, "dashpot_law_note": law_note,
         "load_description": (f"white noise through a low-pass filter (corner at the mode's "
                              f"frequency), seed {st.seed}" if st.load == "random" else
                              "sine at the mode's frequency (resonance of the bare building)")
