@@ -1,5 +1,8 @@
 # SPDX-License-Identifier: MIT
-"""The declaration of one quantity (functions.quantity): ranges, validation, direction 2."""
+"""The declaration of one quantity (functions.quantity): ranges, validation, direction 2.
+
+Behaviour tests of our own rules: common practice, no source.
+"""
 from __future__ import annotations
 
 import math

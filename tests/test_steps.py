@@ -1,5 +1,8 @@
 # SPDX-License-Identifier: MIT
-"""Steps of the design chain (functions.steps): the three kinds and what they read."""
+"""Steps of the design chain (functions.steps): the three kinds and what they read.
+
+Behaviour tests of our own rules: common practice, no source.
+"""
 from __future__ import annotations
 
 import pytest
